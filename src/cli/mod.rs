@@ -1,0 +1,40 @@
+//! The command line: argument parsing and the glue that calls the library. One file per
+//! subcommand, each with its `Args` and a `run`.
+
+pub mod check;
+pub mod input;
+
+use clap::{Parser, Subcommand};
+
+/// Bayesian estimation of biological sex from skeletal evidence.
+///
+/// Estimates, not identifications. Forensic casework needs validated methods, accredited
+/// practice and local rules. Biological sex is not gender.
+#[derive(Debug, Parser)]
+#[command(name = "dimorph", version, about, long_about = None)]
+pub struct Cli {
+    /// What to do.
+    #[command(subcommand)]
+    pub command: Command,
+}
+
+/// The subcommands.
+#[derive(Debug, Subcommand)]
+pub enum Command {
+    /// Validate an input table and summarise how complete it is; lists every problem.
+    Check(check::Args),
+}
+
+/// Run a parsed command line; returns the process exit code.
+pub fn run(cli: Cli) -> i32 {
+    let result = match cli.command {
+        Command::Check(args) => check::run(args),
+    };
+    match result {
+        Ok(code) => code,
+        Err(e) => {
+            eprintln!("dimorph: {e}");
+            e.exit_code()
+        }
+    }
+}

@@ -1,0 +1,314 @@
+//! Giving every header column its role: id, group, age, known sex, a trait (and side), or a
+//! column carried through unchanged.
+
+use super::problem::{Problem, ProblemKind, Warning, WarningKind};
+use crate::catalogue::Catalogue;
+use std::collections::HashMap;
+
+/// Which side a trait column records.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Hash)]
+pub enum Side {
+    /// No side (midline trait, or side not recorded).
+    Unsided,
+    /// `<id>_l`.
+    Left,
+    /// `<id>_r`.
+    Right,
+}
+
+/// What a column holds.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum ColumnRole {
+    /// The individual's identifier.
+    Id,
+    /// Burial zone, phase or site.
+    Group,
+    /// Age at death.
+    Age,
+    /// Sex of a documented reference individual.
+    KnownSex,
+    /// A catalogue trait (index in catalogue order) on a side.
+    Trait {
+        /// Position in the catalogue.
+        index: usize,
+        /// Side recorded.
+        side: Side,
+    },
+    /// Not used as evidence; carried to every output unchanged.
+    Carried,
+}
+
+/// Header matching ignores case and surrounding spaces.
+pub fn normalise(name: &str) -> String {
+    name.trim()
+        .trim_start_matches('\u{FEFF}')
+        .trim()
+        .to_lowercase()
+}
+
+/// Assign roles to the header's columns, reporting header problems and likely misspellings.
+///
+/// With `group_column`, that column holds the groups (and a column named `group`, if any, is
+/// carried through instead).
+pub fn assign_roles(
+    file: &str,
+    header: &[String],
+    catalogue: &Catalogue,
+    group_column: Option<&str>,
+) -> (Vec<ColumnRole>, Vec<Problem>, Vec<Warning>) {
+    let group_column = group_column.map(normalise);
+    let mut roles = Vec::with_capacity(header.len());
+    let mut problems = Vec::new();
+    let mut warnings = Vec::new();
+    let mut seen: HashMap<String, usize> = HashMap::new();
+    let problem = |column: &str, kind, expected: String| Problem {
+        file: file.to_string(),
+        row: Some(1),
+        column: Some(column.to_string()),
+        value: None,
+        kind,
+        expected,
+    };
+    for (i, raw) in header.iter().enumerate() {
+        let name = normalise(raw);
+        if let Some(&first) = seen.get(&name) {
+            if !name.is_empty() {
+                problems.push(problem(
+                    raw,
+                    ProblemKind::DuplicateColumn,
+                    format!(
+                        "each column name once; `{}` is also column {} (names are compared ignoring case and surrounding spaces)",
+                        header[first].trim(),
+                        first + 1
+                    ),
+                ));
+            }
+        }
+        seen.entry(name.clone()).or_insert(i);
+        let role = match name.as_str() {
+            n if Some(n) == group_column.as_deref() => ColumnRole::Group,
+            "id" => ColumnRole::Id,
+            "group" if group_column.is_none() => ColumnRole::Group,
+            "group" => ColumnRole::Carried,
+            "age" => ColumnRole::Age,
+            "known_sex" => ColumnRole::KnownSex,
+            _ => trait_role(&name, catalogue).unwrap_or(ColumnRole::Carried),
+        };
+        if role == ColumnRole::Carried && !name.is_empty() {
+            if let Some(suggestion) = near_miss(&name, catalogue) {
+                warnings.push(Warning {
+                    file: file.to_string(),
+                    row: Some(1),
+                    column: Some(raw.trim().to_string()),
+                    kind: WarningKind::PossibleMisspelling,
+                    message: format!(
+                        "not a trait id, so it is carried through unused; did you mean `{suggestion}`?"
+                    ),
+                });
+            }
+        }
+        roles.push(role);
+    }
+    if !roles.contains(&ColumnRole::Id) {
+        let first = header.first().map(|h| h.trim()).unwrap_or("");
+        let hint = if header.len() == 1 && (first.contains('|') || first.contains(' ')) {
+            " (the header has a single column: is the file separated by something other than comma, semicolon or tab?)"
+        } else {
+            ""
+        };
+        problems.push(Problem {
+            file: file.to_string(),
+            row: Some(1),
+            column: None,
+            value: Some(header.join(" | ")),
+            kind: ProblemKind::MissingIdColumn,
+            expected: format!("a column named `id` in the header row{hint}"),
+        });
+    }
+    if let Some(g) = &group_column {
+        if !roles.contains(&ColumnRole::Group) {
+            problems.push(Problem {
+                file: file.to_string(),
+                row: Some(1),
+                column: None,
+                value: Some(g.clone()),
+                kind: ProblemKind::MissingGroupColumn,
+                expected: format!(
+                    "a column named `{g}` to group by; the header has: {}",
+                    header
+                        .iter()
+                        .map(|h| h.trim())
+                        .collect::<Vec<_>>()
+                        .join(", ")
+                ),
+            });
+        }
+    }
+    // A trait may come unsided or sided, not both.
+    for (index, def) in catalogue.traits().iter().enumerate() {
+        let has = |side| roles.contains(&ColumnRole::Trait { index, side });
+        if has(Side::Unsided) && (has(Side::Left) || has(Side::Right)) {
+            problems.push(problem(
+                &def.id,
+                ProblemKind::AmbiguousSideColumns,
+                format!(
+                    "either `{0}` or `{0}_l` / `{0}_r`, not both: say which side the unsided value is",
+                    def.id
+                ),
+            ));
+        }
+    }
+    (roles, problems, warnings)
+}
+
+fn trait_role(name: &str, catalogue: &Catalogue) -> Option<ColumnRole> {
+    if let Some(index) = catalogue.position(name) {
+        return Some(ColumnRole::Trait {
+            index,
+            side: Side::Unsided,
+        });
+    }
+    for (suffix, side) in [("_l", Side::Left), ("_r", Side::Right)] {
+        if let Some(base) = name.strip_suffix(suffix) {
+            if let Some(index) = catalogue.position(base) {
+                if catalogue.traits()[index].bilateral {
+                    return Some(ColumnRole::Trait { index, side });
+                }
+            }
+        }
+    }
+    None
+}
+
+/// A known column name this one is probably a misspelling of: the same after replacing
+/// spaces, hyphens and dots by underscores, or within Damerau–Levenshtein distance 2
+/// (1 for names of five characters or fewer).
+fn near_miss(name: &str, catalogue: &Catalogue) -> Option<String> {
+    let squashed: String = name
+        .chars()
+        .map(|c| if matches!(c, ' ' | '-' | '.') { '_' } else { c })
+        .collect();
+    let mut candidates: Vec<String> = ["id", "group", "age", "known_sex"]
+        .iter()
+        .map(|s| s.to_string())
+        .collect();
+    for t in catalogue.traits() {
+        candidates.push(t.id.clone());
+        if t.bilateral {
+            candidates.push(format!("{}_l", t.id));
+            candidates.push(format!("{}_r", t.id));
+        }
+    }
+    if let Some(c) = candidates.iter().find(|c| **c == squashed) {
+        return Some(c.clone());
+    }
+    if name.chars().count() < 4 {
+        return None;
+    }
+    let limit = if name.chars().count() <= 5 { 1 } else { 2 };
+    candidates
+        .iter()
+        .map(|c| (strsim::damerau_levenshtein(&squashed, c), c))
+        .filter(|(d, _)| *d <= limit)
+        .min_by_key(|(d, _)| *d)
+        .map(|(_, c)| c.clone())
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    fn assign_roles_(
+        f: &str,
+        h: &[String],
+        c: &Catalogue,
+    ) -> (Vec<ColumnRole>, Vec<Problem>, Vec<Warning>) {
+        assign_roles(f, h, c, None)
+    }
+
+    #[test]
+    fn group_by_another_column() {
+        let cat = Catalogue::standard();
+        let (roles, p, _) =
+            assign_roles("f", &header(&["id", "group", "Phase"]), &cat, Some("phase"));
+        assert!(p.is_empty());
+        assert_eq!(roles[1], ColumnRole::Carried);
+        assert_eq!(roles[2], ColumnRole::Group);
+        let (_, p, _) = assign_roles("f", &header(&["id", "zone"]), &cat, Some("phase"));
+        assert_eq!(p[0].kind, ProblemKind::MissingGroupColumn);
+    }
+
+    fn header(cols: &[&str]) -> Vec<String> {
+        cols.iter().map(|s| s.to_string()).collect()
+    }
+
+    #[test]
+    fn roles_sides_and_carried_columns() {
+        let cat = Catalogue::standard();
+        let (roles, problems, warnings) = assign_roles_(
+            "f",
+            &header(&[
+                " ID ",
+                "Glabella",
+                "mastoid_l",
+                "MASTOID_R",
+                "grave_goods",
+                "Group",
+            ]),
+            &cat,
+        );
+        assert!(problems.is_empty() && warnings.is_empty());
+        let m = cat.position("mastoid").unwrap();
+        assert_eq!(roles[0], ColumnRole::Id);
+        assert_eq!(
+            roles[2],
+            ColumnRole::Trait {
+                index: m,
+                side: Side::Left
+            }
+        );
+        assert_eq!(
+            roles[3],
+            ColumnRole::Trait {
+                index: m,
+                side: Side::Right
+            }
+        );
+        assert_eq!(roles[4], ColumnRole::Carried);
+        assert_eq!(roles[5], ColumnRole::Group);
+    }
+
+    #[test]
+    fn midline_traits_have_no_sides() {
+        let cat = Catalogue::standard();
+        let (roles, _, w) = assign_roles_("f", &header(&["id", "glabella_l"]), &cat);
+        assert_eq!(roles[1], ColumnRole::Carried);
+        assert_eq!(w.len(), 1, "glabella_l is close to glabella");
+    }
+
+    #[test]
+    fn header_problems() {
+        let cat = Catalogue::standard();
+        let (_, p, _) = assign_roles_("f", &header(&["name", "glabella"]), &cat);
+        assert_eq!(p[0].kind, ProblemKind::MissingIdColumn);
+        let (_, p, _) = assign_roles_("f", &header(&["id", "Glabella", "glabella "]), &cat);
+        assert_eq!(p[0].kind, ProblemKind::DuplicateColumn);
+        let (_, p, _) = assign_roles_("f", &header(&["id", "mastoid", "mastoid_r"]), &cat);
+        assert_eq!(p[0].kind, ProblemKind::AmbiguousSideColumns);
+        let (_, p, _) = assign_roles_("f", &header(&["id|glabella|mastoid"]), &cat);
+        assert!(p[0].expected.contains("single column"));
+    }
+
+    #[test]
+    fn misspellings_are_flagged() {
+        let cat = Catalogue::standard();
+        let (_, _, w) = assign_roles_(
+            "f",
+            &header(&["id", "glabela", "femur head diameter_l", "mastiod", "notes"]),
+            &cat,
+        );
+        let cols: Vec<_> = w.iter().map(|w| w.column.clone().unwrap()).collect();
+        assert_eq!(cols, vec!["glabela", "femur head diameter_l", "mastiod"]);
+        assert!(w[1].message.contains("femur_head_diameter_l"));
+    }
+}

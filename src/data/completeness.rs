@@ -1,0 +1,229 @@
+//! How complete an assemblage is: individuals, groups, maturity, and how often each trait
+//! and each body region survives. This is what `dimorph check` reports.
+
+use super::age::{Maturity, ADULT_AGE_YEARS};
+use super::problem::Warning;
+use super::reader::{Assemblage, SideUsed};
+use crate::catalogue::Region;
+use serde::Serialize;
+use std::collections::BTreeMap;
+
+/// How often one trait was recorded.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct TraitCompleteness {
+    /// Trait id.
+    pub trait_id: String,
+    /// Body region.
+    pub region: Region,
+    /// Individuals with the trait recorded.
+    pub recorded: usize,
+    /// Share of all individuals, 0–1.
+    pub share: f64,
+    /// Of those, recorded as a grade range rather than one grade.
+    pub as_range: usize,
+    /// Taken from the left side.
+    pub left: usize,
+    /// Taken from the right side.
+    pub right: usize,
+    /// Both sides joined.
+    pub both: usize,
+}
+
+/// How often a body region has at least one trait recorded.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct RegionCompleteness {
+    /// The region.
+    pub region: Region,
+    /// Traits of this region with a column in the file.
+    pub traits_in_file: usize,
+    /// Individuals with at least one trait of the region recorded.
+    pub individuals: usize,
+    /// Share of all individuals, 0–1.
+    pub share: f64,
+}
+
+/// Individuals per group.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct GroupCount {
+    /// Group name (`(none)` for rows without a group).
+    pub group: String,
+    /// Individuals.
+    pub individuals: usize,
+}
+
+/// The summary `dimorph check` prints.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct Completeness {
+    /// The file.
+    pub file: String,
+    /// SHA-256 of the file.
+    pub sha256: String,
+    /// Individuals (rows).
+    pub individuals: usize,
+    /// Adults at the minimum age.
+    pub adults: usize,
+    /// Below the minimum age.
+    pub subadults: usize,
+    /// Age not recorded, or straddling the minimum age.
+    pub maturity_unknown: usize,
+    /// The minimum age used to count adults.
+    pub minimum_age: f64,
+    /// Individuals with no trait recorded.
+    pub without_evidence: usize,
+    /// Individuals with a documented sex (reference samples).
+    pub with_known_sex: usize,
+    /// Individuals per group, in name order.
+    pub groups: Vec<GroupCount>,
+    /// Per trait with a column in the file, in catalogue order.
+    pub traits: Vec<TraitCompleteness>,
+    /// Per region with at least one trait column in the file.
+    pub regions: Vec<RegionCompleteness>,
+    /// Columns carried through unchanged.
+    pub carried_columns: Vec<String>,
+    /// Warnings found while reading.
+    pub warnings: Vec<Warning>,
+}
+
+impl Completeness {
+    /// Summarise an assemblage; adults are those at or above `minimum_age` years
+    /// (default [`ADULT_AGE_YEARS`]).
+    pub fn of(a: &Assemblage, minimum_age: Option<f64>) -> Completeness {
+        let minimum_age = minimum_age.unwrap_or(ADULT_AGE_YEARS);
+        let n = a.individuals.len();
+        let share = |k: usize| if n == 0 { 0.0 } else { k as f64 / n as f64 };
+        let (mut adults, mut subadults, mut unknown) = (0, 0, 0);
+        for ind in &a.individuals {
+            match ind.age.map(|x| x.maturity(minimum_age)) {
+                Some(Maturity::Adult) => adults += 1,
+                Some(Maturity::Subadult) => subadults += 1,
+                _ => unknown += 1,
+            }
+        }
+        let mut groups: BTreeMap<String, usize> = BTreeMap::new();
+        if a.individuals.iter().any(|i| i.group.is_some()) {
+            for ind in &a.individuals {
+                *groups
+                    .entry(ind.group.clone().unwrap_or_else(|| "(none)".into()))
+                    .or_default() += 1;
+            }
+        }
+        let mut traits = Vec::new();
+        for (t, def) in a.catalogue.traits().iter().enumerate() {
+            if !a.trait_columns[t] {
+                continue;
+            }
+            let mut c = TraitCompleteness {
+                trait_id: def.id.clone(),
+                region: def.region,
+                recorded: 0,
+                share: 0.0,
+                as_range: 0,
+                left: 0,
+                right: 0,
+                both: 0,
+            };
+            for ind in &a.individuals {
+                if let Some(o) = &ind.observations[t] {
+                    c.recorded += 1;
+                    c.as_range += usize::from(o.is_range());
+                    match ind.sides[t] {
+                        Some(SideUsed::Left) => c.left += 1,
+                        Some(SideUsed::Right) => c.right += 1,
+                        Some(SideUsed::Both) => c.both += 1,
+                        _ => {}
+                    }
+                }
+            }
+            c.share = share(c.recorded);
+            traits.push(c);
+        }
+        let mut regions = Vec::new();
+        for region in Region::ALL {
+            let idx: Vec<usize> = (0..a.catalogue.len())
+                .filter(|&t| a.trait_columns[t] && a.catalogue.traits()[t].region == region)
+                .collect();
+            if idx.is_empty() {
+                continue;
+            }
+            let k = a
+                .individuals
+                .iter()
+                .filter(|ind| idx.iter().any(|&t| ind.observations[t].is_some()))
+                .count();
+            regions.push(RegionCompleteness {
+                region,
+                traits_in_file: idx.len(),
+                individuals: k,
+                share: share(k),
+            });
+        }
+        Completeness {
+            file: a.file.clone(),
+            sha256: a.sha256.clone(),
+            individuals: n,
+            adults,
+            subadults,
+            maturity_unknown: unknown,
+            minimum_age,
+            without_evidence: a.individuals.iter().filter(|i| i.n_observed() == 0).count(),
+            with_known_sex: a
+                .individuals
+                .iter()
+                .filter(|i| i.known_sex.is_some())
+                .count(),
+            groups: groups
+                .into_iter()
+                .map(|(group, individuals)| GroupCount { group, individuals })
+                .collect(),
+            traits,
+            regions,
+            carried_columns: a.carried_columns.clone(),
+            warnings: a.warnings.clone(),
+        }
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::catalogue::Catalogue;
+    use crate::data::{read_assemblage_text, ReadSettings};
+
+    #[test]
+    fn counts_traits_regions_groups_and_maturity() {
+        let text = "id,group,age,glabella,mastoid_l,mastoid_r,ventral_arc_l,notes\n\
+                    A,n,30,3,2,,1,x\nB,n,12,,,3-4,,y\nC,s,,,,,,z\n";
+        let a = read_assemblage_text(
+            "t",
+            text.as_bytes(),
+            &Catalogue::standard(),
+            &ReadSettings::default(),
+        )
+        .unwrap();
+        let c = Completeness::of(&a, None);
+        assert_eq!(
+            (c.individuals, c.adults, c.subadults, c.maturity_unknown),
+            (3, 1, 1, 1)
+        );
+        assert_eq!(c.without_evidence, 1);
+        assert_eq!(c.groups.len(), 2);
+        assert_eq!(c.groups[0].individuals, 2);
+        let mastoid = c.traits.iter().find(|t| t.trait_id == "mastoid").unwrap();
+        assert_eq!(
+            (
+                mastoid.recorded,
+                mastoid.as_range,
+                mastoid.left,
+                mastoid.right
+            ),
+            (2, 1, 1, 1)
+        );
+        let cranium = &c.regions[0];
+        assert_eq!(
+            (cranium.region, cranium.traits_in_file, cranium.individuals),
+            (Region::Cranium, 2, 2)
+        );
+        assert!((cranium.share - 2.0 / 3.0).abs() < 1e-12);
+        assert_eq!(c.regions.len(), 2);
+    }
+}

@@ -1,0 +1,185 @@
+//! Problems (stop the run) and warnings (reported, run continues) found in an input file.
+
+use serde::Serialize;
+use std::fmt;
+
+/// What sort of problem a cell, row or header has. The word in brackets is the stable code
+/// written in JSON output.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Hash, Serialize)]
+#[serde(rename_all = "snake_case")]
+#[non_exhaustive]
+pub enum ProblemKind {
+    /// The file could not be opened or read (`unreadable`).
+    Unreadable,
+    /// The bytes are not UTF-8 text (`not_utf8`).
+    NotUtf8,
+    /// The file has no header row or no data rows (`empty`).
+    Empty,
+    /// The header lacks the `id` column (`missing_id_column`).
+    MissingIdColumn,
+    /// The column named to group by is not in the header (`missing_group_column`).
+    MissingGroupColumn,
+    /// Two columns have the same name after normalisation (`duplicate_column`).
+    DuplicateColumn,
+    /// A trait appears both unsided and sided (`ambiguous_side_columns`).
+    AmbiguousSideColumns,
+    /// A row has a different number of fields from the header (`field_count`).
+    FieldCount,
+    /// An id is empty (`missing_id`).
+    MissingId,
+    /// An id occurs twice (`duplicate_id`).
+    DuplicateId,
+    /// An ordinal score is not a grade of the trait's scale (`grade_out_of_range`).
+    GradeOutOfRange,
+    /// A cell could not be read as what its column holds (`unreadable_value`).
+    UnreadableValue,
+    /// A measurement lies outside the trait's plausible range (`implausible_measurement`).
+    ImplausibleMeasurement,
+    /// The age could not be read (`bad_age`).
+    BadAge,
+    /// The known sex is not a recognised word (`bad_known_sex`).
+    BadKnownSex,
+    /// DNA read counts come in pairs (`unpaired_reads`).
+    UnpairedReads,
+    /// A requested sheet does not exist, or the workbook cannot be read (`bad_workbook`).
+    BadWorkbook,
+}
+
+impl ProblemKind {
+    /// The stable snake_case code.
+    pub fn code(self) -> &'static str {
+        match self {
+            ProblemKind::Unreadable => "unreadable",
+            ProblemKind::NotUtf8 => "not_utf8",
+            ProblemKind::Empty => "empty",
+            ProblemKind::MissingIdColumn => "missing_id_column",
+            ProblemKind::MissingGroupColumn => "missing_group_column",
+            ProblemKind::DuplicateColumn => "duplicate_column",
+            ProblemKind::AmbiguousSideColumns => "ambiguous_side_columns",
+            ProblemKind::FieldCount => "field_count",
+            ProblemKind::MissingId => "missing_id",
+            ProblemKind::DuplicateId => "duplicate_id",
+            ProblemKind::GradeOutOfRange => "grade_out_of_range",
+            ProblemKind::UnreadableValue => "unreadable_value",
+            ProblemKind::ImplausibleMeasurement => "implausible_measurement",
+            ProblemKind::BadAge => "bad_age",
+            ProblemKind::BadKnownSex => "bad_known_sex",
+            ProblemKind::UnpairedReads => "unpaired_reads",
+            ProblemKind::BadWorkbook => "bad_workbook",
+        }
+    }
+}
+
+/// One problem in an input file, located as precisely as possible.
+///
+/// `row` is the row number a spreadsheet shows (the header is row 1).
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct Problem {
+    /// The file, as given by the user.
+    pub file: String,
+    /// Spreadsheet row number (header = 1), where the problem belongs to a row.
+    pub row: Option<usize>,
+    /// Column name as written in the header, where the problem belongs to a column.
+    pub column: Option<String>,
+    /// The offending value as written.
+    pub value: Option<String>,
+    /// What sort of problem.
+    pub kind: ProblemKind,
+    /// What was expected, in words.
+    pub expected: String,
+}
+
+impl fmt::Display for Problem {
+    fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
+        write!(f, "{}", self.file)?;
+        if let Some(r) = self.row {
+            write!(f, ", row {r}")?;
+        }
+        if let Some(c) = &self.column {
+            write!(f, ", column `{c}`")?;
+        }
+        if let Some(v) = &self.value {
+            write!(f, ": found `{}`", printable(v))?;
+        }
+        write!(f, ": {}", self.expected)
+    }
+}
+
+/// What sort of warning.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Hash, Serialize)]
+#[serde(rename_all = "snake_case")]
+#[non_exhaustive]
+pub enum WarningKind {
+    /// A column name is close to a trait id (`possible_misspelling`).
+    PossibleMisspelling,
+    /// Both sides were recorded and differ by more than the tolerance (`sides_disagree`).
+    SidesDisagree,
+    /// Decimal commas were read as decimal points (`decimal_comma`).
+    DecimalComma,
+    /// A row has no trait observed at all (`no_evidence`).
+    NoEvidence,
+}
+
+/// Something a person should look at; the run goes on.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct Warning {
+    /// The file.
+    pub file: String,
+    /// Spreadsheet row number, where it belongs to a row.
+    pub row: Option<usize>,
+    /// Column (or columns) concerned.
+    pub column: Option<String>,
+    /// What sort of warning.
+    pub kind: WarningKind,
+    /// The message in words.
+    pub message: String,
+}
+
+impl fmt::Display for Warning {
+    fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
+        write!(f, "{}", self.file)?;
+        if let Some(r) = self.row {
+            write!(f, ", row {r}")?;
+        }
+        if let Some(c) = &self.column {
+            write!(f, ", column `{c}`")?;
+        }
+        write!(f, ": {}", self.message)
+    }
+}
+
+/// Render a value for a message: control characters escaped, long values shortened.
+pub(crate) fn printable(v: &str) -> String {
+    let mut out: String = v.chars().take(60).flat_map(char::escape_debug).collect();
+    if v.chars().count() > 60 {
+        out.push('…');
+    }
+    out
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn display_names_file_row_column_value_and_expectation() {
+        let p = Problem {
+            file: "a.csv".into(),
+            row: Some(7),
+            column: Some("glabella".into()),
+            value: Some("7".into()),
+            kind: ProblemKind::GradeOutOfRange,
+            expected: "a grade from 1 to 5".into(),
+        };
+        assert_eq!(
+            p.to_string(),
+            "a.csv, row 7, column `glabella`: found `7`: a grade from 1 to 5"
+        );
+    }
+
+    #[test]
+    fn printable_escapes_and_shortens() {
+        assert_eq!(printable("a\tb"), "a\\tb");
+        assert_eq!(printable(&"x".repeat(100)).chars().count(), 61);
+    }
+}

@@ -1,0 +1,633 @@
+//! From a file to validated [`Individual`]s: every problem collected before anything is
+//! computed.
+
+use super::age::{parse_age, parse_known_sex, AgeAtDeath, Sex};
+use super::cell::{parse_count, parse_grade, parse_measurement, Observation};
+use super::columns::{assign_roles, ColumnRole, Side};
+use super::problem::{Problem, ProblemKind, Warning, WarningKind};
+use super::settings::{ReadSettings, SidePolicy};
+use super::source::{is_workbook, read_text, read_workbook, RawTable, TableFormat};
+use crate::catalogue::{Catalogue, TraitKind};
+use serde::Serialize;
+use sha2::{Digest, Sha256};
+use std::collections::HashMap;
+use std::path::Path;
+
+/// Which side an observation of a bilateral trait came from.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize)]
+#[serde(rename_all = "snake_case")]
+pub enum SideUsed {
+    /// An unsided column.
+    Unsided,
+    /// The left side.
+    Left,
+    /// The right side.
+    Right,
+    /// Both sides combined (policy `both`).
+    Both,
+}
+
+/// One individual (one row of the input), validated.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct Individual {
+    /// Identifier, unique in the file.
+    pub id: String,
+    /// Row number as a spreadsheet shows it.
+    pub row: usize,
+    /// Burial zone, phase or site.
+    pub group: Option<String>,
+    /// Age at death.
+    pub age: Option<AgeAtDeath>,
+    /// Documented sex of a reference individual.
+    pub known_sex: Option<Sex>,
+    /// One entry per catalogue trait, in catalogue order; `None` where not observed.
+    pub observations: Vec<Option<Observation>>,
+    /// The side each observation came from, aligned with `observations`.
+    pub sides: Vec<Option<SideUsed>>,
+    /// The cells of the carried columns, unchanged, aligned with
+    /// [`Assemblage::carried_columns`].
+    pub carried: Vec<String>,
+}
+
+impl Individual {
+    /// Number of traits observed.
+    pub fn n_observed(&self) -> usize {
+        self.observations.iter().filter(|o| o.is_some()).count()
+    }
+}
+
+/// A validated input table.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct Assemblage {
+    /// The file as named by the user.
+    pub file: String,
+    /// Text or workbook.
+    pub format: TableFormat,
+    /// Delimiter of a text table.
+    pub delimiter: Option<char>,
+    /// SHA-256 of the file's bytes, lower-case hex.
+    pub sha256: String,
+    /// The catalogue the columns were matched against.
+    #[serde(skip)]
+    pub catalogue: Catalogue,
+    /// For each catalogue trait, whether the file has a column for it (any side).
+    pub trait_columns: Vec<bool>,
+    /// Names (as written) of the columns carried through unchanged.
+    pub carried_columns: Vec<String>,
+    /// The individuals in file order.
+    pub individuals: Vec<Individual>,
+    /// Things a person should look at.
+    pub warnings: Vec<Warning>,
+    /// The settings the file was read with.
+    pub settings: ReadSettings,
+}
+
+/// An input file with problems: all of them, and the warnings found on the way.
+#[derive(Debug, Clone, PartialEq, Serialize, thiserror::Error)]
+#[error("{file}: {} problem{} found; nothing was computed", problems.len(), if problems.len() == 1 { "" } else { "s" })]
+pub struct InputError {
+    /// The file.
+    pub file: String,
+    /// Every problem, in row order.
+    pub problems: Vec<Problem>,
+    /// Warnings found before the problems stopped the reading.
+    pub warnings: Vec<Warning>,
+}
+
+/// Read and validate an input table (CSV, TSV, semicolon-separated text, or a workbook).
+///
+/// # Errors
+/// [`InputError`] listing every problem found in the file.
+pub fn read_assemblage(
+    path: &Path,
+    catalogue: &Catalogue,
+    settings: &ReadSettings,
+) -> Result<Assemblage, InputError> {
+    let name = path.display().to_string();
+    let fail = |problems| InputError {
+        file: name.clone(),
+        problems,
+        warnings: Vec::new(),
+    };
+    let bytes = std::fs::read(path).map_err(|e| {
+        fail(vec![Problem {
+            file: name.clone(),
+            row: None,
+            column: None,
+            value: None,
+            kind: ProblemKind::Unreadable,
+            expected: format!("a readable file ({e})"),
+        }])
+    })?;
+    let table = if is_workbook(path) {
+        read_workbook(path, settings.sheet.as_deref()).map_err(fail)?
+    } else {
+        read_text(&name, &bytes).map_err(fail)?
+    };
+    build(&name, table, sha256_hex(&bytes), catalogue, settings)
+}
+
+/// Read and validate delimited text held in memory. `name` is used in messages.
+///
+/// # Errors
+/// [`InputError`] listing every problem found.
+pub fn read_assemblage_text(
+    name: &str,
+    bytes: &[u8],
+    catalogue: &Catalogue,
+    settings: &ReadSettings,
+) -> Result<Assemblage, InputError> {
+    let table = read_text(name, bytes).map_err(|problems| InputError {
+        file: name.to_string(),
+        problems,
+        warnings: Vec::new(),
+    })?;
+    build(name, table, sha256_hex(bytes), catalogue, settings)
+}
+
+/// SHA-256 of bytes as lower-case hex.
+pub fn sha256_hex(bytes: &[u8]) -> String {
+    Sha256::digest(bytes)
+        .iter()
+        .map(|b| format!("{b:02x}"))
+        .collect()
+}
+
+struct SidedCells {
+    unsided: Option<Observation>,
+    left: Option<Observation>,
+    right: Option<Observation>,
+}
+
+fn build(
+    name: &str,
+    table: RawTable,
+    sha256: String,
+    catalogue: &Catalogue,
+    settings: &ReadSettings,
+) -> Result<Assemblage, InputError> {
+    let (roles, mut problems, mut warnings) = assign_roles(
+        name,
+        &table.header,
+        catalogue,
+        settings.group_column.as_deref(),
+    );
+    if problems.iter().any(|p| {
+        matches!(
+            p.kind,
+            ProblemKind::MissingIdColumn
+                | ProblemKind::DuplicateColumn
+                | ProblemKind::MissingGroupColumn
+        )
+    }) {
+        return Err(InputError {
+            file: name.to_string(),
+            problems,
+            warnings,
+        });
+    }
+    let col_name = |c: usize| table.header[c].trim().to_string();
+    let carried_idx: Vec<usize> = (0..roles.len())
+        .filter(|&c| roles[c] == ColumnRole::Carried && !table.header[c].trim().is_empty())
+        .collect();
+    let mut trait_columns = vec![false; catalogue.len()];
+    for r in &roles {
+        if let ColumnRole::Trait { index, .. } = r {
+            trait_columns[*index] = true;
+        }
+    }
+    let mut seen_ids: HashMap<String, usize> = HashMap::new();
+    let mut individuals = Vec::with_capacity(table.rows.len());
+    let mut comma_cells = 0usize;
+    let decimal_comma = table.decimal_comma;
+    let x_idx = catalogue.position("dna_x_reads");
+    let y_idx = catalogue.position("dna_y_reads");
+
+    for raw in &table.rows {
+        let row = raw.row;
+        let mut push = |column: usize, value: &str, kind, expected: String| {
+            problems.push(Problem {
+                file: name.to_string(),
+                row: Some(row),
+                column: Some(col_name(column)),
+                value: Some(value.to_string()),
+                kind,
+                expected,
+            })
+        };
+        let mut id = String::new();
+        let mut group = None;
+        let mut age = None;
+        let mut known_sex = None;
+        let mut written = vec![false; catalogue.len()];
+        let mut cells: Vec<SidedCells> = (0..catalogue.len())
+            .map(|_| SidedCells {
+                unsided: None,
+                left: None,
+                right: None,
+            })
+            .collect();
+        for (c, cell) in raw.cells.iter().enumerate() {
+            let missing = settings.is_missing(cell);
+            match roles[c] {
+                ColumnRole::Id => {
+                    id = cell.trim().to_string();
+                    if id.is_empty() {
+                        push(
+                            c,
+                            cell,
+                            ProblemKind::MissingId,
+                            "an identifier: every row needs one".into(),
+                        );
+                    } else if let Some(first) = seen_ids.get(&id) {
+                        push(
+                            c,
+                            cell,
+                            ProblemKind::DuplicateId,
+                            format!("a unique identifier; `{id}` is also on row {first}"),
+                        );
+                    } else {
+                        seen_ids.insert(id.clone(), row);
+                    }
+                }
+                ColumnRole::Group => {
+                    if !missing {
+                        group = Some(cell.trim().to_string());
+                    }
+                }
+                ColumnRole::Age => {
+                    if !missing {
+                        match parse_age(cell, decimal_comma) {
+                            Ok(a) => age = Some(a),
+                            Err(e) => push(c, cell, ProblemKind::BadAge, e),
+                        }
+                    }
+                }
+                ColumnRole::KnownSex => {
+                    if !missing {
+                        match parse_known_sex(cell) {
+                            Some(s) => known_sex = Some(s),
+                            None => push(
+                                c,
+                                cell,
+                                ProblemKind::BadKnownSex,
+                                "F, M, female or male (or a missing code)".into(),
+                            ),
+                        }
+                    }
+                }
+                ColumnRole::Trait { index, side } => {
+                    if missing {
+                        continue;
+                    }
+                    written[index] = true;
+                    let def = &catalogue.traits()[index];
+                    let parsed = match &def.kind {
+                        TraitKind::Ordinal { lowest, highest } => {
+                            parse_grade(cell, *lowest, *highest, settings.scale_map(&def.id))
+                        }
+                        TraitKind::Metric { unit, low, high } => {
+                            parse_measurement(cell, unit, *low, *high, decimal_comma).map(
+                                |(o, conv)| {
+                                    comma_cells += usize::from(conv);
+                                    o
+                                },
+                            )
+                        }
+                        TraitKind::Count => parse_count(cell),
+                    };
+                    match parsed {
+                        Ok(o) => {
+                            let slot = &mut cells[index];
+                            match side {
+                                Side::Unsided => slot.unsided = Some(o),
+                                Side::Left => slot.left = Some(o),
+                                Side::Right => slot.right = Some(o),
+                            }
+                        }
+                        Err((kind, expected)) => push(c, cell, kind, expected),
+                    }
+                }
+                ColumnRole::Carried => {}
+            }
+        }
+        let mut observations = Vec::with_capacity(catalogue.len());
+        let mut sides = Vec::with_capacity(catalogue.len());
+        for (index, sc) in cells.into_iter().enumerate() {
+            let def = &catalogue.traits()[index];
+            let (obs, side) = combine_sides(sc, settings.side_policy);
+            if let (Some(l), Some(r)) = (obs.1, obs.2) {
+                if let Some(msg) = sides_disagree(&l, &r, settings) {
+                    warnings.push(Warning {
+                        file: name.to_string(),
+                        row: Some(row),
+                        column: Some(format!("{0}_l, {0}_r", def.id)),
+                        kind: WarningKind::SidesDisagree,
+                        message: format!("{msg}; used: {}", settings.side_policy.as_str()),
+                    });
+                }
+            }
+            observations.push(obs.0);
+            sides.push(side);
+        }
+        if let (Some(x), Some(y)) = (x_idx, y_idx) {
+            if written[x] != written[y] {
+                let (have, lack) = if written[x] {
+                    ("dna_x_reads", "dna_y_reads")
+                } else {
+                    ("dna_y_reads", "dna_x_reads")
+                };
+                problems.push(Problem {
+                    file: name.to_string(),
+                    row: Some(row),
+                    column: Some(lack.to_string()),
+                    value: None,
+                    kind: ProblemKind::UnpairedReads,
+                    expected: format!("a read count beside `{have}`: X and Y read counts come as a pair (write 0 where no reads mapped)"),
+                });
+            }
+        }
+        if !id.is_empty() && observations.iter().all(Option::is_none) {
+            warnings.push(Warning {
+                file: name.to_string(),
+                row: Some(row),
+                column: None,
+                kind: WarningKind::NoEvidence,
+                message: format!(
+                    "`{id}` has no trait recorded: it will be reported as not estimable"
+                ),
+            });
+        }
+        individuals.push(Individual {
+            id,
+            row,
+            group,
+            age,
+            known_sex,
+            observations,
+            sides,
+            carried: carried_idx.iter().map(|&c| raw.cells[c].clone()).collect(),
+        });
+    }
+    if table.rows.is_empty() {
+        problems.push(Problem {
+            file: name.to_string(),
+            row: None,
+            column: None,
+            value: None,
+            kind: ProblemKind::Empty,
+            expected: "at least one row of data below the header".into(),
+        });
+    }
+    if comma_cells > 0 {
+        warnings.push(Warning {
+            file: name.to_string(),
+            row: None,
+            column: None,
+            kind: WarningKind::DecimalComma,
+            message: format!(
+                "{comma_cells} measurement(s) written with a decimal comma were read as decimals"
+            ),
+        });
+    }
+    if !problems.is_empty() {
+        problems.sort_by_key(|p| (p.row.unwrap_or(0), p.column.clone()));
+        return Err(InputError {
+            file: name.to_string(),
+            problems,
+            warnings,
+        });
+    }
+    Ok(Assemblage {
+        file: name.to_string(),
+        format: table.format,
+        delimiter: table.delimiter,
+        sha256,
+        catalogue: catalogue.clone(),
+        trait_columns,
+        carried_columns: carried_idx.iter().map(|&c| col_name(c)).collect(),
+        individuals,
+        warnings,
+        settings: settings.clone(),
+    })
+}
+
+type Combined = (
+    Option<Observation>,
+    Option<Observation>,
+    Option<Observation>,
+);
+
+/// Choose (or join) the sides of one trait. Returns the observation used, and the left and
+/// right observations when both were recorded (for the disagreement check).
+fn combine_sides(sc: SidedCells, policy: SidePolicy) -> (Combined, Option<SideUsed>) {
+    match (sc.unsided, sc.left, sc.right) {
+        (Some(u), _, _) => ((Some(u), None, None), Some(SideUsed::Unsided)),
+        (None, Some(l), None) => ((Some(l), None, None), Some(SideUsed::Left)),
+        (None, None, Some(r)) => ((Some(r), None, None), Some(SideUsed::Right)),
+        (None, None, None) => ((None, None, None), None),
+        (None, Some(l), Some(r)) => {
+            let (used, side) = match policy {
+                SidePolicy::LeftFirst => (l, SideUsed::Left),
+                SidePolicy::RightFirst => (r, SideUsed::Right),
+                SidePolicy::Both => (join(l, r), SideUsed::Both),
+            };
+            ((Some(used), Some(l), Some(r)), Some(side))
+        }
+    }
+}
+
+fn join(l: Observation, r: Observation) -> Observation {
+    match (l, r) {
+        (Observation::Measurement { value: a }, Observation::Measurement { value: b }) => {
+            Observation::Measurement {
+                value: (a + b) / 2.0,
+            }
+        }
+        (Observation::Grade { low: a, high: b }, Observation::Grade { low: c, high: d }) => {
+            Observation::Grade {
+                low: a.min(c),
+                high: b.max(d),
+            }
+        }
+        (Observation::Count { value: a }, Observation::Count { value: b }) => {
+            Observation::Count { value: a + b }
+        }
+        (l, _) => l,
+    }
+}
+
+fn sides_disagree(l: &Observation, r: &Observation, s: &ReadSettings) -> Option<String> {
+    match (l, r) {
+        (Observation::Grade { low: a, high: b }, Observation::Grade { low: c, high: d }) => {
+            // Distance between the two grade intervals (0 when they overlap).
+            let gap = (c - b).max(a - d).max(0);
+            (gap > s.side_tolerance.grades).then(|| {
+                format!(
+                    "left and right grades differ by {gap} (tolerance {})",
+                    s.side_tolerance.grades
+                )
+            })
+        }
+        (Observation::Measurement { value: a }, Observation::Measurement { value: b }) => {
+            let rel = (a - b).abs() / ((a + b) / 2.0);
+            (rel > s.side_tolerance.relative).then(|| {
+                format!(
+                    "left {a} and right {b} differ by {:.1}% (tolerance {:.1}%)",
+                    rel * 100.0,
+                    s.side_tolerance.relative * 100.0
+                )
+            })
+        }
+        _ => None,
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    fn read(text: &str) -> Result<Assemblage, InputError> {
+        read_assemblage_text(
+            "t.csv",
+            text.as_bytes(),
+            &Catalogue::standard(),
+            &ReadSettings::default(),
+        )
+    }
+
+    fn obs(a: &Assemblage, i: usize, id: &str) -> Option<Observation> {
+        a.individuals[i].observations[a.catalogue.position(id).unwrap()]
+    }
+
+    #[test]
+    fn a_good_file_reads_with_carried_columns() {
+        let a = read("id,group,age,glabella,mastoid_l,mastoid_r,femur_head_diameter_r,grave\nB1,north,25-35,3,2,3,44.5,bowl\nB2,,adult,NA,,4-5,,\n").unwrap();
+        assert_eq!(a.individuals.len(), 2);
+        assert_eq!(a.carried_columns, vec!["grave"]);
+        assert_eq!(a.individuals[0].carried, vec!["bowl"]);
+        assert_eq!(
+            obs(&a, 0, "mastoid"),
+            Some(Observation::Grade { low: 2, high: 2 })
+        );
+        assert_eq!(
+            a.individuals[0].sides[a.catalogue.position("mastoid").unwrap()],
+            Some(SideUsed::Left)
+        );
+        assert_eq!(
+            obs(&a, 1, "mastoid"),
+            Some(Observation::Grade { low: 4, high: 5 })
+        );
+        assert_eq!(obs(&a, 1, "glabella"), None);
+        assert_eq!(a.individuals[1].group, None);
+        assert_eq!(a.individuals[0].n_observed(), 3);
+        assert_eq!(a.sha256.len(), 64);
+    }
+
+    #[test]
+    fn all_problems_at_once_in_row_order() {
+        let e =
+            read("id,glabella,femur_head_diameter,age\nA,7,45,30\nA,3,4.5,x\n,2,,\n").unwrap_err();
+        let got: Vec<_> = e
+            .problems
+            .iter()
+            .map(|p| (p.row, p.column.as_deref().unwrap_or(""), p.kind))
+            .collect();
+        assert_eq!(
+            got,
+            vec![
+                (Some(2), "glabella", ProblemKind::GradeOutOfRange),
+                (Some(3), "age", ProblemKind::BadAge),
+                (
+                    Some(3),
+                    "femur_head_diameter",
+                    ProblemKind::ImplausibleMeasurement
+                ),
+                (Some(3), "id", ProblemKind::DuplicateId),
+                (Some(4), "id", ProblemKind::MissingId),
+            ]
+        );
+    }
+
+    #[test]
+    fn side_policies_and_disagreement() {
+        let text =
+            "id,mastoid_l,mastoid_r,femur_head_diameter_l,femur_head_diameter_r\nA,1,4,44,48\n";
+        let a = read(text).unwrap();
+        assert_eq!(
+            obs(&a, 0, "mastoid"),
+            Some(Observation::Grade { low: 1, high: 1 })
+        );
+        assert_eq!(
+            a.warnings
+                .iter()
+                .filter(|w| w.kind == WarningKind::SidesDisagree)
+                .count(),
+            2
+        );
+        let s = ReadSettings {
+            side_policy: SidePolicy::Both,
+            ..ReadSettings::default()
+        };
+        let b = read_assemblage_text("t", text.as_bytes(), &Catalogue::standard(), &s).unwrap();
+        assert_eq!(
+            obs(&b, 0, "mastoid"),
+            Some(Observation::Grade { low: 1, high: 4 })
+        );
+        assert_eq!(
+            obs(&b, 0, "femur_head_diameter"),
+            Some(Observation::Measurement { value: 46.0 })
+        );
+        let s = ReadSettings {
+            side_policy: SidePolicy::RightFirst,
+            ..ReadSettings::default()
+        };
+        let c = read_assemblage_text("t", text.as_bytes(), &Catalogue::standard(), &s).unwrap();
+        assert_eq!(
+            obs(&c, 0, "mastoid"),
+            Some(Observation::Grade { low: 4, high: 4 })
+        );
+    }
+
+    #[test]
+    fn dna_reads_come_in_pairs_and_rows_without_evidence_warn() {
+        let e = read("id,dna_x_reads,dna_y_reads\nA,100,\n").unwrap_err();
+        assert_eq!(e.problems[0].kind, ProblemKind::UnpairedReads);
+        assert_eq!(e.problems[0].column.as_deref(), Some("dna_y_reads"));
+        let a = read("id,dna_x_reads,dna_y_reads,glabella\nA,100,0,\nB,,,\n").unwrap();
+        assert_eq!(a.warnings.len(), 1);
+        assert_eq!(a.warnings[0].kind, WarningKind::NoEvidence);
+    }
+
+    #[test]
+    fn missing_words_and_decimal_commas() {
+        let s = ReadSettings {
+            missing_words: vec!["nr".into()],
+            ..ReadSettings::default()
+        };
+        let a = read_assemblage_text(
+            "t",
+            b"id;glabella;femur_head_diameter\nA;NR;44,5\n",
+            &Catalogue::standard(),
+            &s,
+        )
+        .unwrap();
+        assert_eq!(obs(&a, 0, "glabella"), None);
+        assert_eq!(
+            obs(&a, 0, "femur_head_diameter"),
+            Some(Observation::Measurement { value: 44.5 })
+        );
+        assert!(a
+            .warnings
+            .iter()
+            .any(|w| w.kind == WarningKind::DecimalComma));
+    }
+
+    #[test]
+    fn header_only_is_empty() {
+        assert_eq!(
+            read("id,glabella\n").unwrap_err().problems[0].kind,
+            ProblemKind::Empty
+        );
+    }
+}

@@ -1,0 +1,45 @@
+//! The library's top-level error type.
+
+use crate::catalogue::CatalogueError;
+use crate::data::InputError;
+use std::path::PathBuf;
+
+/// Anything that stops a dimorph run.
+#[derive(Debug, thiserror::Error)]
+#[non_exhaustive]
+pub enum Error {
+    /// The input table has problems (all of them are listed inside).
+    #[error(transparent)]
+    Input(#[from] InputError),
+    /// A trait catalogue is invalid.
+    #[error(transparent)]
+    Catalogue(#[from] CatalogueError),
+    /// A settings file (scale map, model, prior) is invalid.
+    #[error("{file}: {message}")]
+    Settings {
+        /// The file.
+        file: String,
+        /// What is wrong and what was expected.
+        message: String,
+    },
+    /// A file could not be read or written.
+    #[error("{}: {source}", path.display())]
+    Io {
+        /// The file.
+        path: PathBuf,
+        /// The underlying error.
+        source: std::io::Error,
+    },
+}
+
+impl Error {
+    /// The process exit code for this error (documented in README):
+    /// 3 input problems, 4 settings problems, 5 file access.
+    pub fn exit_code(&self) -> i32 {
+        match self {
+            Error::Input(_) => 3,
+            Error::Catalogue(_) | Error::Settings { .. } => 4,
+            Error::Io { .. } => 5,
+        }
+    }
+}

@@ -1,0 +1,40 @@
+//! # dimorph
+//!
+//! Bayesian estimation of biological sex from skeletal evidence for bioarchaeologists and
+//! forensic anthropologists: every surviving piece of evidence of every individual (cranial
+//! and pelvic trait scores, bone and tooth measurements, ancient-DNA read counts) combined
+//! into one posterior, missing elements marginalised, the assemblage's sex ratio learnt from
+//! the assemblage itself.
+//!
+//! Results are estimates, not identifications. Forensic casework needs validated methods,
+//! accredited practice and the rules of the jurisdiction. Biological sex is not gender.
+//!
+//! ## Reading an assemblage
+//!
+//! ```
+//! use dimorph::catalogue::Catalogue;
+//! use dimorph::data::{read_assemblage_text, ReadSettings, Observation};
+//!
+//! let table = "id,glabella,mastoid_l,femur_head_diameter_r,grave_goods\n\
+//!              T-01,4,3-4,46.5,knife\n\
+//!              T-02,NA,,41.0,spindle whorl\n";
+//! let catalogue = Catalogue::standard();
+//! let a = read_assemblage_text("demo.csv", table.as_bytes(), &catalogue, &ReadSettings::default())?;
+//! assert_eq!(a.individuals.len(), 2);
+//! let mastoid = catalogue.position("mastoid").unwrap();
+//! assert_eq!(a.individuals[0].observations[mastoid], Some(Observation::Grade { low: 3, high: 4 }));
+//! assert_eq!(a.carried_columns, vec!["grave_goods"]);
+//! # Ok::<(), dimorph::data::InputError>(())
+//! ```
+#![forbid(unsafe_code)]
+#![warn(missing_docs)]
+
+pub mod catalogue;
+pub mod cli;
+pub mod data;
+pub mod error;
+
+pub use error::Error;
+
+/// The program version written into every output.
+pub const VERSION: &str = env!("CARGO_PKG_VERSION");
