@@ -2,6 +2,7 @@
 
 use crate::catalogue::CatalogueError;
 use crate::data::InputError;
+use crate::model::ModelError;
 use std::path::PathBuf;
 
 /// Anything that stops a dimorph run.
@@ -14,7 +15,10 @@ pub enum Error {
     /// A trait catalogue is invalid.
     #[error(transparent)]
     Catalogue(#[from] CatalogueError),
-    /// A settings file (scale map, model, prior) is invalid.
+    /// A model file is invalid (every problem is listed inside).
+    #[error(transparent)]
+    Model(#[from] ModelError),
+    /// A settings file (scale map, prior) or option is invalid.
     #[error("{file}: {message}")]
     Settings {
         /// The file.
@@ -38,7 +42,7 @@ impl Error {
     pub fn exit_code(&self) -> i32 {
         match self {
             Error::Input(_) => 3,
-            Error::Catalogue(_) | Error::Settings { .. } => 4,
+            Error::Catalogue(_) | Error::Model(_) | Error::Settings { .. } => 4,
             Error::Io { .. } => 5,
         }
     }

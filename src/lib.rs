@@ -28,11 +28,17 @@
 //! ```
 #![forbid(unsafe_code)]
 #![warn(missing_docs)]
+// `!(x > 0.0)` is used on purpose: it rejects NaN as well as non-positive values.
+#![allow(clippy::neg_cmp_op_on_partial_ord)]
 
 pub mod catalogue;
 pub mod cli;
 pub mod data;
 pub mod error;
+pub mod likelihood;
+pub mod model;
+pub mod numeric;
+pub mod output;
 
 pub use error::Error;
 

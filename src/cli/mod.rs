@@ -2,6 +2,7 @@
 //! subcommand, each with its `Args` and a `run`.
 
 pub mod check;
+pub mod evidence;
 pub mod input;
 
 use clap::{Parser, Subcommand};
@@ -23,12 +24,15 @@ pub struct Cli {
 pub enum Command {
     /// Validate an input table and summarise how complete it is; lists every problem.
     Check(check::Args),
+    /// Per individual and body region: the likelihood ratio female:male, without any prior.
+    Evidence(evidence::Args),
 }
 
 /// Run a parsed command line; returns the process exit code.
 pub fn run(cli: Cli) -> i32 {
     let result = match cli.command {
         Command::Check(args) => check::run(args),
+        Command::Evidence(args) => evidence::run(args),
     };
     match result {
         Ok(code) => code,

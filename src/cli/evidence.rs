@@ -1,0 +1,185 @@
+//! `dimorph evidence INPUT --out LEDGER.csv`: the evidence ledger, per individual and block,
+//! without any prior.
+
+use super::input::InputArgs;
+use crate::data::{read_assemblage, Assemblage};
+use crate::likelihood::{evaluate_assemblage, ledger_csv};
+use crate::model::{BlockStatus, Context, IndividualEvidence, Model};
+use crate::output::write_atomic;
+use crate::Error;
+use serde::Serialize;
+use std::path::{Path, PathBuf};
+
+/// Arguments of `dimorph evidence`.
+#[derive(Debug, clap::Args)]
+pub struct Args {
+    /// The input table.
+    pub file: PathBuf,
+    /// Where to write the ledger (CSV). A record of the run goes beside it as `<name>.run.json`.
+    #[arg(long, value_name = "FILE")]
+    pub out: PathBuf,
+    /// Model file (default: the embedded default model).
+    #[arg(long, value_name = "FILE")]
+    pub model: Option<PathBuf>,
+    /// Seed of the randomised integration (same seed, same bytes).
+    #[arg(long, default_value_t = 1)]
+    pub seed: u64,
+    /// How to read the table.
+    #[command(flatten)]
+    pub input: InputArgs,
+}
+
+/// Load the model named on the command line, or the embedded default.
+///
+/// # Errors
+/// [`Error::Model`] listing every problem of the file.
+pub fn load_model(path: Option<&Path>) -> Result<Model, Error> {
+    Ok(match path {
+        Some(p) => Model::from_path(p)?,
+        None => Model::default_model()?,
+    })
+}
+
+#[derive(Serialize)]
+struct RunRecord<'a> {
+    program: &'static str,
+    version: &'static str,
+    command: Vec<String>,
+    input: &'a str,
+    input_sha256: &'a str,
+    model: &'a str,
+    model_file: String,
+    model_sha256: &'a str,
+    seed: u64,
+    side_policy: &'static str,
+}
+
+/// Run the command; returns the exit code.
+///
+/// # Errors
+/// Model, settings and file errors; input problems are printed and give exit code 3.
+pub fn run(args: Args) -> Result<i32, Error> {
+    let model = load_model(args.model.as_deref())?;
+    let settings = args.input.settings(&model.catalogue)?;
+    let a = match read_assemblage(&args.file, &model.catalogue, &settings) {
+        Ok(a) => a,
+        Err(e) => {
+            eprint!("{}", super::check::render_problems(&e));
+            return Ok(3);
+        }
+    };
+    let ctx = Context::new(args.seed);
+    let evidence = evaluate_assemblage(&model, &a, &ctx);
+    let csv = ledger_csv(&model, &a, &evidence).map_err(|e| Error::Io {
+        path: args.out.clone(),
+        source: std::io::Error::other(e.to_string()),
+    })?;
+    let mut protected: Vec<&Path> = vec![args.file.as_path()];
+    if let Some(m) = &args.model {
+        protected.push(m.as_path());
+    }
+    let record_path = run_record_path(&args.out);
+    let record = RunRecord {
+        program: "dimorph",
+        version: crate::VERSION,
+        command: std::env::args().collect(),
+        input: &a.file,
+        input_sha256: &a.sha256,
+        model: &model.name,
+        model_file: args
+            .model
+            .as_ref()
+            .map(|p| p.display().to_string())
+            .unwrap_or_else(|| "embedded default".into()),
+        model_sha256: &model.sha256,
+        seed: args.seed,
+        side_policy: settings.side_policy.as_str(),
+    };
+    let json = serde_json::to_vec_pretty(&record).map_err(|e| Error::Io {
+        path: record_path.clone(),
+        source: std::io::Error::other(e.to_string()),
+    })?;
+    write_atomic(&args.out, &csv, &protected)?;
+    write_atomic(&record_path, &json, &protected)?;
+    print!(
+        "{}",
+        summary(&model, &a, &evidence, &args.out, &record_path)
+    );
+    Ok(0)
+}
+
+fn run_record_path(out: &Path) -> PathBuf {
+    let stem = out
+        .file_stem()
+        .map(|s| s.to_string_lossy().into_owned())
+        .unwrap_or_else(|| "ledger".into());
+    out.with_file_name(format!("{stem}.run.json"))
+}
+
+/// The terminal summary of an evidence run.
+pub fn summary(
+    model: &Model,
+    a: &Assemblage,
+    ev: &[IndividualEvidence],
+    out: &Path,
+    record: &Path,
+) -> String {
+    use std::fmt::Write as _;
+    let mut s = String::new();
+    let estimable = ev.iter().filter(|e| e.estimable).count();
+    let _ = writeln!(
+        s,
+        "Model        {} (sha256 {}…)",
+        model.name,
+        &model.sha256[..12]
+    );
+    let _ = writeln!(
+        s,
+        "Individuals  {}: {} with usable evidence, {} not estimable",
+        ev.len(),
+        estimable,
+        ev.len() - estimable
+    );
+    let _ = writeln!(s);
+    let _ = writeln!(
+        s,
+        "Block          type        used  below min. age  flagged"
+    );
+    for (k, b) in model.blocks.iter().enumerate() {
+        let count = |st: BlockStatus| ev.iter().filter(|e| e.blocks[k].status == st).count();
+        let flagged = count(BlockStatus::Atypical) + count(BlockStatus::NumericalFailure);
+        let _ = writeln!(
+            s,
+            "{:<14} {:<10} {:>5}  {:>14}  {:>7}",
+            b.id(),
+            b.kind(),
+            count(BlockStatus::Used),
+            count(BlockStatus::BelowMinimumAge),
+            flagged
+        );
+    }
+    let worst = ev.iter().map(|e| e.error).fold(0.0, f64::max);
+    let _ = writeln!(s);
+    let _ = writeln!(
+        s,
+        "Largest numerical error of an individual's ln LR: {worst:.1e}"
+    );
+    for (ind, e) in a.individuals.iter().zip(ev) {
+        for (b, be) in model.blocks.iter().zip(&e.blocks) {
+            if matches!(
+                be.status,
+                BlockStatus::Atypical | BlockStatus::NumericalFailure
+            ) {
+                let _ = writeln!(s, "Flagged: {} ({}): {}", ind.id, b.id(), be.note);
+            }
+        }
+    }
+    let _ = writeln!(
+        s,
+        "Ledger written to {} (record of the run: {})",
+        out.display(),
+        record.display()
+    );
+    let _ = writeln!(s, "Likelihood ratios are evidence, not identifications; they assume the model fits this population.");
+    s
+}

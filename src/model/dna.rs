@@ -1,0 +1,150 @@
+//! Ancient-DNA read counts as evidence.
+//!
+//! # Formula
+//! Of n = n_X + n_Y reads mapped to the sex chromosomes, k = n_Y map to Y. Given sex s the Y
+//! fraction follows Beta(αₛ, βₛ) (contamination and mismapping give XX individuals a small
+//! non-zero fraction), so k is beta-binomial:
+//! ln P(k | n, s) = ln C(n, k) + ln B(k + αₛ, n − k + βₛ) − ln B(αₛ, βₛ).
+//! The approach follows the Y-ratio reasoning of Skoglund et al. (2013, J Archaeol Sci
+//! 40:4477–4482). A count whose z-score, (k − n·mₛ)/sdₛ with the beta-binomial mean and SD, is
+//! beyond `atypical_z` under both sexes fits neither (atypical karyotype, contamination): the
+//! block is then flagged and not used, never forced to a sex.
+
+use super::evidence::{BlockEvidence, BlockStatus};
+use super::spec::RawDnaBlock;
+use super::ModelProblem;
+use crate::catalogue::{Catalogue, TraitKind};
+use crate::data::{Individual, Observation};
+use statrs::function::beta::ln_beta;
+use statrs::function::gamma::ln_gamma;
+
+/// A validated DNA block.
+#[derive(Debug, Clone, PartialEq)]
+pub struct DnaBlock {
+    /// Block id.
+    pub id: String,
+    /// Readable label.
+    pub label: String,
+    /// Catalogue position of the X count.
+    pub x_index: usize,
+    /// Catalogue position of the Y count.
+    pub y_index: usize,
+    /// Trait ids (X, Y).
+    pub ids: [String; 2],
+    /// Beta(α, β) of the Y fraction: female, male.
+    pub beta: [(f64, f64); 2],
+    /// z beyond which a count fits a sex badly.
+    pub atypical_z: f64,
+}
+
+impl DnaBlock {
+    pub(crate) fn from_raw(
+        raw: &RawDnaBlock,
+        catalogue: &Catalogue,
+        problems: &mut Vec<ModelProblem>,
+    ) -> Option<DnaBlock> {
+        let start = problems.len();
+        let mut fail = |m: String| {
+            problems.push(ModelProblem {
+                place: format!("block `{}`", raw.id),
+                message: m,
+            })
+        };
+        let mut index = |id: &str| match catalogue.get(id).map(|d| &d.kind) {
+            Some(TraitKind::Count) => catalogue.position(id),
+            Some(_) => {
+                fail(format!("`{id}` is not a read count"));
+                None
+            }
+            None => {
+                fail(format!("`{id}` is not a trait of the catalogue"));
+                None
+            }
+        };
+        let x = index(&raw.x_reads);
+        let y = index(&raw.y_reads);
+        for (who, b) in [("female", raw.female), ("male", raw.male)] {
+            if !(b.alpha > 0.0 && b.beta > 0.0 && b.alpha.is_finite() && b.beta.is_finite()) {
+                fail(format!("{who}: alpha and beta must be positive"));
+            }
+        }
+        let fm = |b: super::spec::RawBeta| b.alpha / (b.alpha + b.beta);
+        if fm(raw.female) >= fm(raw.male) {
+            fail("the female Y fraction must have a smaller mean than the male".into());
+        }
+        let z = raw.atypical_z.unwrap_or(4.0);
+        if !(z > 0.0) {
+            fail("atypical_z must be positive".into());
+        }
+        if problems.len() > start {
+            return None;
+        }
+        Some(DnaBlock {
+            id: raw.id.clone(),
+            label: raw.label.clone(),
+            x_index: x?,
+            y_index: y?,
+            ids: [raw.x_reads.clone(), raw.y_reads.clone()],
+            beta: [
+                (raw.female.alpha, raw.female.beta),
+                (raw.male.alpha, raw.male.beta),
+            ],
+            atypical_z: z,
+        })
+    }
+
+    /// ln P(k | n, s) for sex index s (0 female, 1 male).
+    pub fn ln_pmf(&self, s: usize, k: u64, n: u64) -> f64 {
+        let (a, b) = self.beta[s];
+        let (k, n) = (k as f64, n as f64);
+        let ln_choose = ln_gamma(n + 1.0) - ln_gamma(k + 1.0) - ln_gamma(n - k + 1.0);
+        ln_choose + ln_beta(k + a, n - k + b) - ln_beta(a, b)
+    }
+
+    /// z-score of k under sex s (beta-binomial mean and SD).
+    pub fn z(&self, s: usize, k: u64, n: u64) -> f64 {
+        let (a, b) = self.beta[s];
+        let (k, n) = (k as f64, n as f64);
+        let m = a / (a + b);
+        let var = n * m * (1.0 - m) * (a + b + n) / (a + b + 1.0);
+        (k - n * m) / var.sqrt()
+    }
+
+    /// The block's evidence for one individual (used at any age).
+    pub fn evaluate(&self, ind: &Individual) -> BlockEvidence {
+        let (Some(Observation::Count { value: nx }), Some(Observation::Count { value: ny })) = (
+            ind.observations[self.x_index],
+            ind.observations[self.y_index],
+        ) else {
+            return BlockEvidence::not_used(BlockStatus::NoEvidence, "no read counts");
+        };
+        let Some(n) = nx.checked_add(ny) else {
+            return BlockEvidence::not_used(BlockStatus::NumericalFailure, "read counts too large");
+        };
+        if n == 0 {
+            return BlockEvidence::not_used(BlockStatus::NoEvidence, "no reads on X or Y");
+        }
+        let (zf, zm) = (self.z(0, ny, n), self.z(1, ny, n));
+        let used = vec![self.ids[0].clone(), self.ids[1].clone()];
+        if zf.abs() > self.atypical_z && zm.abs() > self.atypical_z {
+            return BlockEvidence {
+                traits_used: used,
+                ..BlockEvidence::not_used(
+                    BlockStatus::Atypical,
+                    &format!(
+                        "Y fraction {:.4} fits neither sex (z female {zf:.1}, male {zm:.1}): atypical karyotype or contamination? not used",
+                        ny as f64 / n as f64
+                    ),
+                )
+            };
+        }
+        let mut e = BlockEvidence::from_likelihoods(
+            used,
+            self.ln_pmf(0, ny, n),
+            self.ln_pmf(1, ny, n),
+            0.0,
+        );
+        e.note = format!("Y fraction {:.4} of {n} reads", ny as f64 / n as f64);
+        e
+    }
+}

@@ -1,0 +1,391 @@
+//! The latent-trait block: ordinal scores and measurements joined by one within-sex normal.
+//!
+//! # Model
+//! The multivariate cumulative probit of Konigsberg & Hens (1998, Am J Phys Anthropol
+//! 107:97–112), extended with measurements. Each trait j has a latent value xⱼ; given sex s,
+//! x ~ N(μₛ, Σₛ) with Σₛ = Dₛ Rₛ Dₛ (R the within-sex correlation, D the SDs: 1 for ordinal
+//! latents, the measurement SD for metric traits). An ordinal trait with grades 1..K is seen as
+//! grade k when τₖ₋₁ < xⱼ ≤ τₖ (τ₀ = −∞, τ_K = +∞); a measurement is seen directly.
+//!
+//! For one individual, with metric observations y (set m) and ordinal boxes (set o):
+//! ln L(s) = ln N(y; μₛ,ₘ, Σₛ,ₘₘ) + ln P(x_o ∈ box | y), where x_o | y is normal with mean
+//! μₛ,ₒ + Σₛ,ₒₘ Σₛ,ₘₘ⁻¹ (y − μₛ,ₘ) and covariance Σₛ,ₒₒ − Σₛ,ₒₘ Σₛ,ₘₘ⁻¹ Σₛ,ₘₒ (Schur
+//! complement). Traits not observed are dropped from vectors and matrices, which integrates
+//! them out exactly.
+
+use super::evidence::{BlockEvidence, BlockStatus, Context};
+use super::spec::RawLatentBlock;
+use super::ModelProblem;
+use crate::catalogue::{Catalogue, TraitKind};
+use crate::data::{Individual, Observation, Sex};
+use crate::numeric::{ln_box_probability, QmcSettings};
+use nalgebra::{DMatrix, DVector};
+
+/// How a trait of the block is observed.
+#[derive(Debug, Clone, PartialEq)]
+pub enum LatentKind {
+    /// Ordinal: thresholds τ₁ < … < τ_{K−1}; the scale's lowest grade.
+    Ordinal {
+        /// Thresholds on the latent scale.
+        thresholds: Vec<f64>,
+        /// The lowest grade of the scale (grade `lowest` is the first interval).
+        lowest: i32,
+    },
+    /// A measurement.
+    Metric,
+}
+
+/// One trait of a latent block.
+#[derive(Debug, Clone, PartialEq)]
+pub struct LatentTrait {
+    /// Catalogue id.
+    pub id: String,
+    /// Position in the catalogue (and in `Individual::observations`).
+    pub catalogue_index: usize,
+    /// Ordinal or metric.
+    pub kind: LatentKind,
+}
+
+/// A validated latent-trait block.
+#[derive(Debug, Clone, PartialEq)]
+pub struct LatentBlock {
+    /// Block id.
+    pub id: String,
+    /// Readable label.
+    pub label: String,
+    /// Traits in matrix order.
+    pub traits: Vec<LatentTrait>,
+    /// Means per sex (female, male).
+    pub mean: [DVector<f64>; 2],
+    /// Covariance per sex (female, male).
+    pub cov: [DMatrix<f64>; 2],
+}
+
+impl LatentBlock {
+    /// Validate a raw block against the catalogue. Every problem is pushed to `problems`.
+    pub(crate) fn from_raw(
+        raw: &RawLatentBlock,
+        catalogue: &Catalogue,
+        problems: &mut Vec<ModelProblem>,
+    ) -> Option<LatentBlock> {
+        let start = problems.len();
+        let mut fail = |what: &str, msg: String| {
+            problems.push(ModelProblem {
+                place: format!("block `{}`{what}", raw.id),
+                message: msg,
+            })
+        };
+        let p = raw.traits.len();
+        if p == 0 {
+            fail("", "a latent block needs at least one trait".into());
+        }
+        let mut traits = Vec::with_capacity(p);
+        let mut mean_f = DVector::zeros(p);
+        let mut mean_m = DVector::zeros(p);
+        let mut sd_f = DVector::from_element(p, 1.0);
+        let mut sd_m = DVector::from_element(p, 1.0);
+        for (j, t) in raw.traits.iter().enumerate() {
+            let place = format!(", trait `{}`", t.id);
+            if raw.traits[..j].iter().any(|u| u.id == t.id) {
+                fail(&place, "listed twice in the block".into());
+                continue;
+            }
+            let Some(index) = catalogue.position(&t.id) else {
+                fail(&place, "not a trait of the catalogue".into());
+                continue;
+            };
+            if !(t.mean.female.is_finite() && t.mean.male.is_finite()) {
+                fail(&place, "means must be finite numbers".into());
+            }
+            mean_f[j] = t.mean.female;
+            mean_m[j] = t.mean.male;
+            let kind = match &catalogue.traits()[index].kind {
+                TraitKind::Ordinal { lowest, .. } => {
+                    let k = catalogue.traits()[index].kind.n_grades().unwrap_or(0);
+                    let Some(th) = &t.thresholds else {
+                        fail(
+                            &place,
+                            format!(
+                                "an ordinal trait needs `thresholds` ({} values for {k} grades)",
+                                k - 1
+                            ),
+                        );
+                        continue;
+                    };
+                    if th.len() + 1 != k {
+                        fail(
+                            &place,
+                            format!(
+                                "{} thresholds given; the scale has {k} grades, so {} are needed",
+                                th.len(),
+                                k - 1
+                            ),
+                        );
+                    }
+                    if th.iter().any(|x| !x.is_finite()) || th.windows(2).any(|w| w[0] >= w[1]) {
+                        fail(
+                            &place,
+                            format!(
+                                "thresholds must be finite and strictly increasing, found {th:?}"
+                            ),
+                        );
+                    }
+                    if t.sd.is_some() {
+                        fail(
+                            &place,
+                            "an ordinal latent has SD 1 by construction; remove `sd`".into(),
+                        );
+                    }
+                    LatentKind::Ordinal {
+                        thresholds: th.clone(),
+                        lowest: *lowest,
+                    }
+                }
+                TraitKind::Metric { .. } => {
+                    match t.sd {
+                        Some(sd)
+                            if sd.female > 0.0
+                                && sd.male > 0.0
+                                && sd.female.is_finite()
+                                && sd.male.is_finite() =>
+                        {
+                            sd_f[j] = sd.female;
+                            sd_m[j] = sd.male;
+                        }
+                        Some(sd) => fail(
+                            &place,
+                            format!(
+                                "SDs must be positive, found female {} male {}",
+                                sd.female, sd.male
+                            ),
+                        ),
+                        None => fail(&place, "a metric trait needs `sd: {female, male}`".into()),
+                    }
+                    if t.thresholds.is_some() {
+                        fail(&place, "a metric trait has no thresholds".into());
+                    }
+                    LatentKind::Metric
+                }
+                TraitKind::Count => {
+                    fail(&place, "read counts belong in a dna block".into());
+                    continue;
+                }
+            };
+            traits.push(LatentTrait {
+                id: t.id.clone(),
+                catalogue_index: index,
+                kind,
+            });
+        }
+        let corr = |m: &Option<Vec<Vec<f64>>>, which: &str, fail: &mut dyn FnMut(&str, String)| {
+            let Some(rows) = m else {
+                return DMatrix::identity(p, p);
+            };
+            if rows.len() != p || rows.iter().any(|r| r.len() != p) {
+                fail(
+                    "",
+                    format!("{which} must be {p}×{p}, one row and column per trait in order"),
+                );
+                return DMatrix::identity(p, p);
+            }
+            let r = DMatrix::from_fn(p, p, |i, j| rows[i][j]);
+            check_correlation(&r, which, fail);
+            r
+        };
+        let (r_f, r_m) = match (
+            &raw.correlation,
+            &raw.correlation_female,
+            &raw.correlation_male,
+        ) {
+            (c, None, None) => {
+                let r = corr(c, "correlation", &mut fail);
+                (r.clone(), r)
+            }
+            (None, f @ Some(_), m @ Some(_)) => (
+                corr(f, "correlation_female", &mut fail),
+                corr(m, "correlation_male", &mut fail),
+            ),
+            _ => {
+                fail("", "give either `correlation`, or both `correlation_female` and `correlation_male`".into());
+                (DMatrix::identity(p, p), DMatrix::identity(p, p))
+            }
+        };
+        if problems.len() > start || traits.len() != p {
+            return None;
+        }
+        let cov_f = DMatrix::from_fn(p, p, |i, j| sd_f[i] * r_f[(i, j)] * sd_f[j]);
+        let cov_m = DMatrix::from_fn(p, p, |i, j| sd_m[i] * r_m[(i, j)] * sd_m[j]);
+        Some(LatentBlock {
+            id: raw.id.clone(),
+            label: raw.label.clone(),
+            traits,
+            mean: [mean_f, mean_m],
+            cov: [cov_f, cov_m],
+        })
+    }
+
+    /// ln L(female), ln L(male) of one individual's observations of this block.
+    pub fn evaluate(&self, ind: &Individual, ctx: &Context) -> BlockEvidence {
+        let mut metric: Vec<(usize, f64)> = Vec::new();
+        let mut ordinal: Vec<(usize, f64, f64)> = Vec::new();
+        let mut used = Vec::new();
+        for (j, t) in self.traits.iter().enumerate() {
+            let Some(obs) = ind.observations[t.catalogue_index] else {
+                continue;
+            };
+            match (&t.kind, obs) {
+                (LatentKind::Metric, Observation::Measurement { value }) => metric.push((j, value)),
+                (LatentKind::Ordinal { thresholds, lowest }, Observation::Grade { low, high }) => {
+                    let lo_idx = (low - lowest) as usize;
+                    let hi_idx = (high - lowest) as usize;
+                    let lower = if lo_idx == 0 {
+                        f64::NEG_INFINITY
+                    } else {
+                        thresholds[lo_idx - 1]
+                    };
+                    let upper = thresholds.get(hi_idx).copied().unwrap_or(f64::INFINITY);
+                    ordinal.push((j, lower, upper));
+                }
+                _ => continue,
+            }
+            used.push(t.id.clone());
+        }
+        if used.is_empty() {
+            return BlockEvidence::not_used(
+                BlockStatus::NoEvidence,
+                "no trait of this block recorded",
+            );
+        }
+        let mut ln_l = [0.0; 2];
+        let mut error = 0.0;
+        for (s, sex) in [Sex::Female, Sex::Male].into_iter().enumerate() {
+            match self.ln_likelihood(
+                s,
+                &metric,
+                &ordinal,
+                ctx.seed_for(&ind.id, &self.id, sex),
+                &ctx.qmc,
+            ) {
+                Ok((l, e)) => {
+                    ln_l[s] = l;
+                    error += e;
+                }
+                Err(msg) => return BlockEvidence::not_used(BlockStatus::NumericalFailure, &msg),
+            }
+        }
+        BlockEvidence::from_likelihoods(used, ln_l[0], ln_l[1], error)
+    }
+
+    fn ln_likelihood(
+        &self,
+        s: usize,
+        metric: &[(usize, f64)],
+        ordinal: &[(usize, f64, f64)],
+        seed: u64,
+        qmc: &QmcSettings,
+    ) -> Result<(f64, f64), String> {
+        let mu = &self.mean[s];
+        let cov = &self.cov[s];
+        let m: Vec<usize> = metric.iter().map(|x| x.0).collect();
+        let o: Vec<usize> = ordinal.iter().map(|x| x.0).collect();
+        let sub = |rows: &[usize], cols: &[usize]| {
+            DMatrix::from_fn(rows.len(), cols.len(), |i, j| cov[(rows[i], cols[j])])
+        };
+        let mut ln_l = 0.0;
+        let mut cond_mean: Vec<f64> = o.iter().map(|&j| mu[j]).collect();
+        let mut cond_cov = sub(&o, &o);
+        if !m.is_empty() {
+            let s_mm = sub(&m, &m);
+            let chol = s_mm
+                .cholesky()
+                .ok_or("measurement covariance is not positive definite")?;
+            let resid = DVector::from_iterator(m.len(), metric.iter().map(|&(j, y)| y - mu[j]));
+            let solved = chol.solve(&resid);
+            let quad = resid.dot(&solved);
+            let ln_det: f64 = 2.0 * chol.l().diagonal().iter().map(|d| d.ln()).sum::<f64>();
+            ln_l += -0.5 * (quad + ln_det + m.len() as f64 * (2.0 * std::f64::consts::PI).ln());
+            if !o.is_empty() {
+                let s_om = sub(&o, &m);
+                let shift = &s_om * &solved;
+                for (i, c) in cond_mean.iter_mut().enumerate() {
+                    *c += shift[i];
+                }
+                let s_mo = s_om.transpose();
+                cond_cov -= &s_om * chol.solve(&s_mo);
+                // Keep the conditional covariance exactly symmetric.
+                cond_cov = (&cond_cov + cond_cov.transpose()) * 0.5;
+            }
+        }
+        let mut error = 0.0;
+        if !o.is_empty() {
+            let lower: Vec<f64> = ordinal
+                .iter()
+                .zip(&cond_mean)
+                .map(|(b, c)| b.1 - c)
+                .collect();
+            let upper: Vec<f64> = ordinal
+                .iter()
+                .zip(&cond_mean)
+                .map(|(b, c)| b.2 - c)
+                .collect();
+            let p = ln_box_probability(&lower, &upper, &cond_cov, seed, qmc)
+                .map_err(|e| e.to_string())?;
+            ln_l += p.ln_p;
+            error = p.error;
+        }
+        Ok((ln_l, error))
+    }
+}
+
+/// Symmetric, unit diagonal, entries in [−1, 1], positive definite.
+fn check_correlation(r: &DMatrix<f64>, which: &str, fail: &mut dyn FnMut(&str, String)) {
+    let p = r.nrows();
+    for i in 0..p {
+        if (r[(i, i)] - 1.0).abs() > 1e-12 {
+            fail(
+                "",
+                format!(
+                    "{which}: the diagonal must be 1 (row {} has {})",
+                    i + 1,
+                    r[(i, i)]
+                ),
+            );
+            return;
+        }
+        for j in 0..p {
+            if !r[(i, j)].is_finite() || r[(i, j)].abs() > 1.0 {
+                fail(
+                    "",
+                    format!(
+                        "{which}: entries lie in [−1, 1] (row {}, column {} has {})",
+                        i + 1,
+                        j + 1,
+                        r[(i, j)]
+                    ),
+                );
+                return;
+            }
+            if (r[(i, j)] - r[(j, i)]).abs() > 1e-9 {
+                fail(
+                    "",
+                    format!(
+                        "{which}: the matrix must be symmetric (rows {} and {} differ)",
+                        i + 1,
+                        j + 1
+                    ),
+                );
+                return;
+            }
+        }
+    }
+    let eig = r.clone().symmetric_eigenvalues();
+    let min = eig.iter().copied().fold(f64::INFINITY, f64::min);
+    if !(min > 1e-10) {
+        fail(
+            "",
+            format!(
+                "{which}: the matrix must be positive definite (smallest eigenvalue {min:.3e})"
+            ),
+        );
+    }
+}

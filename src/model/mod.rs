@@ -1,0 +1,329 @@
+//! Evidence models: blocks of traits, independent given sex, each giving ln L(female) and
+//! ln L(male) for an individual's surviving evidence.
+//!
+//! A model file (`models/*.yaml`, schema in [`spec`]) is read into [`spec::RawModel`] and
+//! validated once into a [`Model`]; every problem of the file is reported together.
+
+pub mod dna;
+pub mod equation;
+pub mod evidence;
+pub mod latent;
+pub mod spec;
+
+pub use dna::DnaBlock;
+pub use equation::{Equation, EquationBlock};
+pub use evidence::{BlockEvidence, BlockStatus, Context};
+pub use latent::LatentBlock;
+
+use crate::catalogue::{Catalogue, CatalogueError};
+use crate::data::{Individual, Maturity, ADULT_AGE_YEARS};
+use serde::Serialize;
+use spec::{RawBlock, RawModel};
+use std::fmt;
+
+/// The default model, embedded in the binary (`models/default.yaml`).
+pub const DEFAULT_MODEL_YAML: &str = include_str!("../../models/default.yaml");
+
+/// One problem in a model file.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct ModelProblem {
+    /// Where: block and trait or equation.
+    pub place: String,
+    /// What is wrong and what was expected.
+    pub message: String,
+}
+
+impl fmt::Display for ModelProblem {
+    fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
+        if self.place.is_empty() {
+            write!(f, "{}", self.message)
+        } else {
+            write!(f, "{}: {}", self.place, self.message)
+        }
+    }
+}
+
+/// A model file that cannot be used: every problem found.
+#[derive(Debug, Clone, PartialEq, thiserror::Error)]
+#[error("model {file}: {}", problems.iter().map(|p| p.to_string()).collect::<Vec<_>>().join("; "))]
+pub struct ModelError {
+    /// The file (or `embedded default`).
+    pub file: String,
+    /// Every problem.
+    pub problems: Vec<ModelProblem>,
+}
+
+/// One validated evidence block.
+#[derive(Debug, Clone, PartialEq)]
+pub enum Block {
+    /// Ordinal and metric traits through one latent normal per sex.
+    Latent(LatentBlock),
+    /// Published logistic equations.
+    Equations(EquationBlock),
+    /// DNA read counts.
+    Dna(DnaBlock),
+}
+
+impl Block {
+    /// Block id.
+    pub fn id(&self) -> &str {
+        match self {
+            Block::Latent(b) => &b.id,
+            Block::Equations(b) => &b.id,
+            Block::Dna(b) => &b.id,
+        }
+    }
+
+    /// Block type word.
+    pub fn kind(&self) -> &'static str {
+        match self {
+            Block::Latent(_) => "latent",
+            Block::Equations(_) => "equations",
+            Block::Dna(_) => "dna",
+        }
+    }
+
+    /// Whether the block's evidence is morphological (not used below the minimum age).
+    pub fn is_morphological(&self) -> bool {
+        !matches!(self, Block::Dna(_))
+    }
+
+    fn trait_ids(&self) -> Vec<String> {
+        match self {
+            Block::Latent(b) => b.traits.iter().map(|t| t.id.clone()).collect(),
+            Block::Equations(b) => {
+                let mut v: Vec<String> =
+                    b.equations.iter().flat_map(|e| e.inputs.clone()).collect();
+                v.sort();
+                v.dedup();
+                v
+            }
+            Block::Dna(b) => b.ids.to_vec(),
+        }
+    }
+}
+
+/// A validated evidence model.
+#[derive(Debug, Clone, PartialEq)]
+pub struct Model {
+    /// Short name.
+    pub name: String,
+    /// What it is for.
+    pub description: String,
+    /// Sources and caveats.
+    pub provenance: String,
+    /// Years below which morphological blocks are not used.
+    pub minimum_age: f64,
+    /// The catalogue: the standard traits plus the model's own.
+    pub catalogue: Catalogue,
+    /// Blocks in file order.
+    pub blocks: Vec<Block>,
+    /// SHA-256 of the model text.
+    pub sha256: String,
+}
+
+/// Everything the model says about one individual.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct IndividualEvidence {
+    /// One entry per block, in model order.
+    pub blocks: Vec<BlockEvidence>,
+    /// Σ ln LR over blocks.
+    pub ln_lr: f64,
+    /// Σ numerical error over blocks.
+    pub error: f64,
+    /// Traits that entered the computation.
+    pub n_traits: usize,
+    /// Whether any block contributed.
+    pub estimable: bool,
+    /// Age note (unknown age, below the minimum age).
+    pub note: String,
+}
+
+impl Model {
+    /// The embedded default model.
+    ///
+    /// # Errors
+    /// Never in a released build (a unit test loads it); typed for safety.
+    pub fn default_model() -> Result<Model, ModelError> {
+        Model::from_yaml("embedded default model", DEFAULT_MODEL_YAML)
+    }
+
+    /// Load a model file.
+    ///
+    /// # Errors
+    /// [`ModelError`] listing every problem; unreadable files give one problem.
+    pub fn from_path(path: &std::path::Path) -> Result<Model, ModelError> {
+        let name = path.display().to_string();
+        let text = std::fs::read_to_string(path).map_err(|e| ModelError {
+            file: name.clone(),
+            problems: vec![ModelProblem {
+                place: String::new(),
+                message: format!("cannot read the file: {e}"),
+            }],
+        })?;
+        Model::from_yaml(&name, &text)
+    }
+
+    /// Parse and validate a model document.
+    ///
+    /// # Errors
+    /// [`ModelError`] listing every problem found.
+    pub fn from_yaml(file: &str, text: &str) -> Result<Model, ModelError> {
+        let fail = |problems| ModelError {
+            file: file.to_string(),
+            problems,
+        };
+        let raw: RawModel = serde_yaml::from_str(text).map_err(|e| {
+            fail(vec![ModelProblem {
+                place: String::new(),
+                message: format!("not a valid model document: {e}"),
+            }])
+        })?;
+        let mut problems = Vec::new();
+        let mut catalogue = Catalogue::standard();
+        if let Err(e) = catalogue.extend(raw.traits.clone()) {
+            let place = match &e {
+                CatalogueError::InvalidTrait { id, .. } => format!("trait `{id}`"),
+                _ => "traits".into(),
+            };
+            problems.push(ModelProblem {
+                place,
+                message: e.to_string(),
+            });
+        }
+        if raw.provenance.trim().len() < 20 {
+            problems.push(ModelProblem {
+                place: "provenance".into(),
+                message: "say where every parameter comes from, what is from memory and what is illustrative".into(),
+            });
+        }
+        let minimum_age = raw.minimum_age.unwrap_or(ADULT_AGE_YEARS);
+        if !(minimum_age.is_finite() && (0.0..=100.0).contains(&minimum_age)) {
+            problems.push(ModelProblem {
+                place: "minimum_age".into(),
+                message: format!("years from 0 to 100, found {minimum_age}"),
+            });
+        }
+        if raw.blocks.is_empty() {
+            problems.push(ModelProblem {
+                place: "blocks".into(),
+                message: "a model needs at least one block".into(),
+            });
+        }
+        let mut blocks = Vec::new();
+        for (i, b) in raw.blocks.iter().enumerate() {
+            let id = match b {
+                RawBlock::Latent(x) => &x.id,
+                RawBlock::Equations(x) => &x.id,
+                RawBlock::Dna(x) => &x.id,
+            };
+            if let Err(m) = crate::catalogue::valid_id(id) {
+                problems.push(ModelProblem {
+                    place: format!("block {}", i + 1),
+                    message: format!("block id `{id}`: {m}"),
+                });
+            }
+            if raw.blocks[..i].iter().any(|o| match o {
+                RawBlock::Latent(x) => &x.id == id,
+                RawBlock::Equations(x) => &x.id == id,
+                RawBlock::Dna(x) => &x.id == id,
+            }) {
+                problems.push(ModelProblem {
+                    place: format!("block `{id}`"),
+                    message: "block ids must be unique".into(),
+                });
+            }
+            let block = match b {
+                RawBlock::Latent(x) => {
+                    LatentBlock::from_raw(x, &catalogue, &mut problems).map(Block::Latent)
+                }
+                RawBlock::Equations(x) => {
+                    EquationBlock::from_raw(x, &catalogue, &mut problems).map(Block::Equations)
+                }
+                RawBlock::Dna(x) => {
+                    DnaBlock::from_raw(x, &catalogue, &mut problems).map(Block::Dna)
+                }
+            };
+            blocks.extend(block);
+        }
+        // Blocks are independent given sex: a trait may serve one block only.
+        for (i, a) in blocks.iter().enumerate() {
+            for b in &blocks[i + 1..] {
+                for t in a.trait_ids() {
+                    if b.trait_ids().contains(&t) {
+                        problems.push(ModelProblem {
+                            place: format!("blocks `{}` and `{}`", a.id(), b.id()),
+                            message: format!("trait `{t}` is in both; blocks are independent given sex, so its evidence would count twice"),
+                        });
+                    }
+                }
+            }
+        }
+        if !problems.is_empty() {
+            return Err(fail(problems));
+        }
+        Ok(Model {
+            name: raw.name,
+            description: raw.description,
+            provenance: raw.provenance,
+            minimum_age,
+            catalogue,
+            blocks,
+            sha256: crate::data::sha256_hex(text.as_bytes()),
+        })
+    }
+
+    /// Evaluate every block for one individual. Morphological blocks are not used below the
+    /// minimum age; DNA is used at any age.
+    pub fn evaluate(&self, ind: &Individual, ctx: &Context) -> IndividualEvidence {
+        let maturity = ind
+            .age
+            .map(|a| a.maturity(self.minimum_age))
+            .unwrap_or(Maturity::Unknown);
+        let mut blocks = Vec::with_capacity(self.blocks.len());
+        for b in &self.blocks {
+            let mut e = match b {
+                Block::Latent(x) => x.evaluate(ind, ctx),
+                Block::Equations(x) => x.evaluate(ind),
+                Block::Dna(x) => x.evaluate(ind),
+            };
+            if b.is_morphological()
+                && maturity == Maturity::Subadult
+                && e.status != BlockStatus::NoEvidence
+            {
+                e = BlockEvidence {
+                    traits_used: Vec::new(),
+                    ..BlockEvidence::not_used(
+                        BlockStatus::BelowMinimumAge,
+                        &format!(
+                            "below the model's minimum age ({} years) for morphological evidence",
+                            self.minimum_age
+                        ),
+                    )
+                };
+            }
+            blocks.push(e);
+        }
+        let used = blocks.iter().filter(|b| b.status == BlockStatus::Used);
+        let ln_lr = used.clone().map(|b| b.ln_lr).sum();
+        let error = used.clone().map(|b| b.error).sum();
+        let n_traits = used.clone().map(|b| b.traits_used.len()).sum();
+        let estimable = used.count() > 0;
+        let note = match maturity {
+            Maturity::Subadult => "subadult: DNA only".to_string(),
+            Maturity::Unknown if ind.age.is_some() => {
+                "age range straddles the minimum age: treated as adult".to_string()
+            }
+            Maturity::Unknown => "age not recorded: treated as adult".to_string(),
+            Maturity::Adult => String::new(),
+        };
+        IndividualEvidence {
+            blocks,
+            ln_lr,
+            error,
+            n_traits,
+            estimable,
+            note,
+        }
+    }
+}

@@ -1,0 +1,200 @@
+//! The model file as written: serde structs that are the schema of `models/*.yaml`.
+//!
+//! | field | meaning |
+//! |---|---|
+//! | `name` | short name of the model |
+//! | `description` | one paragraph: what the model is for |
+//! | `provenance` | required: sources of every parameter; what is from memory; what is illustrative |
+//! | `minimum_age` | years below which morphological blocks are not used (default 18) |
+//! | `traits` | optional extra trait definitions, same form as `models/traits.yaml` |
+//! | `blocks` | the evidence blocks, independent given sex |
+//!
+//! A block has `id`, `label`, `type` (`latent`, `equations` or `dna`) and the fields of its type:
+//!
+//! **latent** — `traits:` a list of `{id, thresholds, mean: {female, male}}` for ordinal traits
+//! (thresholds: one fewer than the grades, strictly increasing, on the latent scale whose
+//! within-sex SD is 1) and `{id, mean: {female, male}, sd: {female, male}}` for metric traits;
+//! `correlation:` the within-sex correlation matrix in the order of `traits` (default identity),
+//! or `correlation_female:` and `correlation_male:` for one per sex.
+//!
+//! **equations** — `equations:` a list, in order of preference, of `{name, inputs, coefficients,
+//! intercept, predicts: male | female, training: equal | {female: n, male: n}, source}`: the
+//! equation is logit P(`predicts`) = intercept + Σ coefficients × inputs, fitted on a sample with
+//! the stated numbers of each sex.
+//!
+//! **dna** — `x_reads`, `y_reads` (trait ids, default `dna_x_reads` / `dna_y_reads`),
+//! `female: {alpha, beta}` and `male: {alpha, beta}` (Beta distribution of the fraction of Y
+//! reads among X and Y reads), `atypical_z` (default 4).
+
+use crate::catalogue::RawTrait;
+use serde::{Deserialize, Serialize};
+
+/// A model document.
+#[derive(Debug, Clone, Deserialize, Serialize)]
+#[serde(deny_unknown_fields)]
+pub struct RawModel {
+    /// Short name.
+    pub name: String,
+    /// What the model is for.
+    #[serde(default)]
+    pub description: String,
+    /// Sources, what is from memory, what is illustrative.
+    pub provenance: String,
+    /// Years below which morphological blocks are not used.
+    #[serde(default)]
+    pub minimum_age: Option<f64>,
+    /// Extra trait definitions.
+    #[serde(default)]
+    pub traits: Vec<RawTrait>,
+    /// Evidence blocks.
+    pub blocks: Vec<RawBlock>,
+}
+
+/// One block as written.
+#[derive(Debug, Clone, Deserialize, Serialize)]
+#[serde(tag = "type", rename_all = "lowercase")]
+pub enum RawBlock {
+    /// Latent-trait block (multivariate cumulative probit with measurements).
+    Latent(RawLatentBlock),
+    /// Published logistic equations.
+    Equations(RawEquationBlock),
+    /// Ancient-DNA read counts.
+    Dna(RawDnaBlock),
+}
+
+/// A pair of per-sex values.
+#[derive(Debug, Clone, Copy, Deserialize, Serialize)]
+#[serde(deny_unknown_fields)]
+pub struct PerSex {
+    /// Value for females.
+    pub female: f64,
+    /// Value for males.
+    pub male: f64,
+}
+
+/// Latent-trait block as written.
+#[derive(Debug, Clone, Deserialize, Serialize)]
+#[serde(deny_unknown_fields)]
+pub struct RawLatentBlock {
+    /// Block id (a column suffix in outputs).
+    pub id: String,
+    /// Readable label.
+    #[serde(default)]
+    pub label: String,
+    /// The traits, in the order of the correlation matrix.
+    pub traits: Vec<RawLatentTrait>,
+    /// Shared within-sex correlation matrix.
+    #[serde(default)]
+    pub correlation: Option<Vec<Vec<f64>>>,
+    /// Female within-sex correlation (with `correlation_male`).
+    #[serde(default)]
+    pub correlation_female: Option<Vec<Vec<f64>>>,
+    /// Male within-sex correlation (with `correlation_female`).
+    #[serde(default)]
+    pub correlation_male: Option<Vec<Vec<f64>>>,
+}
+
+/// One trait of a latent block as written.
+#[derive(Debug, Clone, Deserialize, Serialize)]
+#[serde(deny_unknown_fields)]
+pub struct RawLatentTrait {
+    /// Catalogue trait id.
+    pub id: String,
+    /// Ordinal thresholds (latent scale), one fewer than the grades.
+    #[serde(default)]
+    pub thresholds: Option<Vec<f64>>,
+    /// Mean per sex (latent scale for ordinal traits, unit of measurement for metric).
+    pub mean: PerSex,
+    /// SD per sex (metric traits only).
+    #[serde(default)]
+    pub sd: Option<PerSex>,
+}
+
+/// Equation block as written.
+#[derive(Debug, Clone, Deserialize, Serialize)]
+#[serde(deny_unknown_fields)]
+pub struct RawEquationBlock {
+    /// Block id.
+    pub id: String,
+    /// Readable label.
+    #[serde(default)]
+    pub label: String,
+    /// Equations in order of preference.
+    pub equations: Vec<RawEquation>,
+}
+
+/// The sex composition of an equation's training sample.
+#[derive(Debug, Clone, Deserialize, Serialize)]
+#[serde(untagged)]
+pub enum RawTraining {
+    /// `equal`: balanced classes (prior odds 1).
+    Word(String),
+    /// `{female: n, male: n}`.
+    Counts {
+        /// Females in the training sample.
+        female: f64,
+        /// Males in the training sample.
+        male: f64,
+    },
+}
+
+/// One published logistic equation as written.
+#[derive(Debug, Clone, Deserialize, Serialize)]
+#[serde(deny_unknown_fields)]
+pub struct RawEquation {
+    /// Name (author, year, variant).
+    pub name: String,
+    /// Input trait ids.
+    pub inputs: Vec<String>,
+    /// One coefficient per input.
+    pub coefficients: Vec<f64>,
+    /// Intercept.
+    pub intercept: f64,
+    /// `male` when the equation is logit P(male), `female` when logit P(female).
+    pub predicts: String,
+    /// Sex composition of the training sample.
+    pub training: RawTraining,
+    /// Published source, and whether the coefficients are from memory.
+    pub source: String,
+}
+
+/// DNA block as written.
+#[derive(Debug, Clone, Deserialize, Serialize)]
+#[serde(deny_unknown_fields)]
+pub struct RawDnaBlock {
+    /// Block id.
+    pub id: String,
+    /// Readable label.
+    #[serde(default)]
+    pub label: String,
+    /// Trait id of the X read count.
+    #[serde(default = "default_x")]
+    pub x_reads: String,
+    /// Trait id of the Y read count.
+    #[serde(default = "default_y")]
+    pub y_reads: String,
+    /// Beta(α, β) of the Y fraction for XX individuals.
+    pub female: RawBeta,
+    /// Beta(α, β) of the Y fraction for XY individuals.
+    pub male: RawBeta,
+    /// |z| beyond which the Y count fits a sex badly (default 4).
+    #[serde(default)]
+    pub atypical_z: Option<f64>,
+}
+
+fn default_x() -> String {
+    "dna_x_reads".into()
+}
+fn default_y() -> String {
+    "dna_y_reads".into()
+}
+
+/// Beta parameters.
+#[derive(Debug, Clone, Copy, Deserialize, Serialize)]
+#[serde(deny_unknown_fields)]
+pub struct RawBeta {
+    /// α > 0.
+    pub alpha: f64,
+    /// β > 0.
+    pub beta: f64,
+}

@@ -1,0 +1,86 @@
+//! Writing output files: each file whole or not at all, inputs never overwritten.
+
+use crate::Error;
+use std::io::Write;
+use std::path::{Path, PathBuf};
+
+/// Write `bytes` to `path` atomically: a temporary file in the same folder, flushed and
+/// synced, then renamed over the target. A run that stops half-way leaves no partial file.
+///
+/// `protected` lists files that must never be overwritten (the run's inputs).
+///
+/// # Errors
+/// [`Error::Io`] when the folder or file cannot be written, or `path` is an input.
+pub fn write_atomic(path: &Path, bytes: &[u8], protected: &[&Path]) -> Result<(), Error> {
+    let io = |source| Error::Io {
+        path: path.to_path_buf(),
+        source,
+    };
+    let target = absolute(path);
+    for p in protected {
+        if absolute(p) == target {
+            return Err(io(std::io::Error::new(
+                std::io::ErrorKind::AlreadyExists,
+                "this is an input of the run; choose another output name (inputs are never overwritten)",
+            )));
+        }
+    }
+    let dir = path
+        .parent()
+        .filter(|d| !d.as_os_str().is_empty())
+        .unwrap_or(Path::new("."));
+    let name = path
+        .file_name()
+        .map(|n| n.to_string_lossy().into_owned())
+        .unwrap_or_default();
+    let tmp = dir.join(format!(".{name}.{}.partial", std::process::id()));
+    let result = (|| {
+        let mut f = std::fs::File::create(&tmp)?;
+        f.write_all(bytes)?;
+        f.sync_all()?;
+        std::fs::rename(&tmp, path)
+    })();
+    if let Err(e) = result {
+        let _ = std::fs::remove_file(&tmp);
+        return Err(io(e));
+    }
+    Ok(())
+}
+
+fn absolute(p: &Path) -> PathBuf {
+    std::fs::canonicalize(p).unwrap_or_else(|_| {
+        // The target may not exist yet: canonicalise its folder.
+        match (p.parent(), p.file_name()) {
+            (Some(d), Some(n)) if !d.as_os_str().is_empty() => std::fs::canonicalize(d)
+                .map(|d| d.join(n))
+                .unwrap_or_else(|_| p.to_path_buf()),
+            _ => std::env::current_dir()
+                .map(|d| d.join(p))
+                .unwrap_or_else(|_| p.to_path_buf()),
+        }
+    })
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn writes_whole_files_and_refuses_to_overwrite_inputs() {
+        let dir = tempfile::tempdir().unwrap();
+        let input = dir.path().join("in.csv");
+        std::fs::write(&input, "id\nA\n").unwrap();
+        let out = dir.path().join("out.csv");
+        write_atomic(&out, b"x,y\n", &[&input]).unwrap();
+        assert_eq!(std::fs::read(&out).unwrap(), b"x,y\n");
+        assert!(write_atomic(&input, b"oops", &[&input]).is_err());
+        assert_eq!(std::fs::read(&input).unwrap(), b"id\nA\n");
+        // No temporary files left behind.
+        let names: Vec<_> = std::fs::read_dir(dir.path())
+            .unwrap()
+            .map(|e| e.unwrap().file_name())
+            .collect();
+        assert_eq!(names.len(), 2);
+        assert!(write_atomic(&dir.path().join("no/such/dir/x.csv"), b"", &[]).is_err());
+    }
+}
