@@ -39,6 +39,7 @@ pub mod likelihood;
 pub mod model;
 pub mod numeric;
 pub mod output;
+pub mod sim;
 
 pub use error::Error;
 

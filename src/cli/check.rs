@@ -1,7 +1,6 @@
 //! `dimorph check FILE`: validate an input table and summarise how complete it is.
 
 use super::input::InputArgs;
-use crate::catalogue::Catalogue;
 use crate::data::{read_assemblage, Completeness, InputError, TableFormat};
 use crate::Error;
 use clap::ValueEnum;
@@ -26,9 +25,12 @@ pub struct Args {
     /// Output form.
     #[arg(long, value_enum, default_value = "text")]
     pub format: Format,
-    /// Minimum age (years) for counting adults.
-    #[arg(long, value_name = "YEARS", default_value_t = crate::data::ADULT_AGE_YEARS)]
-    pub minimum_age: f64,
+    /// Minimum age (years) for counting adults (default: the model's, usually 18).
+    #[arg(long, value_name = "YEARS")]
+    pub minimum_age: Option<f64>,
+    /// Model file whose traits the columns are matched against (default: the embedded model).
+    #[arg(long, value_name = "FILE")]
+    pub model: Option<PathBuf>,
     /// How to read the table.
     #[command(flatten)]
     pub input: InputArgs,
@@ -50,20 +52,19 @@ struct JsonReport<'a> {
 /// # Errors
 /// Settings and file-access errors; input problems are printed, not returned.
 pub fn run(args: Args) -> Result<i32, Error> {
-    let catalogue = Catalogue::standard();
-    let settings = args.input.settings(&catalogue)?;
-    if !(args.minimum_age.is_finite() && (0.0..=100.0).contains(&args.minimum_age)) {
+    let model = super::evidence::load_model(args.model.as_deref())?;
+    let catalogue = &model.catalogue;
+    let settings = args.input.settings(catalogue)?;
+    let minimum_age = args.minimum_age.unwrap_or(model.minimum_age);
+    if !(minimum_age.is_finite() && (0.0..=100.0).contains(&minimum_age)) {
         return Err(Error::Settings {
             file: "command line".into(),
-            message: format!(
-                "--minimum-age {}: expected years from 0 to 100",
-                args.minimum_age
-            ),
+            message: format!("--minimum-age {minimum_age}: expected years from 0 to 100"),
         });
     }
-    match read_assemblage(&args.file, &catalogue, &settings) {
+    match read_assemblage(&args.file, catalogue, &settings) {
         Ok(a) => {
-            let c = Completeness::of(&a, Some(args.minimum_age));
+            let c = Completeness::of(&a, Some(minimum_age));
             match args.format {
                 Format::Text => {
                     let delim = match (a.format, a.delimiter) {

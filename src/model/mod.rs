@@ -327,3 +327,6 @@ impl Model {
         }
     }
 }
+
+#[cfg(test)]
+mod tests;

@@ -8,6 +8,7 @@ Run: python tests/reference/mvn_boxes.py
 """
 import csv
 import os
+import sys
 
 import numpy as np
 from scipy.stats import multivariate_normal
@@ -41,7 +42,7 @@ def main():
         rows.append([d, ";".join(repr(float(x)) for x in cov.ravel()),
                      ";".join(repr(float(x)) for x in lower),
                      ";".join(repr(float(x)) for x in upper), repr(float(np.log(p)))])
-    out = os.path.join(HERE, "fixtures", "mvn_boxes.csv")
+    out = os.path.join(sys.argv[1] if len(sys.argv) > 1 else os.path.join(HERE, "fixtures"), "mvn_boxes.csv")
     with open(out, "w", newline="") as f:
         w = csv.writer(f, lineterminator="\n")
         w.writerow(["dim", "cov", "lower", "upper", "ln_p"])

@@ -1,0 +1,88 @@
+//! Drawing synthetic individuals from a model, for checks by simulation with known truth.
+
+use crate::data::{Individual, Observation, Sex};
+use crate::model::latent::LatentKind;
+use crate::model::{Block, Model};
+use rand::RngExt;
+use rand_chacha::ChaCha8Rng;
+use statrs::distribution::{Beta, Binomial, Normal};
+
+/// Draw every trait of every latent and DNA block for one individual of the given sex.
+/// Equation blocks cannot be simulated (they carry no per-sex distribution) and are skipped.
+///
+/// `reads` is the number of X + Y reads drawn for the DNA block.
+pub fn draw_observations(
+    model: &Model,
+    sex: Sex,
+    reads: u64,
+    rng: &mut ChaCha8Rng,
+) -> Vec<Option<Observation>> {
+    use rand::distr::Distribution;
+    let s = match sex {
+        Sex::Female => 0,
+        Sex::Male => 1,
+    };
+    let mut obs = vec![None; model.catalogue.len()];
+    let std = Normal::standard();
+    for b in &model.blocks {
+        match b {
+            Block::Latent(lb) => {
+                let p = lb.traits.len();
+                let Some(chol) = lb.cov[s].clone().cholesky() else {
+                    continue;
+                };
+                let z = nalgebra::DVector::from_fn(p, |_, _| std.sample(rng));
+                let x = &lb.mean[s] + chol.l() * z;
+                for (j, t) in lb.traits.iter().enumerate() {
+                    obs[t.catalogue_index] = Some(match &t.kind {
+                        LatentKind::Metric => Observation::Measurement { value: x[j] },
+                        LatentKind::Ordinal { thresholds, lowest } => {
+                            let g = lowest
+                                + thresholds.iter().filter(|&&tau| x[j] > tau).count() as i32;
+                            Observation::Grade { low: g, high: g }
+                        }
+                    });
+                }
+            }
+            Block::Dna(db) => {
+                let (a, bb) = db.beta[s];
+                let (Ok(beta), n) = (Beta::new(a, bb), reads) else {
+                    continue;
+                };
+                let frac: f64 = beta.sample(rng);
+                let k = Binomial::new(frac, n)
+                    .map(|d| Distribution::<u64>::sample(&d, rng))
+                    .unwrap_or(0);
+                obs[db.x_index] = Some(Observation::Count { value: n - k });
+                obs[db.y_index] = Some(Observation::Count { value: k });
+            }
+            Block::Equations(_) => {}
+        }
+    }
+    obs
+}
+
+/// A synthetic adult individual (no age recorded is treated as adult) with the given
+/// observations.
+pub fn individual(id: String, observations: Vec<Option<Observation>>) -> Individual {
+    let n = observations.len();
+    Individual {
+        id,
+        row: 0,
+        group: None,
+        age: None,
+        known_sex: None,
+        observations,
+        sides: vec![None; n],
+        carried: Vec::new(),
+    }
+}
+
+/// Draw a sex with P(female) = pi.
+pub fn draw_sex(pi: f64, rng: &mut ChaCha8Rng) -> Sex {
+    if rng.random::<f64>() < pi {
+        Sex::Female
+    } else {
+        Sex::Male
+    }
+}
