@@ -31,6 +31,7 @@
 // `!(x > 0.0)` is used on purpose: it rejects NaN as well as non-positive values.
 #![allow(clippy::neg_cmp_op_on_partial_ord)]
 
+pub mod assemblage;
 pub mod catalogue;
 pub mod cli;
 pub mod data;
@@ -39,6 +40,8 @@ pub mod likelihood;
 pub mod model;
 pub mod numeric;
 pub mod output;
+pub mod prior;
+pub mod report;
 pub mod sim;
 
 pub use error::Error;

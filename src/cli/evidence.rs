@@ -82,7 +82,7 @@ pub fn run(args: Args) -> Result<i32, Error> {
     let record = RunRecord {
         program: "dimorph",
         version: crate::VERSION,
-        command: std::env::args().collect(),
+        command: crate::cli::command_line(),
         input: &a.file,
         input_sha256: &a.sha256,
         model: &model.name,

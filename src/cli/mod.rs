@@ -1,6 +1,7 @@
 //! The command line: argument parsing and the glue that calls the library. One file per
 //! subcommand, each with its `Args` and a `run`.
 
+pub mod analyse;
 pub mod check;
 pub mod evidence;
 pub mod input;
@@ -22,6 +23,9 @@ pub struct Cli {
 /// The subcommands.
 #[derive(Debug, Subcommand)]
 pub enum Command {
+    /// Posterior sex of every individual and the assemblage's proportion female, with the
+    /// prior sensitivity analysis (the main job).
+    Analyse(analyse::Args),
     /// Validate an input table and summarise how complete it is; lists every problem.
     Check(check::Args),
     /// Per individual and body region: the likelihood ratio female:male, without any prior.
@@ -31,6 +35,7 @@ pub enum Command {
 /// Run a parsed command line; returns the process exit code.
 pub fn run(cli: Cli) -> i32 {
     let result = match cli.command {
+        Command::Analyse(args) => analyse::run(args),
         Command::Check(args) => check::run(args),
         Command::Evidence(args) => evidence::run(args),
     };
@@ -41,4 +46,12 @@ pub fn run(cli: Cli) -> i32 {
             e.exit_code()
         }
     }
+}
+
+/// The command line as typed, with the program path replaced by `dimorph` so that the record
+/// does not depend on where the binary lives.
+pub fn command_line() -> Vec<String> {
+    std::iter::once("dimorph".to_string())
+        .chain(std::env::args().skip(1))
+        .collect()
 }

@@ -2,7 +2,8 @@
 committed one. Fails (exit 1) where a value drifts beyond the stated tolerance.
 
 Tolerances: normal_tails.csv relative 1e-12 (deterministic special functions);
-mvn_boxes.csv absolute 1e-6 on ln P (scipy's randomised integration, seeded).
+mvn_boxes.csv absolute 1e-6 on ln P (scipy's randomised integration, seeded);
+pi_posterior.csv absolute 1e-9 (adaptive quadrature).
 Run: python tests/reference/check_fixtures.py
 """
 import csv
@@ -16,6 +17,7 @@ HERE = os.path.dirname(os.path.abspath(__file__))
 SCRIPTS = {
     "normal_tails.py": ("normal_tails.csv", "expected", "rel", 1e-12),
     "mvn_boxes.py": ("mvn_boxes.csv", "ln_p", "abs", 1e-6),
+    "pi_posterior.py": ("pi_posterior.csv", "expected", "abs", 1e-9),
 }
 
 

@@ -1,0 +1,205 @@
+//! Categories on P(female) and the evaluative wording of likelihood ratios.
+
+use serde::{Deserialize, Serialize};
+
+/// Thresholds on P(F). Defaults: ≥ 0.95 female (the 0.95 rule of Bruzek et al. 2017, Am J
+/// Phys Anthropol 164:440–449); 0.80–0.95 probable female; 0.20–0.80 indeterminate; 0.05–0.20
+/// probable male; ≤ 0.05 male (the intermediate cut-offs are common practice).
+#[derive(Debug, Clone, Copy, PartialEq, Serialize, Deserialize)]
+pub struct Thresholds {
+    /// P(F) at or below which an individual is male.
+    pub male: f64,
+    /// P(F) at or below which (and above `male`) an individual is probable male.
+    pub probable_male: f64,
+    /// P(F) at or above which (and below `female`) an individual is probable female.
+    pub probable_female: f64,
+    /// P(F) at or above which an individual is female.
+    pub female: f64,
+}
+
+impl Default for Thresholds {
+    fn default() -> Self {
+        Thresholds {
+            male: 0.05,
+            probable_male: 0.20,
+            probable_female: 0.80,
+            female: 0.95,
+        }
+    }
+}
+
+impl Thresholds {
+    /// Validated thresholds: 0 < male ≤ probable_male < probable_female ≤ female < 1.
+    ///
+    /// # Errors
+    /// A message saying what order is required.
+    pub fn new(
+        male: f64,
+        probable_male: f64,
+        probable_female: f64,
+        female: f64,
+    ) -> Result<Thresholds, String> {
+        let t = Thresholds {
+            male,
+            probable_male,
+            probable_female,
+            female,
+        };
+        if 0.0 < male
+            && male <= probable_male
+            && probable_male < probable_female
+            && probable_female <= female
+            && female < 1.0
+        {
+            Ok(t)
+        } else {
+            Err(format!(
+                "thresholds must satisfy 0 < male ≤ probable male < probable female ≤ female < 1; found {male}, {probable_male}, {probable_female}, {female}"
+            ))
+        }
+    }
+
+    /// Parse `male,probable_male,probable_female,female`, e.g. `0.05,0.2,0.8,0.95`.
+    ///
+    /// # Errors
+    /// A message for a malformed list or bad order.
+    pub fn parse(s: &str) -> Result<Thresholds, String> {
+        let v: Vec<f64> = s
+            .split(',')
+            .map(|x| x.trim().parse::<f64>())
+            .collect::<Result<_, _>>()
+            .map_err(|_| format!("`{s}`: expected four numbers, e.g. 0.05,0.2,0.8,0.95"))?;
+        if v.len() != 4 {
+            return Err(format!(
+                "`{s}`: expected four numbers (male, probable male, probable female, female)"
+            ));
+        }
+        Thresholds::new(v[0], v[1], v[2], v[3])
+    }
+
+    /// The category of a P(F).
+    pub fn categorise(&self, p_female: f64) -> Category {
+        if p_female >= self.female {
+            Category::Female
+        } else if p_female >= self.probable_female {
+            Category::ProbableFemale
+        } else if p_female <= self.male {
+            Category::Male
+        } else if p_female <= self.probable_male {
+            Category::ProbableMale
+        } else {
+            Category::Indeterminate
+        }
+    }
+}
+
+/// Where an individual's P(F) falls; `NotEstimable` when there is no usable evidence.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Hash, PartialOrd, Ord, Serialize)]
+#[serde(rename_all = "snake_case")]
+pub enum Category {
+    /// P(F) ≥ female threshold.
+    Female,
+    /// Between the probable-female and female thresholds.
+    ProbableFemale,
+    /// Evidence that does not decide.
+    Indeterminate,
+    /// Between the male and probable-male thresholds.
+    ProbableMale,
+    /// P(F) ≤ male threshold.
+    Male,
+    /// Too young for morphology and no DNA, or no usable evidence.
+    NotEstimable,
+}
+
+impl Category {
+    /// All categories in reporting order.
+    pub const ALL: [Category; 6] = [
+        Category::Female,
+        Category::ProbableFemale,
+        Category::Indeterminate,
+        Category::ProbableMale,
+        Category::Male,
+        Category::NotEstimable,
+    ];
+
+    /// The word written in outputs.
+    pub fn as_str(self) -> &'static str {
+        match self {
+            Category::Female => "female",
+            Category::ProbableFemale => "probable_female",
+            Category::Indeterminate => "indeterminate",
+            Category::ProbableMale => "probable_male",
+            Category::Male => "male",
+            Category::NotEstimable => "not_estimable",
+        }
+    }
+
+    /// The words for a reader.
+    pub fn label(self) -> &'static str {
+        match self {
+            Category::Female => "female",
+            Category::ProbableFemale => "probable female",
+            Category::Indeterminate => "indeterminate",
+            Category::ProbableMale => "probable male",
+            Category::Male => "male",
+            Category::NotEstimable => "not estimable",
+        }
+    }
+}
+
+/// The likelihood ratio in words, on the verbal scale of the ENFSI Guideline for Evaluative
+/// Reporting in Forensic Science (2015): 1–2 no support, 2–10 weak, 10–100 moderate,
+/// 100–1,000 moderately strong, 1,000–10,000 strong, 10,000–1,000,000 very strong, above
+/// 1,000,000 extremely strong; reciprocals for the other proposition. The cut-points are
+/// quoted from memory (the same cut-points appear in university teaching texts on
+/// likelihood ratios), not from the guideline's text.
+pub fn lr_support(log10_lr: f64) -> String {
+    let m = log10_lr.abs();
+    let strength = if m < 2f64.log10() {
+        return "no support for either sex".into();
+    } else if m < 1.0 {
+        "weak"
+    } else if m < 2.0 {
+        "moderate"
+    } else if m < 3.0 {
+        "moderately strong"
+    } else if m < 4.0 {
+        "strong"
+    } else if m < 6.0 {
+        "very strong"
+    } else {
+        "extremely strong"
+    };
+    let side = if log10_lr > 0.0 { "female" } else { "male" };
+    format!("{strength} support for {side}")
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn categories_at_the_boundaries() {
+        let t = Thresholds::default();
+        assert_eq!(t.categorise(0.95), Category::Female);
+        assert_eq!(t.categorise(0.949), Category::ProbableFemale);
+        assert_eq!(t.categorise(0.80), Category::ProbableFemale);
+        assert_eq!(t.categorise(0.5), Category::Indeterminate);
+        assert_eq!(t.categorise(0.20), Category::ProbableMale);
+        assert_eq!(t.categorise(0.05), Category::Male);
+        assert!(Thresholds::parse("0.05,0.2,0.8,0.95").is_ok());
+        assert!(Thresholds::parse("0.2,0.05,0.8,0.95").is_err());
+        assert!(Thresholds::parse("0.05,0.2").is_err());
+    }
+
+    #[test]
+    fn verbal_scale() {
+        assert_eq!(lr_support(0.1), "no support for either sex");
+        assert_eq!(lr_support(0.5), "weak support for female");
+        assert_eq!(lr_support(-1.5), "moderate support for male");
+        assert_eq!(lr_support(2.5), "moderately strong support for female");
+        assert_eq!(lr_support(-3.2), "strong support for male");
+        assert_eq!(lr_support(5.0), "very strong support for female");
+        assert_eq!(lr_support(-7.0), "extremely strong support for male");
+    }
+}

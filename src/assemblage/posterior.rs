@@ -1,0 +1,310 @@
+//! The posterior of π, the proportion female, from every individual's likelihood ratio.
+//!
+//! # Formula
+//! With π ~ Beta(a, b) and independent individuals,
+//! p(π | D) ∝ Beta(π; a, b) ∏ᵢ (π LRᵢ + 1 − π)   (DESIGN §3),
+//! since P(Dᵢ | π) = π P(Dᵢ | F) + (1 − π) P(Dᵢ | M) ∝ π LRᵢ + 1 − π. Each individual's
+//! P(sᵢ = F | D) = ∫ π LRᵢ / (π LRᵢ + 1 − π) p(π | D) dπ. Everything is computed in log space
+//! on a grid in t, with π = sin²(πt/2): the change of variable (dπ/dt = (π/2) sin(πt))
+//! removes the endpoint singularities of Beta priors with a or b down to ½, so the midpoint
+//! rule stays accurate. A coarse pass over t ∈ (0, 1) finds where the posterior lives, and a
+//! fine pass covers that region (every cell within e⁻⁶⁰ of the maximum).
+
+use crate::prior::{Prior, PriorShape};
+use serde::Serialize;
+use statrs::function::beta::ln_beta;
+
+/// Cells of the coarse pass over (0, 1).
+const COARSE_CELLS: usize = 1000;
+/// Cells of the fine pass over the region that holds the posterior.
+const FINE_CELLS: usize = 4000;
+/// Cells whose log density is this far below the maximum are outside the region.
+const LN_CUTOFF: f64 = 60.0;
+
+/// The posterior of π on a grid (or a point, for a fixed prior).
+#[derive(Debug, Clone, PartialEq)]
+pub struct PiPosterior {
+    /// π at the cell midpoints (midpoints in t).
+    pub grid: Vec<f64>,
+    /// Probability of each cell (sums to 1).
+    pub mass: Vec<f64>,
+    /// Cell edges in π (one more than the cells).
+    pub edges: Vec<f64>,
+}
+
+/// π = sin²(πt/2).
+fn pi_of(t: f64) -> f64 {
+    let s = (std::f64::consts::FRAC_PI_2 * t).sin();
+    s * s
+}
+
+/// ln dπ/dt = ln((π/2) sin(πt)).
+fn ln_jacobian(t: f64) -> f64 {
+    (std::f64::consts::FRAC_PI_2 * (std::f64::consts::PI * t).sin()).ln()
+}
+
+/// Summary of the posterior of π.
+#[derive(Debug, Clone, Copy, PartialEq, Serialize)]
+pub struct PiSummary {
+    /// Posterior mean.
+    pub mean: f64,
+    /// Posterior median.
+    pub median: f64,
+    /// 2.5% quantile.
+    pub lo: f64,
+    /// 97.5% quantile.
+    pub hi: f64,
+    /// Lower end of the 95% highest-density interval.
+    pub hdi_lo: f64,
+    /// Upper end of the 95% highest-density interval.
+    pub hdi_hi: f64,
+    /// P(π < 0.5 | D).
+    pub p_below_half: f64,
+}
+
+/// ln(π e^l + 1 − π) for one individual, stable for any l.
+#[inline]
+pub fn ln_mixture(ln_pi: f64, ln_1m_pi: f64, l: f64) -> f64 {
+    crate::numeric::normal::ln_add_exp(ln_pi + l, ln_1m_pi)
+}
+
+/// P(female | π, LR) = 1 / (1 + exp(−(l + logit π))).
+#[inline]
+pub fn p_female_given(pi: f64, l: f64) -> f64 {
+    let x = l + (pi / (1.0 - pi)).ln();
+    if x >= 0.0 {
+        1.0 / (1.0 + (-x).exp())
+    } else {
+        let e = x.exp();
+        e / (1.0 + e)
+    }
+}
+
+impl PiPosterior {
+    /// The posterior of π given the individuals' ln LR(F:M) (individuals without evidence
+    /// may be left out or given 0: they contribute nothing).
+    pub fn compute(ln_lrs: &[f64], prior: &Prior) -> PiPosterior {
+        let (a, b) = match prior.shape {
+            PriorShape::Fixed { pi } => {
+                return PiPosterior {
+                    grid: vec![pi],
+                    mass: vec![1.0],
+                    edges: vec![pi, pi],
+                }
+            }
+            PriorShape::Beta { a, b } => (a, b),
+        };
+        let informative: Vec<f64> = ln_lrs
+            .iter()
+            .copied()
+            .filter(|l| *l != 0.0 && l.is_finite())
+            .collect();
+        let ln_density = |pi: f64| {
+            let (lp, lq) = (pi.ln(), (1.0 - pi).ln());
+            let prior = (a - 1.0) * lp + (b - 1.0) * lq - ln_beta(a, b);
+            prior
+                + informative
+                    .iter()
+                    .map(|&l| ln_mixture(lp, lq, l))
+                    .sum::<f64>()
+        };
+        let ln_weight = |t: f64| ln_density(pi_of(t)) + ln_jacobian(t);
+        // Coarse pass in t.
+        let w0 = 1.0 / COARSE_CELLS as f64;
+        let coarse: Vec<f64> = (0..COARSE_CELLS)
+            .map(|i| ln_weight((i as f64 + 0.5) * w0))
+            .collect();
+        let max = coarse.iter().copied().fold(f64::NEG_INFINITY, f64::max);
+        let first = coarse
+            .iter()
+            .position(|&v| v > max - LN_CUTOFF)
+            .unwrap_or(0);
+        let last = coarse
+            .iter()
+            .rposition(|&v| v > max - LN_CUTOFF)
+            .unwrap_or(COARSE_CELLS - 1);
+        let lo = first.saturating_sub(1) as f64 * w0;
+        let hi = ((last + 2).min(COARSE_CELLS)) as f64 * w0;
+        // Fine pass.
+        let width = (hi - lo) / FINE_CELLS as f64;
+        let ts: Vec<f64> = (0..FINE_CELLS)
+            .map(|i| lo + (i as f64 + 0.5) * width)
+            .collect();
+        let ln_w: Vec<f64> = ts.iter().map(|&t| ln_weight(t)).collect();
+        let m = ln_w.iter().copied().fold(f64::NEG_INFINITY, f64::max);
+        let un: Vec<f64> = ln_w.iter().map(|v| (v - m).exp()).collect();
+        let total: f64 = un.iter().sum();
+        PiPosterior {
+            grid: ts.iter().map(|&t| pi_of(t)).collect(),
+            mass: un.iter().map(|u| u / total).collect(),
+            edges: (0..=FINE_CELLS)
+                .map(|i| pi_of(lo + i as f64 * width))
+                .collect(),
+        }
+    }
+
+    /// Posterior mean of a function of π.
+    pub fn expect(&self, f: impl Fn(f64) -> f64) -> f64 {
+        self.grid
+            .iter()
+            .zip(&self.mass)
+            .map(|(&p, &w)| w * f(p))
+            .sum()
+    }
+
+    /// P(sᵢ = F | D) for an individual with ln LR `l`.
+    pub fn p_female(&self, l: f64) -> f64 {
+        self.expect(|pi| p_female_given(pi, l))
+    }
+
+    /// The q-quantile (linear within cells).
+    pub fn quantile(&self, q: f64) -> f64 {
+        if self.grid.len() == 1 {
+            return self.grid[0];
+        }
+        let mut acc = 0.0;
+        for (i, &w) in self.mass.iter().enumerate() {
+            if acc + w >= q {
+                let frac = if w > 0.0 { (q - acc) / w } else { 0.5 };
+                return self.edges[i] + frac * (self.edges[i + 1] - self.edges[i]);
+            }
+            acc += w;
+        }
+        self.edges[self.edges.len() - 1]
+    }
+
+    /// The 95% highest-density interval (cells of highest density until 95% of the mass).
+    pub fn hdi(&self, level: f64) -> (f64, f64) {
+        if self.grid.len() == 1 {
+            return (self.grid[0], self.grid[0]);
+        }
+        // Density in π of each cell: its mass over its width in π.
+        let density: Vec<f64> = (0..self.mass.len())
+            .map(|i| self.mass[i] / (self.edges[i + 1] - self.edges[i]).max(f64::MIN_POSITIVE))
+            .collect();
+        let mut order: Vec<usize> = (0..self.mass.len()).collect();
+        order.sort_by(|&i, &j| density[j].total_cmp(&density[i]));
+        let (mut acc, mut lo, mut hi) = (0.0, usize::MAX, 0);
+        for i in order {
+            acc += self.mass[i];
+            lo = lo.min(i);
+            hi = hi.max(i);
+            if acc >= level {
+                break;
+            }
+        }
+        (self.edges[lo], self.edges[hi + 1])
+    }
+
+    /// Mean, median, 95% equal-tailed and highest-density intervals, P(π < 0.5).
+    pub fn summary(&self) -> PiSummary {
+        let (hdi_lo, hdi_hi) = self.hdi(0.95);
+        PiSummary {
+            mean: self.expect(|p| p),
+            median: self.quantile(0.5),
+            lo: self.quantile(0.025),
+            hi: self.quantile(0.975),
+            hdi_lo,
+            hdi_hi,
+            p_below_half: self.cdf(0.5),
+        }
+    }
+
+    /// P(π < x | D) (for a fixed prior: 1 when the fixed value is below x, else 0).
+    pub fn cdf(&self, x: f64) -> f64 {
+        if self.grid.len() == 1 {
+            return if self.grid[0] < x { 1.0 } else { 0.0 };
+        }
+        (0..self.mass.len())
+            .map(|i| {
+                let (l, r, w) = (self.edges[i], self.edges[i + 1], self.mass[i]);
+                if r <= x {
+                    w
+                } else if l >= x {
+                    0.0
+                } else {
+                    w * (x - l) / (r - l)
+                }
+            })
+            .sum()
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use statrs::distribution::{Beta, ContinuousCDF};
+    use statrs::statistics::Distribution;
+
+    fn flat() -> Prior {
+        Prior::from_yaml(
+            "t",
+            "name: t\nprovenance: uniform prior for a test\nbeta: {a: 2, b: 3}\n",
+        )
+        .unwrap()
+    }
+
+    /// With every LR extreme each individual's sex is known, and p(π | D) is
+    /// Beta(a + n_F, b + n_M) (conjugacy); checked against statrs' Beta.
+    #[test]
+    fn extreme_evidence_gives_the_conjugate_beta() {
+        let mut l = vec![300.0 * std::f64::consts::LN_10; 7];
+        l.extend(vec![-300.0 * std::f64::consts::LN_10; 12]);
+        let post = PiPosterior::compute(&l, &flat());
+        let s = post.summary();
+        let beta = Beta::new(2.0 + 7.0, 3.0 + 12.0).unwrap();
+        assert!(
+            (s.mean - beta.mean().unwrap()).abs() < 1e-6,
+            "{} vs {}",
+            s.mean,
+            beta.mean().unwrap()
+        );
+        for (got, q) in [(s.median, 0.5), (s.lo, 0.025), (s.hi, 0.975)] {
+            assert!(
+                (got - beta.inverse_cdf(q)).abs() < 1e-5,
+                "q {q}: {got} vs {}",
+                beta.inverse_cdf(q)
+            );
+        }
+        assert!((s.p_below_half - beta.cdf(0.5)).abs() < 1e-6);
+        // Individuals' P(F) are 1 and 0.
+        assert!(post.p_female(300.0) > 1.0 - 1e-12 && post.p_female(-300.0) < 1e-12);
+    }
+
+    #[test]
+    fn fixed_prior_gives_the_logistic_formula() {
+        let p = Prior::fixed(0.3).unwrap();
+        let post = PiPosterior::compute(&[1.0, -2.0], &p);
+        let l: f64 = 1.2;
+        assert!((post.p_female(l) - 0.3 * l.exp() / (0.3 * l.exp() + 0.7)).abs() < 1e-15);
+        assert_eq!(post.summary().mean, 0.3);
+    }
+
+    #[test]
+    fn no_evidence_returns_the_prior() {
+        let post = PiPosterior::compute(&[0.0, 0.0], &flat());
+        let beta = Beta::new(2.0, 3.0).unwrap();
+        assert!((post.summary().mean - 0.4).abs() < 1e-6);
+        assert!((post.quantile(0.9) - beta.inverse_cdf(0.9)).abs() < 1e-5);
+    }
+
+    #[test]
+    fn mirroring_the_sexes_mirrors_the_posterior() {
+        let l = [2.0, -0.5, 3.3, -4.0, 0.7];
+        let neg: Vec<f64> = l.iter().map(|x| -x).collect();
+        let a = PiPosterior::compute(&l, &flat());
+        let b = PiPosterior::compute(&neg, &flat().mirrored());
+        assert!((a.summary().mean - (1.0 - b.summary().mean)).abs() < 1e-9);
+        assert!((a.summary().lo - (1.0 - b.summary().hi)).abs() < 1e-6);
+        for x in l {
+            assert!((a.p_female(x) - (1.0 - b.p_female(-x))).abs() < 1e-9);
+        }
+    }
+
+    #[test]
+    fn hdi_is_no_wider_than_the_equal_tailed_interval() {
+        let post = PiPosterior::compute(&[5.0, 5.0, 5.0, -1.0], &flat());
+        let s = post.summary();
+        assert!(s.hdi_hi - s.hdi_lo <= s.hi - s.lo + 1e-3);
+    }
+}

@@ -1,0 +1,128 @@
+//! `dimorph analyse INPUT --out DIR`: posteriors for every individual and for the
+//! assemblage's proportion of females, with the prior sensitivity analysis.
+
+use super::input::InputArgs;
+use crate::assemblage::{analyse, Thresholds};
+use crate::data::read_assemblage;
+use crate::likelihood::evaluate_assemblage;
+use crate::model::Context;
+use crate::output::write_atomic;
+use crate::prior::{parse_prior_set, PriorError};
+use crate::report::analysis::{render_files, terminal_summary};
+use crate::report::RunInfo;
+use crate::Error;
+use std::path::{Path, PathBuf};
+
+/// Arguments of `dimorph analyse`.
+#[derive(Debug, clap::Args)]
+pub struct Args {
+    /// The input table.
+    pub file: PathBuf,
+    /// Folder for the results (created if absent).
+    #[arg(long, value_name = "DIR")]
+    pub out: PathBuf,
+    /// Model file (default: the embedded default model).
+    #[arg(long, value_name = "FILE")]
+    pub model: Option<PathBuf>,
+    /// The prior on the proportion female: a shipped name (flat, birth-ratio, even-fixed,
+    /// mostly-female, mostly-male, military), fixed:VALUE, or a prior file.
+    #[arg(long, value_name = "PRIOR", default_value = "flat")]
+    pub prior: String,
+    /// Priors for the sensitivity analysis, comma-separated: names, fixed:VALUE, files,
+    /// `shipped` (all shipped priors), `sweep` (fixed 0.1 … 0.9).
+    #[arg(long, value_name = "SET", default_value = "shipped,sweep")]
+    pub priors: String,
+    /// Cut-offs on P(female): male, probable male, probable female, female.
+    #[arg(long, value_name = "M,PM,PF,F", default_value = "0.05,0.2,0.8,0.95")]
+    pub thresholds: String,
+    /// Seed of every random stream (same seed, same bytes).
+    #[arg(long, default_value_t = 1)]
+    pub seed: u64,
+    /// How to read the table.
+    #[command(flatten)]
+    pub input: InputArgs,
+}
+
+fn prior_error(e: PriorError) -> Error {
+    Error::Settings {
+        file: e.file,
+        message: e.message,
+    }
+}
+
+/// Run the command; returns the exit code.
+///
+/// # Errors
+/// Model, prior, settings and file errors; input problems are printed (exit code 3).
+pub fn run(args: Args) -> Result<i32, Error> {
+    let model = super::evidence::load_model(args.model.as_deref())?;
+    let prior = parse_prior_set(&args.prior).map_err(prior_error)?;
+    if prior.len() != 1 {
+        return Err(Error::Settings {
+            file: "--prior".into(),
+            message: "name exactly one prior (use --priors for the sensitivity set)".into(),
+        });
+    }
+    let prior = &prior[0];
+    let set = parse_prior_set(&args.priors).map_err(prior_error)?;
+    let thresholds = Thresholds::parse(&args.thresholds).map_err(|message| Error::Settings {
+        file: "--thresholds".into(),
+        message,
+    })?;
+    let settings = args.input.settings(&model.catalogue)?;
+    let a = match read_assemblage(&args.file, &model.catalogue, &settings) {
+        Ok(a) => a,
+        Err(e) => {
+            eprint!("{}", super::check::render_problems(&e));
+            return Ok(3);
+        }
+    };
+    for w in &a.warnings {
+        eprintln!("warning: {w}");
+    }
+    let evidence = evaluate_assemblage(&model, &a, &Context::new(args.seed));
+    let analysis = analyse(&evidence, prior, &set, &thresholds);
+    let run = RunInfo {
+        program: "dimorph",
+        version: crate::VERSION,
+        command: crate::cli::command_line(),
+        input: a.file.clone(),
+        input_sha256: a.sha256.clone(),
+        model: model.name.clone(),
+        model_file: args
+            .model
+            .as_ref()
+            .map(|p| p.display().to_string())
+            .unwrap_or_else(|| "embedded default".into()),
+        model_sha256: model.sha256.clone(),
+        seed: args.seed,
+        side_policy: settings.side_policy.as_str().into(),
+    };
+    let files = render_files(&model, &a, &evidence, &analysis, &run).map_err(|e| Error::Io {
+        path: args.out.clone(),
+        source: std::io::Error::other(e.to_string()),
+    })?;
+    std::fs::create_dir_all(&args.out).map_err(|source| Error::Io {
+        path: args.out.clone(),
+        source,
+    })?;
+    let mut protected: Vec<&Path> = vec![args.file.as_path()];
+    if let Some(m) = &args.model {
+        protected.push(m.as_path());
+    }
+    for (name, bytes) in &files.files {
+        write_atomic(&args.out.join(name), bytes, &protected)?;
+    }
+    print!("{}", terminal_summary(&model, &a, &analysis));
+    println!(
+        "Written to {}: {}",
+        args.out.display(),
+        files
+            .files
+            .iter()
+            .map(|(n, _)| n.as_str())
+            .collect::<Vec<_>>()
+            .join(", ")
+    );
+    Ok(0)
+}

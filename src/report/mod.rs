@@ -1,0 +1,5 @@
+//! Writing results: CSV tables, the run record, and the readable terminal summary.
+
+pub mod analysis;
+
+pub use analysis::{AnalysisFiles, RunInfo};

@@ -1,0 +1,181 @@
+//! `dimorph analyse` as a user runs it, and the checks of the analysis that need a whole
+//! assemblage.
+
+mod common;
+use common::{dimorph, stderr, stdout};
+use dimorph::assemblage::{analyse, Thresholds};
+use dimorph::data::{read_assemblage, ReadSettings};
+use dimorph::likelihood::evaluate_assemblage;
+use dimorph::model::{Context, Model};
+use dimorph::prior::parse_prior_set;
+use std::path::Path;
+
+fn demo() -> String {
+    Path::new(env!("CARGO_MANIFEST_DIR"))
+        .join("examples/mirefold.csv")
+        .display()
+        .to_string()
+}
+
+fn header(p: &Path) -> Vec<String> {
+    let mut r = csv::Reader::from_path(p).unwrap();
+    r.headers().unwrap().iter().map(String::from).collect()
+}
+
+#[test]
+fn the_demo_gives_four_files_with_the_documented_columns() {
+    let dir = tempfile::tempdir().unwrap();
+    let out = dir.path().join("results");
+    let o = dimorph(&[
+        "analyse",
+        &demo(),
+        "--out",
+        out.to_str().unwrap(),
+        "--group-by",
+        "phase",
+    ]);
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    let text = stdout(&o);
+    assert!(text.contains("Proportion female"), "{text}");
+    assert!(text.contains("not identifications"));
+    let ind = header(&out.join("individuals.csv"));
+    let fixed = [
+        "id",
+        "group",
+        "status",
+        "n_traits",
+        "log10_lr",
+        "lr_support",
+        "p_female",
+        "p_male",
+        "category",
+        "p_female_min",
+        "p_female_max",
+        "prior_sensitive",
+        "log10_lr_cranium",
+        "log10_lr_pelvis",
+        "log10_lr_postcranial",
+        "log10_lr_dental",
+        "log10_lr_dna",
+    ];
+    assert_eq!(&ind[..fixed.len()], fixed);
+    assert_eq!(
+        &ind[fixed.len()..],
+        ["zone", "cribra_orbitalia", "grave_goods"],
+        "carried columns (phase is the group)"
+    );
+    assert_eq!(
+        &header(&out.join("assemblage.csv"))[..8],
+        [
+            "prior",
+            "pi_mean",
+            "pi_median",
+            "pi_lo",
+            "pi_hi",
+            "n_individuals",
+            "n_estimable",
+            "expected_females"
+        ]
+    );
+    assert_eq!(
+        header(&out.join("sensitivity.csv")),
+        ["id", "prior", "p_female", "category"]
+    );
+    let run: serde_json::Value =
+        serde_json::from_slice(&std::fs::read(out.join("run.json")).unwrap()).unwrap();
+    assert_eq!(run["prior"]["name"], "flat");
+    assert_eq!(run["thresholds"]["female"], 0.95);
+    assert_eq!(run["sensitivity_priors"].as_array().unwrap().len(), 15);
+    // Every individual is in every output, not estimable ones included.
+    let mut r = csv::Reader::from_path(out.join("individuals.csv")).unwrap();
+    let rows: Vec<csv::StringRecord> = r.records().map(|x| x.unwrap()).collect();
+    assert_eq!(rows.len(), 65);
+    let last = rows.iter().find(|x| &x[0] == "MH-065").unwrap();
+    assert_eq!(
+        (&last[2], &last[8], &last[6]),
+        ("not_estimable", "not_estimable", "")
+    );
+    assert_eq!(&rows[0][1], "early");
+    // p_female + p_male = 1 and min ≤ p ≤ max.
+    for x in rows.iter().filter(|x| &x[2] == "estimated") {
+        let p: f64 = x[6].parse().unwrap();
+        let q: f64 = x[7].parse().unwrap();
+        assert!((p + q - 1.0).abs() < 2e-6);
+        assert!(
+            x[9].parse::<f64>().unwrap() <= p + 1e-9 && p <= x[10].parse::<f64>().unwrap() + 1e-9
+        );
+    }
+}
+
+#[test]
+fn same_seed_same_bytes() {
+    let dir = tempfile::tempdir().unwrap();
+    let out = dir.path().join("r");
+    let run = || {
+        let o = dimorph(&[
+            "analyse",
+            &demo(),
+            "--out",
+            out.to_str().unwrap(),
+            "--seed",
+            "11",
+        ]);
+        assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+        [
+            "individuals.csv",
+            "assemblage.csv",
+            "sensitivity.csv",
+            "run.json",
+        ]
+        .map(|f| std::fs::read(out.join(f)).unwrap())
+    };
+    assert_eq!(run(), run());
+}
+
+#[test]
+fn options_are_checked_before_anything_is_written() {
+    let dir = tempfile::tempdir().unwrap();
+    let out = dir.path().join("r");
+    for bad in [
+        vec!["--prior", "nonsense"],
+        vec!["--prior", "fixed:1.5"],
+        vec!["--priors", "flat,nope"],
+        vec!["--thresholds", "0.5,0.2,0.8,0.95"],
+    ] {
+        let d = demo();
+        let mut args = vec!["analyse", &d, "--out", out.to_str().unwrap()];
+        args.extend(bad.iter().copied());
+        let o = dimorph(&args);
+        assert_eq!(o.status.code(), Some(4), "{bad:?}: {}", stderr(&o));
+        assert!(!out.exists(), "{bad:?} wrote output");
+    }
+}
+
+/// Swapping F and M (every ln LR negated, the prior mirrored) mirrors every result.
+#[test]
+fn swapping_the_sexes_mirrors_every_result() {
+    let model = Model::default_model().unwrap();
+    let a = read_assemblage(
+        Path::new(&demo()),
+        &model.catalogue,
+        &ReadSettings::default(),
+    )
+    .unwrap();
+    let ev = evaluate_assemblage(&model, &a, &Context::new(1));
+    let mut neg = ev.clone();
+    for e in &mut neg {
+        e.ln_lr = -e.ln_lr;
+    }
+    let set = parse_prior_set("birth-ratio").unwrap();
+    let x = analyse(&ev, &set[0], &[], &Thresholds::default());
+    let y = analyse(&neg, &set[0].mirrored(), &[], &Thresholds::default());
+    assert!((x.main.pi.mean - (1.0 - y.main.pi.mean)).abs() < 1e-9);
+    assert!((x.main.pi.lo - (1.0 - y.main.pi.hi)).abs() < 1e-6);
+    for (p, q) in x.main.p_female.iter().zip(&y.main.p_female) {
+        match (p, q) {
+            (Some(p), Some(q)) => assert!((p - (1.0 - q)).abs() < 1e-9),
+            (None, None) => {}
+            _ => panic!("estimability changed"),
+        }
+    }
+}
