@@ -167,8 +167,8 @@ fn swapping_the_sexes_mirrors_every_result() {
         e.ln_lr = -e.ln_lr;
     }
     let set = parse_prior_set("birth-ratio").unwrap();
-    let x = analyse(&ev, &set[0], &[], &Thresholds::default());
-    let y = analyse(&neg, &set[0].mirrored(), &[], &Thresholds::default());
+    let x = analyse(&ev, None, &set[0], &[], &Thresholds::default());
+    let y = analyse(&neg, None, &set[0].mirrored(), &[], &Thresholds::default());
     assert!((x.main.pi.mean - (1.0 - y.main.pi.mean)).abs() < 1e-9);
     assert!((x.main.pi.lo - (1.0 - y.main.pi.hi)).abs() < 1e-6);
     for (p, q) in x.main.p_female.iter().zip(&y.main.p_female) {
@@ -178,4 +178,113 @@ fn swapping_the_sexes_mirrors_every_result() {
             _ => panic!("estimability changed"),
         }
     }
+}
+
+#[test]
+fn groups_and_draws_are_written_in_tidy_form() {
+    let dir = tempfile::tempdir().unwrap();
+    let out = dir.path().join("g");
+    let o = dimorph(&[
+        "analyse",
+        &demo(),
+        "--out",
+        out.to_str().unwrap(),
+        "--group-by",
+        "phase",
+        "--draws",
+        "200",
+        "--priors",
+        "flat",
+    ]);
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    assert!(stdout(&o).contains("groups differ against share one proportion"));
+    assert_eq!(
+        header(&out.join("groups.csv"))[..6],
+        [
+            "group",
+            "n",
+            "pi_mean",
+            "pi_lo",
+            "pi_hi",
+            "expected_females"
+        ]
+    );
+    let mut r = csv::Reader::from_path(out.join("groups.csv")).unwrap();
+    let groups: Vec<csv::StringRecord> = r.records().map(|x| x.unwrap()).collect();
+    assert_eq!(groups.len(), 3);
+    let n: usize = groups.iter().map(|g| g[1].parse::<usize>().unwrap()).sum();
+    assert_eq!(n, 65, "every individual counted in a group");
+    assert_eq!(header(&out.join("draws.csv")), ["draw", "id", "sex"]);
+    let mut r = csv::Reader::from_path(out.join("draws.csv")).unwrap();
+    let draws: Vec<csv::StringRecord> = r.records().map(|x| x.unwrap()).collect();
+    assert_eq!(draws.len(), 200 * 65);
+    assert!(draws.iter().all(|d| &d[2] == "F" || &d[2] == "M"));
+    let h = header(&out.join("assemblage_draws.csv"));
+    assert_eq!(
+        h,
+        [
+            "draw",
+            "mu",
+            "kappa",
+            "pi_early",
+            "pi_late",
+            "pi_middle",
+            "n_female",
+            "n_male",
+            "sex_ratio"
+        ]
+    );
+    // The per-draw counts agree with the long table.
+    let mut r = csv::Reader::from_path(out.join("assemblage_draws.csv")).unwrap();
+    let first = r.records().next().unwrap().unwrap();
+    let females = draws
+        .iter()
+        .filter(|d| &d[0] == "1" && &d[2] == "F")
+        .count();
+    assert_eq!(first[6].parse::<usize>().unwrap(), females);
+}
+
+#[test]
+fn without_groups_the_single_posterior_is_used_and_no_group_files_are_written() {
+    let dir = tempfile::tempdir().unwrap();
+    let out = dir.path().join("n");
+    let o = dimorph(&[
+        "analyse",
+        &demo(),
+        "--out",
+        out.to_str().unwrap(),
+        "--priors",
+        "flat",
+    ]);
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    assert!(!out.join("groups.csv").exists());
+    assert!(!out.join("draws.csv").exists());
+    // One distinct group is one population: the same numbers as no groups.
+    let text = std::fs::read_to_string(demo())
+        .unwrap()
+        .replace(",early,", ",same,")
+        .replace(",late,", ",same,")
+        .replace(",middle,", ",same,");
+    let one = dir.path().join("one.csv");
+    std::fs::write(&one, text).unwrap();
+    let out2 = dir.path().join("o");
+    let o = dimorph(&[
+        "analyse",
+        one.to_str().unwrap(),
+        "--out",
+        out2.to_str().unwrap(),
+        "--priors",
+        "flat",
+        "--group-by",
+        "phase",
+    ]);
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    let col = |p: &Path, c: usize| -> Vec<String> {
+        let mut r = csv::Reader::from_path(p).unwrap();
+        r.records().map(|x| x.unwrap()[c].to_string()).collect()
+    };
+    assert_eq!(
+        col(&out.join("individuals.csv"), 6),
+        col(&out2.join("individuals.csv"), 6)
+    );
 }

@@ -2,6 +2,9 @@
 //! categories, and the same under every prior of a sensitivity set.
 
 pub mod category;
+pub mod draws;
+pub mod gibbs;
+pub mod hierarchy;
 pub mod posterior;
 
 pub use category::{lr_support, Category, Thresholds};
@@ -11,14 +14,34 @@ use crate::model::IndividualEvidence;
 use crate::prior::Prior;
 use serde::Serialize;
 
+/// Hyper-parameters of the group hierarchy (under one prior).
+#[derive(Debug, Clone, Copy, PartialEq, Serialize)]
+pub struct HyperSummary {
+    /// Posterior mean of μ (the population's proportion female).
+    pub mu_mean: f64,
+    /// 2.5% quantile of μ.
+    pub mu_lo: f64,
+    /// 97.5% quantile of μ.
+    pub mu_hi: f64,
+    /// Posterior median of κ (how alike the groups are).
+    pub kappa_median: f64,
+    /// 2.5% quantile of κ.
+    pub kappa_lo: f64,
+    /// 97.5% quantile of κ.
+    pub kappa_hi: f64,
+    /// ln Bayes factor: groups that differ against groups that share one π.
+    pub ln_bf_groups_differ: f64,
+}
+
 /// The results under one prior.
 #[derive(Debug, Clone, PartialEq, Serialize)]
 pub struct PriorResult {
     /// The prior.
     pub prior: Prior,
-    /// Summary of p(π | D).
+    /// Summary of p(π | D) for the assemblage as one population.
     pub pi: PiSummary,
-    /// P(F | D) per individual; `None` for individuals without usable evidence.
+    /// P(F | D) per individual (under the hierarchy when there are groups); `None` for
+    /// individuals without usable evidence.
     pub p_female: Vec<Option<f64>>,
     /// Category per individual.
     pub categories: Vec<Category>,
@@ -27,26 +50,67 @@ pub struct PriorResult {
     /// Individuals with usable evidence.
     pub n_estimable: usize,
     /// Expected number of females among all individuals: Σ P(F) over the estimable, plus
-    /// E[π | D] for each individual without usable evidence.
+    /// E[π | D] (of the individual's group, with groups) for each one without usable evidence.
     pub expected_females: f64,
+    /// ln Bayes factor: a community of one sex against a mixed one.
+    pub ln_bf_one_sex: f64,
+    /// Per group, with groups.
+    pub groups: Vec<hierarchy::GroupSummary>,
+    /// The hierarchy's hyper-parameters, with groups.
+    pub hyper: Option<HyperSummary>,
 }
 
-/// Compute the results under one prior.
+/// The fitted posteriors behind a [`PriorResult`], kept for drawing.
+#[derive(Debug, Clone, PartialEq)]
+pub struct Fitted {
+    /// The single-population posterior of π.
+    pub posterior: PiPosterior,
+    /// The group hierarchy, with groups.
+    pub hierarchy: Option<hierarchy::Hierarchy>,
+    /// ln LR per individual (0 without usable evidence).
+    pub ln_lrs: Vec<f64>,
+}
+
+/// Compute the results under one prior; `groups` gives each individual's group (use `None`,
+/// or fewer than two distinct groups, for one population).
 pub fn under_prior(
     evidence: &[IndividualEvidence],
+    groups: Option<&[String]>,
     prior: &Prior,
     thresholds: &Thresholds,
-) -> PriorResult {
+) -> (PriorResult, Fitted) {
     let ln_lrs: Vec<f64> = evidence
+        .iter()
+        .map(|e| if e.estimable { e.ln_lr } else { 0.0 })
+        .collect();
+    let informative: Vec<f64> = evidence
         .iter()
         .filter(|e| e.estimable)
         .map(|e| e.ln_lr)
         .collect();
-    let post = PiPosterior::compute(&ln_lrs, prior);
+    let post = PiPosterior::compute(&informative, prior);
     let pi = post.summary();
+    let distinct = groups.map(|g| {
+        let mut v: Vec<&String> = g.iter().collect();
+        v.sort();
+        v.dedup();
+        v.len()
+    });
+    let hier = match (groups, distinct) {
+        (Some(g), Some(k)) if k >= 2 && g.len() == evidence.len() => {
+            Some(hierarchy::Hierarchy::fit(&ln_lrs, g, prior))
+        }
+        _ => None,
+    };
     let p_female: Vec<Option<f64>> = evidence
         .iter()
-        .map(|e| e.estimable.then(|| post.p_female(e.ln_lr)))
+        .enumerate()
+        .map(|(i, e)| {
+            e.estimable.then(|| match &hier {
+                Some(h) => h.p_female(h.membership[i], e.ln_lr),
+                None => post.p_female(e.ln_lr),
+            })
+        })
         .collect();
     let categories = p_female
         .iter()
@@ -55,17 +119,75 @@ pub fn under_prior(
                 .unwrap_or(Category::NotEstimable)
         })
         .collect();
-    let n_estimable = ln_lrs.len();
-    let expected_females = p_female.iter().map(|p| p.unwrap_or(pi.mean)).sum();
-    PriorResult {
+    let group_pis: Vec<PiSummary> = hier
+        .as_ref()
+        .map(|h| (0..h.groups.len()).map(|g| h.group_pi(g)).collect())
+        .unwrap_or_default();
+    let fill = |i: usize| match &hier {
+        Some(h) => group_pis[h.membership[i]].mean,
+        None => pi.mean,
+    };
+    let expected_females = p_female
+        .iter()
+        .enumerate()
+        .map(|(i, p)| p.unwrap_or_else(|| fill(i)))
+        .sum();
+    let (group_summaries, hyper) = match &hier {
+        None => (Vec::new(), None),
+        Some(h) => {
+            let gs = (0..h.groups.len())
+                .map(|g| {
+                    let members: Vec<usize> = (0..evidence.len())
+                        .filter(|&i| h.membership[i] == g)
+                        .collect();
+                    hierarchy::GroupSummary {
+                        group: h.groups[g].clone(),
+                        n: members.len(),
+                        n_estimable: members.iter().filter(|&&i| evidence[i].estimable).count(),
+                        pi: group_pis[g],
+                        expected_females: members
+                            .iter()
+                            .map(|&i| p_female[i].unwrap_or(group_pis[g].mean))
+                            .sum(),
+                    }
+                })
+                .collect();
+            let (mu_mean, mu_lo, mu_hi) = h.mu_summary();
+            let (kappa_median, kappa_lo, kappa_hi) = h.kappa_summary();
+            (
+                gs,
+                Some(HyperSummary {
+                    mu_mean,
+                    mu_lo,
+                    mu_hi,
+                    kappa_median,
+                    kappa_lo,
+                    kappa_hi,
+                    ln_bf_groups_differ: h.ln_bf_groups_differ(),
+                }),
+            )
+        }
+    };
+    let result = PriorResult {
         prior: prior.clone(),
         pi,
         p_female,
         categories,
         n_individuals: evidence.len(),
-        n_estimable,
+        n_estimable: informative.len(),
         expected_females,
-    }
+        ln_bf_one_sex: post.ln_bf_one_sex(&informative),
+        groups: group_summaries,
+        hyper,
+    };
+    (
+        result,
+        Fitted {
+            posterior: post,
+            hierarchy: hier,
+            ln_lrs,
+        },
+    )
 }
 
 /// How much one individual's answer depends on the prior.
@@ -79,7 +201,7 @@ pub struct Sensitivity {
     pub prior_sensitive: bool,
 }
 
-/// A complete single-assemblage analysis.
+/// A complete analysis.
 #[derive(Debug, Clone, PartialEq, Serialize)]
 pub struct Analysis {
     /// Results under the chosen prior.
@@ -90,20 +212,29 @@ pub struct Analysis {
     pub individual_sensitivity: Vec<Sensitivity>,
     /// The thresholds used.
     pub thresholds: Thresholds,
+    /// The fitted posteriors under the chosen prior (for joint draws).
+    #[serde(skip)]
+    pub fitted: Fitted,
 }
 
-/// Analyse an assemblage's evidence under a chosen prior and a sensitivity set.
+/// Analyse an assemblage's evidence under a chosen prior and a sensitivity set, with groups
+/// when given.
 pub fn analyse(
     evidence: &[IndividualEvidence],
+    groups: Option<&[String]>,
     prior: &Prior,
     set: &[Prior],
     thresholds: &Thresholds,
 ) -> Analysis {
-    let main = under_prior(evidence, prior, thresholds);
-    let sensitivity: Vec<PriorResult> = set
-        .iter()
-        .map(|p| under_prior(evidence, p, thresholds))
-        .collect();
+    let (main, fitted) = under_prior(evidence, groups, prior, thresholds);
+    // Priors are independent: computed in parallel, collected in the set's order, so the
+    // result does not depend on the number of threads.
+    let sensitivity: Vec<PriorResult> = {
+        use rayon::prelude::*;
+        set.par_iter()
+            .map(|p| under_prior(evidence, groups, p, thresholds).0)
+            .collect()
+    };
     let individual_sensitivity = (0..evidence.len())
         .map(|i| {
             let all = std::iter::once(&main).chain(&sensitivity);
@@ -120,6 +251,7 @@ pub fn analyse(
         sensitivity,
         individual_sensitivity,
         thresholds: *thresholds,
+        fitted,
     }
 }
 
@@ -149,8 +281,8 @@ mod tests {
         let mut more = base.clone();
         more.push(ev(None));
         let p = &shipped_priors().unwrap()[0];
-        let a = under_prior(&base, p, &Thresholds::default());
-        let b = under_prior(&more, p, &Thresholds::default());
+        let a = under_prior(&base, None, p, &Thresholds::default()).0;
+        let b = under_prior(&more, None, p, &Thresholds::default()).0;
         assert_eq!(a.p_female[..], b.p_female[..5]);
         assert_eq!(a.pi, b.pi);
         assert_eq!(b.categories[5], Category::NotEstimable);
@@ -165,8 +297,8 @@ mod tests {
         let a: Vec<_> = l.iter().map(|&x| ev(Some(x))).collect();
         let b: Vec<_> = l.iter().rev().map(|&x| ev(Some(x))).collect();
         let p = &shipped_priors().unwrap()[1];
-        let ra = under_prior(&a, p, &Thresholds::default());
-        let rb = under_prior(&b, p, &Thresholds::default());
+        let ra = under_prior(&a, None, p, &Thresholds::default()).0;
+        let rb = under_prior(&b, None, p, &Thresholds::default()).0;
         let mut rev = rb.p_female.clone();
         rev.reverse();
         for (x, y) in ra.p_female.iter().zip(&rev) {
@@ -179,7 +311,7 @@ mod tests {
     fn sensitivity_flags_category_changes() {
         let e = vec![ev(Some(1.5)), ev(Some(12.0)), ev(None)];
         let set = crate::prior::parse_prior_set("shipped,sweep").unwrap();
-        let a = analyse(&e, &set[0], &set, &Thresholds::default());
+        let a = analyse(&e, None, &set[0], &set, &Thresholds::default());
         // ln LR 1.5 (LR ≈ 4.5) moves between categories as π moves from 0.1 to 0.9.
         assert!(a.individual_sensitivity[0].prior_sensitive);
         // ln LR 12 (LR ≈ 160 000) stays above 0.9 under every prior of the set.

@@ -30,6 +30,9 @@ pub struct PiPosterior {
     pub mass: Vec<f64>,
     /// Cell edges in π (one more than the cells).
     pub edges: Vec<f64>,
+    /// ln ∫ p(π) ∏ᵢ (π LRᵢ + 1 − π) dπ: the marginal likelihood of the data up to the
+    /// constant ∏ᵢ P(Dᵢ | male).
+    pub ln_evidence: f64,
 }
 
 /// π = sin²(πt/2).
@@ -86,11 +89,17 @@ impl PiPosterior {
     pub fn compute(ln_lrs: &[f64], prior: &Prior) -> PiPosterior {
         let (a, b) = match prior.shape {
             PriorShape::Fixed { pi } => {
+                let (lp, lq) = (pi.ln(), (1.0 - pi).ln());
                 return PiPosterior {
                     grid: vec![pi],
                     mass: vec![1.0],
                     edges: vec![pi, pi],
-                }
+                    ln_evidence: ln_lrs
+                        .iter()
+                        .filter(|l| l.is_finite())
+                        .map(|&l| ln_mixture(lp, lq, l))
+                        .sum(),
+                };
             }
             PriorShape::Beta { a, b } => (a, b),
         };
@@ -140,6 +149,7 @@ impl PiPosterior {
             edges: (0..=FINE_CELLS)
                 .map(|i| pi_of(lo + i as f64 * width))
                 .collect(),
+            ln_evidence: m + total.ln() + width.ln(),
         }
     }
 
@@ -210,6 +220,16 @@ impl PiPosterior {
         }
     }
 
+    /// ln Bayes factor of a community of one sex (π = 1 or π = 0, each with prior weight ½)
+    /// against the mixed community of this posterior's prior:
+    /// BF = (½ ∏ᵢ LRᵢ + ½) / ∫ p(π) ∏ᵢ (π LRᵢ + 1 − π) dπ.
+    pub fn ln_bf_one_sex(&self, ln_lrs: &[f64]) -> f64 {
+        let all_female: f64 = ln_lrs.iter().filter(|l| l.is_finite()).sum();
+        crate::numeric::normal::ln_add_exp(all_female, 0.0)
+            - std::f64::consts::LN_2
+            - self.ln_evidence
+    }
+
     /// P(π < x | D) (for a fixed prior: 1 when the fixed value is below x, else 0).
     pub fn cdf(&self, x: f64) -> f64 {
         if self.grid.len() == 1 {
@@ -269,6 +289,26 @@ mod tests {
         assert!((s.p_below_half - beta.cdf(0.5)).abs() < 1e-6);
         // Individuals' P(F) are 1 and 0.
         assert!(post.p_female(300.0) > 1.0 - 1e-12 && post.p_female(-300.0) < 1e-12);
+    }
+
+    #[test]
+    fn evidence_and_the_one_sex_bayes_factor() {
+        // Flat prior, one individual: ∫ (π LR + 1 − π) dπ = (LR + 1)/2.
+        let p = Prior::from_yaml(
+            "t",
+            "name: t\nprovenance: uniform prior for a test\nbeta: {a: 1, b: 1}\n",
+        )
+        .unwrap();
+        let post = PiPosterior::compute(&[2.0], &p);
+        assert!((post.ln_evidence - ((2f64.exp() + 1.0) / 2.0).ln()).abs() < 1e-7);
+        // Ten males, LR = e^-10 each: ∫ (1 − cπ)^10 dπ = (1 − (1 − c)^11)/(11 c) with
+        // c = 1 − e^-10 (closed form), so BF = ½(1 + e^-100) · 11c / (1 − e^-110) ≈ 5.5.
+        let c = 1.0 - (-10f64).exp();
+        let exact = (0.5f64).ln() - ((1.0 - (1.0 - c).powi(11)) / (11.0 * c)).ln();
+        let got = PiPosterior::compute(&[-10.0; 10], &p).ln_bf_one_sex(&[-10.0; 10]);
+        assert!((got - exact).abs() < 1e-6, "{got} vs {exact}");
+        let mixed = [10.0, -10.0, 10.0, -10.0, 10.0, -10.0];
+        assert!(PiPosterior::compute(&mixed, &p).ln_bf_one_sex(&mixed) < -20.0);
     }
 
     #[test]

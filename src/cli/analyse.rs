@@ -2,6 +2,7 @@
 //! assemblage's proportion of females, with the prior sensitivity analysis.
 
 use super::input::InputArgs;
+use crate::assemblage::draws::Draws;
 use crate::assemblage::{analyse, Thresholds};
 use crate::data::read_assemblage;
 use crate::likelihood::evaluate_assemblage;
@@ -35,6 +36,10 @@ pub struct Args {
     /// Cut-offs on P(female): male, probable male, probable female, female.
     #[arg(long, value_name = "M,PM,PF,F", default_value = "0.05,0.2,0.8,0.95")]
     pub thresholds: String,
+    /// Write N joint posterior draws (draws.csv, assemblage_draws.csv). Without it, 1000
+    /// draws are still made for the intervals of the numbers of females and males.
+    #[arg(long, value_name = "N")]
+    pub draws: Option<usize>,
     /// Seed of every random stream (same seed, same bytes).
     #[arg(long, default_value_t = 1)]
     pub seed: u64,
@@ -80,8 +85,31 @@ pub fn run(args: Args) -> Result<i32, Error> {
     for w in &a.warnings {
         eprintln!("warning: {w}");
     }
+    let n_draws = args.draws.unwrap_or(1000);
+    if n_draws == 0 || n_draws.saturating_mul(a.individuals.len()) > 200_000_000 {
+        return Err(Error::Settings {
+            file: "--draws".into(),
+            message: format!(
+                "{n_draws} draws of {} individuals: give from 1 up to 200 million individual-draws in all",
+                a.individuals.len()
+            ),
+        });
+    }
     let evidence = evaluate_assemblage(&model, &a, &Context::new(args.seed));
-    let analysis = analyse(&evidence, prior, &set, &thresholds);
+    let groups: Option<Vec<String>> = a.individuals.iter().any(|i| i.group.is_some()).then(|| {
+        a.individuals
+            .iter()
+            .map(|i| i.group.clone().unwrap_or_else(|| "(none)".into()))
+            .collect()
+    });
+    let analysis = analyse(&evidence, groups.as_deref(), prior, &set, &thresholds);
+    let draws = Draws::sample(
+        &analysis.fitted.posterior,
+        analysis.fitted.hierarchy.as_ref(),
+        &analysis.fitted.ln_lrs,
+        n_draws,
+        args.seed,
+    );
     let run = RunInfo {
         program: "dimorph",
         version: crate::VERSION,
@@ -98,7 +126,16 @@ pub fn run(args: Args) -> Result<i32, Error> {
         seed: args.seed,
         side_policy: settings.side_policy.as_str().into(),
     };
-    let files = render_files(&model, &a, &evidence, &analysis, &run).map_err(|e| Error::Io {
+    let files = render_files(
+        &model,
+        &a,
+        &evidence,
+        &analysis,
+        &draws,
+        args.draws.is_some(),
+        &run,
+    )
+    .map_err(|e| Error::Io {
         path: args.out.clone(),
         source: std::io::Error::other(e.to_string()),
     })?;
@@ -113,7 +150,7 @@ pub fn run(args: Args) -> Result<i32, Error> {
     for (name, bytes) in &files.files {
         write_atomic(&args.out.join(name), bytes, &protected)?;
     }
-    print!("{}", terminal_summary(&model, &a, &analysis));
+    print!("{}", terminal_summary(&model, &a, &analysis, &draws));
     println!(
         "Written to {}: {}",
         args.out.display(),

@@ -8,7 +8,16 @@
 //!
 //! `assemblage.csv`: one row per prior (the chosen prior first, then the sensitivity set):
 //! `prior, pi_mean, pi_median, pi_lo, pi_hi, n_individuals, n_estimable, expected_females`, then
-//! `pi_hdi_lo, pi_hdi_hi, p_pi_below_half`.
+//! `pi_hdi_lo, pi_hdi_hi, p_pi_below_half, sex_ratio_median, sex_ratio_lo, sex_ratio_hi,
+//! log10_bf_one_sex`, then — on the chosen prior's row only, from the joint draws —
+//! `n_female_mean, n_female_lo, n_female_hi, n_male_mean, n_male_lo, n_male_hi`, then — with
+//! groups — `mu_mean, mu_lo, mu_hi, kappa_median, kappa_lo, kappa_hi, log10_bf_groups_differ`.
+//!
+//! `groups.csv` (with groups): `group, n, pi_mean, pi_lo, pi_hi, expected_females`, then
+//! `n_estimable, pi_median`.
+//!
+//! `draws.csv` and `assemblage_draws.csv` (with `--draws N`): `draw, id, sex` in long form, and
+//! per draw `draw, mu, kappa, pi_<group>…, n_female, n_male, sex_ratio`.
 //!
 //! `sensitivity.csv`: `id, prior, p_female, category`, one row per individual and prior.
 //!
@@ -16,6 +25,7 @@
 //! and SHA-256), thresholds, seed. No clock time, so the same inputs and seed give the same
 //! bytes.
 
+use crate::assemblage::draws::{count_summary, Draws};
 use crate::assemblage::{lr_support, Analysis, Category, PriorResult};
 use crate::data::Assemblage;
 use crate::model::{BlockStatus, IndividualEvidence, Model};
@@ -83,6 +93,8 @@ pub fn render_files(
     a: &Assemblage,
     evidence: &[IndividualEvidence],
     analysis: &Analysis,
+    draws: &Draws,
+    write_draws: bool,
     run: &RunInfo,
 ) -> Result<AnalysisFiles, serde_json::Error> {
     let main = &analysis.main;
@@ -164,12 +176,42 @@ pub fn render_files(
         "pi_hdi_lo",
         "pi_hdi_hi",
         "p_pi_below_half",
+        "sex_ratio_median",
+        "sex_ratio_lo",
+        "sex_ratio_hi",
+        "log10_bf_one_sex",
+        "n_female_mean",
+        "n_female_lo",
+        "n_female_hi",
+        "n_male_mean",
+        "n_male_lo",
+        "n_male_hi",
+        "mu_mean",
+        "mu_lo",
+        "mu_hi",
+        "kappa_median",
+        "kappa_lo",
+        "kappa_hi",
+        "log10_bf_groups_differ",
     ]
     .iter()
     .map(|s| s.to_string())
     .collect::<Vec<_>>()];
-    for r in &all {
-        rows.push(vec![
+    let n_female = draws.n_female();
+    let n = a.individuals.len();
+    let (fm, flo, fhi) = count_summary(&n_female);
+    let n_male: Vec<usize> = n_female.iter().map(|f| n - f).collect();
+    let (mm, mlo, mhi) = count_summary(&n_male);
+    // Males per 100 females: a decreasing function of π, so quantiles map across.
+    let ratio = |pi: f64| {
+        if pi > 0.0 {
+            format!("{:.2}", 100.0 * (1.0 - pi) / pi)
+        } else {
+            "inf".into()
+        }
+    };
+    for (k, r) in all.iter().enumerate() {
+        let mut row = vec![
             r.prior.name.clone(),
             f6(r.pi.mean),
             f6(r.pi.median),
@@ -181,7 +223,36 @@ pub fn render_files(
             f6(r.pi.hdi_lo),
             f6(r.pi.hdi_hi),
             f6(r.pi.p_below_half),
-        ]);
+            ratio(r.pi.median),
+            ratio(r.pi.hi),
+            ratio(r.pi.lo),
+            f4(r.ln_bf_one_sex / LN_10),
+        ];
+        if k == 0 && !n_female.is_empty() {
+            row.extend([
+                f4(fm),
+                flo.to_string(),
+                fhi.to_string(),
+                f4(mm),
+                mlo.to_string(),
+                mhi.to_string(),
+            ]);
+        } else {
+            row.extend(std::iter::repeat_n(String::new(), 6));
+        }
+        match &r.hyper {
+            Some(h) => row.extend([
+                f6(h.mu_mean),
+                f6(h.mu_lo),
+                f6(h.mu_hi),
+                format!("{:.2}", h.kappa_median),
+                format!("{:.2}", h.kappa_lo),
+                format!("{:.2}", h.kappa_hi),
+                f4(h.ln_bf_groups_differ / LN_10),
+            ]),
+            None => row.extend(std::iter::repeat_n(String::new(), 7)),
+        }
+        rows.push(row);
     }
     let assemblage = csv_bytes(rows);
     // sensitivity.csv
@@ -232,18 +303,90 @@ pub fn render_files(
     };
     let mut json = serde_json::to_vec_pretty(&record)?;
     json.push(b'\n');
-    Ok(AnalysisFiles {
-        files: vec![
-            ("individuals.csv".into(), individuals),
-            ("assemblage.csv".into(), assemblage),
-            ("sensitivity.csv".into(), sensitivity),
-            ("run.json".into(), json),
-        ],
-    })
+    let mut files = vec![
+        ("individuals.csv".to_string(), individuals),
+        ("assemblage.csv".to_string(), assemblage),
+        ("sensitivity.csv".to_string(), sensitivity),
+    ];
+    if !main.groups.is_empty() {
+        let mut rows = vec![[
+            "group",
+            "n",
+            "pi_mean",
+            "pi_lo",
+            "pi_hi",
+            "expected_females",
+            "n_estimable",
+            "pi_median",
+        ]
+        .iter()
+        .map(|s| s.to_string())
+        .collect::<Vec<_>>()];
+        for g in &main.groups {
+            rows.push(vec![
+                g.group.clone(),
+                g.n.to_string(),
+                f6(g.pi.mean),
+                f6(g.pi.lo),
+                f6(g.pi.hi),
+                f4(g.expected_females),
+                g.n_estimable.to_string(),
+                f6(g.pi.median),
+            ]);
+        }
+        files.push(("groups.csv".into(), csv_bytes(rows)));
+    }
+    if write_draws {
+        let mut rows = vec![vec!["draw".to_string(), "id".into(), "sex".into()]];
+        for (d, sexes) in draws.female.iter().enumerate() {
+            for (ind, &f) in a.individuals.iter().zip(sexes) {
+                rows.push(vec![
+                    (d + 1).to_string(),
+                    ind.id.clone(),
+                    if f { "F" } else { "M" }.into(),
+                ]);
+            }
+        }
+        files.push(("draws.csv".into(), csv_bytes(rows)));
+        let mut head = vec!["draw".to_string(), "mu".into(), "kappa".into()];
+        if main.groups.is_empty() {
+            head.push("pi".into());
+        } else {
+            head.extend(draws.groups.iter().map(|g| format!("pi_{g}")));
+        }
+        head.extend(["n_female".to_string(), "n_male".into(), "sex_ratio".into()]);
+        let mut rows = vec![head];
+        for (d, &nf) in n_female.iter().enumerate() {
+            let mut r = vec![
+                (d + 1).to_string(),
+                f6(draws.mu[d]),
+                draws.kappa[d]
+                    .map(|k| format!("{k:.3}"))
+                    .unwrap_or_default(),
+            ];
+            r.extend(draws.pi[d].iter().map(|&p| f6(p)));
+            r.push(nf.to_string());
+            r.push((n - nf).to_string());
+            r.push(if nf > 0 {
+                format!("{:.2}", 100.0 * (n - nf) as f64 / nf as f64)
+            } else {
+                "inf".into()
+            });
+            rows.push(r);
+        }
+        files.push(("assemblage_draws.csv".into(), csv_bytes(rows)));
+    }
+    files.push(("run.json".into(), json));
+    Ok(AnalysisFiles { files })
 }
 
 /// The readable summary printed after an analysis.
-pub fn terminal_summary(model: &Model, a: &Assemblage, analysis: &Analysis) -> String {
+pub fn terminal_summary(
+    model: &Model,
+    a: &Assemblage,
+    analysis: &Analysis,
+    draws: &Draws,
+) -> String {
     let main = &analysis.main;
     let mut s = String::new();
     let _ = writeln!(
@@ -267,6 +410,51 @@ pub fn terminal_summary(model: &Model, a: &Assemblage, analysis: &Analysis) -> S
         "Expected number of females: {:.1} of {}",
         main.expected_females, main.n_individuals
     );
+    let (fm, flo, fhi) = count_summary(&draws.n_female());
+    let _ = writeln!(
+        s,
+        "Number of females among the {}: {:.1} (95% interval {} to {}, from {} joint draws)",
+        main.n_individuals,
+        fm,
+        flo,
+        fhi,
+        draws.mu.len()
+    );
+    let _ = writeln!(
+        s,
+        "Males per 100 females (population): {:.0} (95% interval {:.0} to {:.0})",
+        100.0 * (1.0 - p.median) / p.median,
+        100.0 * (1.0 - p.hi) / p.hi,
+        100.0 * (1.0 - p.lo) / p.lo
+    );
+    let _ = writeln!(
+        s,
+        "P(fewer females than males in the population) = {:.3}; one sex against mixed: log10 Bayes factor {:.2}",
+        p.p_below_half,
+        main.ln_bf_one_sex / LN_10
+    );
+    if let Some(h) = &main.hyper {
+        let _ = writeln!(s);
+        let _ = writeln!(
+            s,
+            "Group          n   proportion female (95% interval)   expected females"
+        );
+        for g in &main.groups {
+            let _ = writeln!(
+                s,
+                "  {:<10} {:>4}   {:.3} ({:.3} to {:.3})             {:>6.1}",
+                g.group, g.n, g.pi.mean, g.pi.lo, g.pi.hi, g.expected_females
+            );
+        }
+        let _ = writeln!(
+            s,
+            "Across groups {:.3} ({:.3} to {:.3}); groups differ against share one proportion: log10 Bayes factor {:.2}",
+            h.mu_mean,
+            h.mu_lo,
+            h.mu_hi,
+            h.ln_bf_groups_differ / LN_10
+        );
+    }
     let _ = writeln!(s);
     let t = &analysis.thresholds;
     let _ = writeln!(
