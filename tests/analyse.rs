@@ -89,8 +89,8 @@ fn the_demo_gives_four_files_with_the_documented_columns() {
     // Every individual is in every output, not estimable ones included.
     let mut r = csv::Reader::from_path(out.join("individuals.csv")).unwrap();
     let rows: Vec<csv::StringRecord> = r.records().map(|x| x.unwrap()).collect();
-    assert_eq!(rows.len(), 65);
-    let last = rows.iter().find(|x| &x[0] == "MH-065").unwrap();
+    assert_eq!(rows.len(), 75);
+    let last = rows.iter().find(|x| &x[0] == "MH-075").unwrap();
     assert_eq!(
         (&last[2], &last[8], &last[6]),
         ("not_estimable", "not_estimable", "")
@@ -213,11 +213,11 @@ fn groups_and_draws_are_written_in_tidy_form() {
     let groups: Vec<csv::StringRecord> = r.records().map(|x| x.unwrap()).collect();
     assert_eq!(groups.len(), 3);
     let n: usize = groups.iter().map(|g| g[1].parse::<usize>().unwrap()).sum();
-    assert_eq!(n, 65, "every individual counted in a group");
+    assert_eq!(n, 75, "every individual counted in a group");
     assert_eq!(header(&out.join("draws.csv")), ["draw", "id", "sex"]);
     let mut r = csv::Reader::from_path(out.join("draws.csv")).unwrap();
     let draws: Vec<csv::StringRecord> = r.records().map(|x| x.unwrap()).collect();
-    assert_eq!(draws.len(), 200 * 65);
+    assert_eq!(draws.len(), 200 * 75);
     assert!(draws.iter().all(|d| &d[2] == "F" || &d[2] == "M"));
     let h = header(&out.join("assemblage_draws.csv"));
     assert_eq!(
@@ -227,8 +227,8 @@ fn groups_and_draws_are_written_in_tidy_form() {
             "mu",
             "kappa",
             "pi_early",
-            "pi_late",
             "pi_middle",
+            "pi_late",
             "n_female",
             "n_male",
             "sex_ratio"

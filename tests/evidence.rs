@@ -50,8 +50,8 @@ fn the_ledger_of_the_demo_has_the_documented_columns() {
         &h[12..],
         ["phase", "zone", "cribra_orbitalia", "grave_goods"]
     );
-    // 65 individuals × (5 blocks + total).
-    assert_eq!(rows.len(), 65 * 6);
+    // 75 individuals × (5 blocks + total).
+    assert_eq!(rows.len(), 75 * 6);
     // The total row is the sum of its blocks.
     for chunk in rows.chunks(6) {
         let sum: f64 = chunk[..5]
@@ -65,7 +65,7 @@ fn the_ledger_of_the_demo_has_the_documented_columns() {
     // The grave with nothing surviving stays in the ledger as not estimable.
     assert!(rows
         .iter()
-        .any(|r| r[0] == "MH-065" && r[1] == "total" && r[3] == "not_estimable"));
+        .any(|r| r[0] == "MH-075" && r[1] == "total" && r[3] == "not_estimable"));
     let record: serde_json::Value =
         serde_json::from_slice(&std::fs::read(dir.path().join("ledger.run.json")).unwrap())
             .unwrap();

@@ -164,7 +164,7 @@ impl PiPosterior {
 
     /// P(sᵢ = F | D) for an individual with ln LR `l`.
     pub fn p_female(&self, l: f64) -> f64 {
-        self.expect(|pi| p_female_given(pi, l))
+        self.expect(|pi| p_female_given(pi, l)).clamp(0.0, 1.0)
     }
 
     /// The q-quantile (linear within cells).

@@ -6,7 +6,7 @@ use crate::assemblage::draws::Draws;
 use crate::assemblage::{analyse, Thresholds};
 use crate::data::read_assemblage;
 use crate::likelihood::evaluate_assemblage;
-use crate::model::Context;
+use crate::model::{BlockStatus, Context};
 use crate::output::write_atomic;
 use crate::prior::{parse_prior_set, PriorError};
 use crate::report::analysis::{render_files, terminal_summary};
@@ -151,6 +151,21 @@ pub fn run(args: Args) -> Result<i32, Error> {
         write_atomic(&args.out.join(name), bytes, &protected)?;
     }
     print!("{}", terminal_summary(&model, &a, &analysis, &draws));
+    for (ind, e) in a.individuals.iter().zip(&evidence) {
+        for (b, be) in model.blocks.iter().zip(&e.blocks) {
+            if matches!(
+                be.status,
+                BlockStatus::Atypical | BlockStatus::NumericalFailure
+            ) {
+                println!(
+                    "Flagged for a person to look at: {} ({}): {}",
+                    ind.id,
+                    b.id(),
+                    be.note
+                );
+            }
+        }
+    }
     println!(
         "Written to {}: {}",
         args.out.display(),

@@ -5,6 +5,8 @@ pub mod analyse;
 pub mod check;
 pub mod evidence;
 pub mod input;
+pub mod plan;
+pub mod simulate;
 
 use clap::{Parser, Subcommand};
 
@@ -30,6 +32,10 @@ pub enum Command {
     Check(check::Args),
     /// Per individual and body region: the likelihood ratio female:male, without any prior.
     Evidence(evidence::Args),
+    /// Draw an invented assemblage with known sex from a model (for testing and teaching).
+    Simulate(simulate::Args),
+    /// Before excavating: how wide will the interval of the sex ratio be, over a range of sizes?
+    Plan(plan::Args),
 }
 
 /// Run a parsed command line; returns the process exit code.
@@ -38,6 +44,8 @@ pub fn run(cli: Cli) -> i32 {
         Command::Analyse(args) => analyse::run(args),
         Command::Check(args) => check::run(args),
         Command::Evidence(args) => evidence::run(args),
+        Command::Simulate(args) => simulate::run(args),
+        Command::Plan(args) => plan::run(args),
     };
     match result {
         Ok(code) => code,

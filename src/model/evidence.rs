@@ -118,9 +118,11 @@ impl Context {
         }
     }
 
-    /// The seed of one random stream, derived from the run seed, the individual's id, the
-    /// block and the sex — so results do not depend on row order or thread count.
-    pub fn seed_for(&self, id: &str, block: &str, sex: Sex) -> u64 {
+    /// The seed of one random stream, derived from the run seed, the pattern of evidence
+    /// (what was observed, not who), the block and the sex — so results do not depend on
+    /// row order or thread count, and identical patterns give identical results (which lets
+    /// a run compute each pattern once).
+    pub fn seed_for(&self, pattern: &str, block: &str, sex: Sex) -> u64 {
         // FNV-1a over the parts, then a SplitMix64 finaliser.
         let mut h: u64 = 0xcbf2_9ce4_8422_2325 ^ self.seed;
         let mut eat = |bytes: &[u8]| {
@@ -131,7 +133,7 @@ impl Context {
             h ^= 0xff;
             h = h.wrapping_mul(0x0100_0000_01b3);
         };
-        eat(id.as_bytes());
+        eat(pattern.as_bytes());
         eat(block.as_bytes());
         eat(match sex {
             Sex::Female => b"F",

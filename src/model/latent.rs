@@ -224,6 +224,24 @@ impl LatentBlock {
         })
     }
 
+    /// A key naming exactly what this individual has observed in the block (traits and
+    /// values): equal keys give equal evidence. `None` when nothing is observed.
+    pub fn pattern(&self, ind: &Individual) -> Option<String> {
+        let mut key = String::new();
+        for (j, t) in self.traits.iter().enumerate() {
+            match ind.observations[t.catalogue_index] {
+                Some(Observation::Measurement { value }) => {
+                    key.push_str(&format!("m{j}:{:x};", value.to_bits()))
+                }
+                Some(Observation::Grade { low, high }) => {
+                    key.push_str(&format!("o{j}:{low}-{high};"))
+                }
+                _ => {}
+            }
+        }
+        (!key.is_empty()).then_some(key)
+    }
+
     /// ln L(female), ln L(male) of one individual's observations of this block.
     pub fn evaluate(&self, ind: &Individual, ctx: &Context) -> BlockEvidence {
         let mut metric: Vec<(usize, f64)> = Vec::new();
@@ -256,6 +274,7 @@ impl LatentBlock {
                 "no trait of this block recorded",
             );
         }
+        let pattern = pattern_key(&metric, &ordinal);
         let mut ln_l = [0.0; 2];
         let mut error = 0.0;
         for (s, sex) in [Sex::Female, Sex::Male].into_iter().enumerate() {
@@ -263,7 +282,7 @@ impl LatentBlock {
                 s,
                 &metric,
                 &ordinal,
-                ctx.seed_for(&ind.id, &self.id, sex),
+                ctx.seed_for(&pattern, &self.id, sex),
                 &ctx.qmc,
             ) {
                 Ok((l, e)) => {
@@ -335,6 +354,17 @@ impl LatentBlock {
         }
         Ok((ln_l, error))
     }
+}
+
+fn pattern_key(metric: &[(usize, f64)], ordinal: &[(usize, f64, f64)]) -> String {
+    let mut key = String::new();
+    for (j, y) in metric {
+        key.push_str(&format!("m{j}:{:x};", y.to_bits()));
+    }
+    for (j, lo, hi) in ordinal {
+        key.push_str(&format!("o{j}:{:x}-{:x};", lo.to_bits(), hi.to_bits()));
+    }
+    key
 }
 
 /// Symmetric, unit diagonal, entries in [−1, 1], positive definite.

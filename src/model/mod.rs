@@ -122,6 +122,43 @@ pub struct Model {
     pub sha256: String,
 }
 
+/// Latent-block evidence already computed in a run, by block and observation pattern. It can
+/// be shared between threads: a pattern's result does not depend on who computes it first,
+/// because its random streams are seeded from the pattern.
+#[derive(Debug, Default)]
+pub struct EvidenceCache {
+    map: std::sync::Mutex<std::collections::HashMap<(usize, String), BlockEvidence>>,
+}
+
+impl EvidenceCache {
+    /// Patterns held.
+    pub fn len(&self) -> usize {
+        self.map.lock().map(|m| m.len()).unwrap_or(0)
+    }
+
+    /// Whether empty.
+    pub fn is_empty(&self) -> bool {
+        self.len() == 0
+    }
+
+    fn get_or_compute(
+        &self,
+        key: (usize, String),
+        f: impl FnOnce() -> BlockEvidence,
+    ) -> BlockEvidence {
+        if let Ok(m) = self.map.lock() {
+            if let Some(e) = m.get(&key) {
+                return e.clone();
+            }
+        }
+        let e = f();
+        if let Ok(mut m) = self.map.lock() {
+            m.insert(key, e.clone());
+        }
+        e
+    }
+}
+
 /// Everything the model says about one individual.
 #[derive(Debug, Clone, PartialEq, Serialize)]
 pub struct IndividualEvidence {
@@ -276,14 +313,29 @@ impl Model {
     /// Evaluate every block for one individual. Morphological blocks are not used below the
     /// minimum age; DNA is used at any age.
     pub fn evaluate(&self, ind: &Individual, ctx: &Context) -> IndividualEvidence {
+        self.evaluate_cached(ind, ctx, &EvidenceCache::default())
+    }
+
+    /// As [`Model::evaluate`], computing each latent block's evidence pattern once per cache.
+    /// The results are the same as without the cache: a pattern's random streams are seeded
+    /// from the pattern itself.
+    pub fn evaluate_cached(
+        &self,
+        ind: &Individual,
+        ctx: &Context,
+        cache: &EvidenceCache,
+    ) -> IndividualEvidence {
         let maturity = ind
             .age
             .map(|a| a.maturity(self.minimum_age))
             .unwrap_or(Maturity::Unknown);
         let mut blocks = Vec::with_capacity(self.blocks.len());
-        for b in &self.blocks {
+        for (k, b) in self.blocks.iter().enumerate() {
             let mut e = match b {
-                Block::Latent(x) => x.evaluate(ind, ctx),
+                Block::Latent(x) => match x.pattern(ind) {
+                    Some(key) => cache.get_or_compute((k, key), || x.evaluate(ind, ctx)),
+                    None => x.evaluate(ind, ctx),
+                },
                 Block::Equations(x) => x.evaluate(ind),
                 Block::Dna(x) => x.evaluate(ind),
             };

@@ -69,6 +69,16 @@ fn f6(x: f64) -> String {
     format!("{x:.6}")
 }
 
+/// A probability: six decimals, or two significant digits in scientific form below 1e-6 so
+/// that strong evidence does not print as a bare zero.
+fn prob(x: f64) -> String {
+    if x > 0.0 && x < 1e-6 {
+        format!("{x:.1e}")
+    } else {
+        format!("{x:.6}")
+    }
+}
+
 fn f4(x: f64) -> String {
     format!("{x:.4}")
 }
@@ -137,11 +147,11 @@ pub fn render_files(
             } else {
                 String::new()
             },
-            main.p_female[i].map(f6).unwrap_or_default(),
-            main.p_female[i].map(|p| f6(1.0 - p)).unwrap_or_default(),
+            main.p_female[i].map(prob).unwrap_or_default(),
+            main.p_female[i].map(|p| prob(1.0 - p)).unwrap_or_default(),
             main.categories[i].as_str().to_string(),
-            s.p_female_min.map(f6).unwrap_or_default(),
-            s.p_female_max.map(f6).unwrap_or_default(),
+            s.p_female_min.map(prob).unwrap_or_default(),
+            s.p_female_max.map(prob).unwrap_or_default(),
             s.prior_sensitive.to_string(),
         ];
         for b in &ev.blocks {
@@ -267,7 +277,7 @@ pub fn render_files(
             rows.push(vec![
                 ind.id.clone(),
                 r.prior.name.clone(),
-                r.p_female[i].map(f6).unwrap_or_default(),
+                r.p_female[i].map(prob).unwrap_or_default(),
                 r.categories[i].as_str().to_string(),
             ]);
         }

@@ -1,4 +1,13 @@
-//! Drawing synthetic individuals from a model, for checks by simulation with known truth.
+//! Simulated assemblages with known truth: for checks of calibration, for demo data, and
+//! for planning how much an excavation's analysis can tell.
+
+pub mod assemblage;
+pub mod calibration;
+pub mod plan;
+pub mod spec;
+
+pub use assemblage::{simulate, SimError, Simulated};
+pub use spec::{parse_groups, GroupSpec, MissingSpec};
 
 use crate::data::{Individual, Observation, Sex};
 use crate::model::latent::LatentKind;

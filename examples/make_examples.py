@@ -1,0 +1,89 @@
+"""Rebuild the invented demo assemblages from `dimorph simulate`, then apply the hand edits
+that the story needs. Everything here is invented (see examples/README.md).
+
+Run from the repository root after `cargo build --release`:
+    python3 examples/make_examples.py
+"""
+import csv
+import random
+import subprocess
+
+BIN = "target/release/dimorph"
+MISSING = "cranium=0.35,pelvis=0.45,postcranial=0.3,dental=0.4,trait=0.15,range=0.06,subadult=0.07,dna=0.12"
+
+
+def simulate(out, groups, seed, missing=MISSING):
+    subprocess.run([BIN, "simulate", "--groups", groups, "--missing", missing, "--seed", str(seed), "--out", out], check=True)
+    with open(out, newline="") as f:
+        return list(csv.DictReader(f))
+
+
+def mirefold():
+    rows = simulate("/tmp/mirefold-sim.csv", "early:28:0.5,middle:24:0.47,late:23:0.42", 2026)
+    rnd = random.Random(7)
+    out, truth = [], []
+    for k, r in enumerate(rows, start=1):
+        o = {"id": f"MH-{k:03d}", "phase": r["group"]}
+        female = r["true_sex"] == "F"
+        # The story: a small group by the chapel, mostly men.
+        p_chapel = 0.05 if female else 0.3
+        o["zone"] = "chapel" if rnd.random() < p_chapel else rnd.choice(["north", "south"])
+        o["age"] = r["age"]
+        for t in ["glabella", "mental_eminence", "nuchal_crest"]:
+            o[t] = r[t]
+        # Bilateral traits recorded by side: mostly the left, sometimes both.
+        for t in ["mastoid", "supraorbital_margin", "ventral_arc", "subpubic_concavity", "ischiopubic_ramus", "sciatic_notch"]:
+            v = r[t]
+            o[f"{t}_l"], o[f"{t}_r"] = "", ""
+            if v:
+                side = rnd.random()
+                if side < 0.6:
+                    o[f"{t}_l"] = v
+                elif side < 0.8:
+                    o[f"{t}_r"] = v
+                else:
+                    o[f"{t}_l"] = v
+                    if "-" not in v:
+                        g = int(v) + rnd.choice([0, 0, 0, 1, -1])
+                        o[f"{t}_r"] = str(min(5, max(1, g)))
+        for t in ["femur_head_diameter", "femur_midshaft_circumference", "humerus_head_diameter", "canine_bl_diameter"]:
+            o[f"{t}_l"] = r[t]
+        o["dna_x_reads"], o["dna_y_reads"] = r["dna_x_reads"], r["dna_y_reads"]
+        o["cribra_orbitalia"] = rnd.choice(["0", "0", "0", "1"]) if (r["glabella"] or r["mastoid"]) else "NA"
+        o["grave_goods"] = rnd.choice(["", "", "", "knife", "spindle whorl", "bead string", "buckle", "pot"])
+        out.append(o)
+        truth.append({"id": o["id"], "true_sex": r["true_sex"]})
+    # Hand edits for the story.
+    # A grave with nothing scorable: only a pot survives.
+    for t in list(out[-1].keys()):
+        if t not in ("id", "phase", "zone"):
+            out[-1][t] = ""
+    out[-1]["age"], out[-1]["grave_goods"], out[-1]["cribra_orbitalia"] = "adult", "pot", "NA"
+    # An individual whose reads fit neither sex (an invented XXY-like case): flagged, not forced.
+    out[10]["dna_x_reads"], out[10]["dna_y_reads"] = "5730", "270"
+    fields = list(out[0].keys())
+    with open("examples/mirefold.csv", "w", newline="") as f:
+        w = csv.DictWriter(f, fieldnames=fields, lineterminator="\n")
+        w.writeheader()
+        w.writerows(out)
+    with open("examples/mirefold-truth.csv", "w", newline="") as f:
+        w = csv.DictWriter(f, fieldnames=["id", "true_sex"], lineterminator="\n")
+        w.writeheader()
+        w.writerows(truth)
+
+
+def brackenmere():
+    rows = simulate("/tmp/brackenmere-sim.csv", "house:32:1.0", 31, missing="cranium=0.3,pelvis=0.4,postcranial=0.3,dental=0.5,trait=0.15,range=0.05")
+    with open("examples/brackenmere.csv", "w", newline="") as f:
+        fields = [k for k in rows[0].keys() if k not in ("group", "true_sex", "dna_x_reads", "dna_y_reads")]
+        w = csv.DictWriter(f, fieldnames=["id"] + fields[1:], lineterminator="\n", extrasaction="ignore")
+        w.writeheader()
+        for k, r in enumerate(rows, start=1):
+            r = dict(r)
+            r["id"] = f"BR-{k:02d}"
+            w.writerow(r)
+
+
+if __name__ == "__main__":
+    mirefold()
+    brackenmere()
