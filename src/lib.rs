@@ -43,6 +43,7 @@ pub mod output;
 pub mod prior;
 pub mod report;
 pub mod sim;
+pub mod summary;
 
 pub use error::Error;
 

@@ -10,7 +10,12 @@ use crate::model::{BlockStatus, Context};
 use crate::output::write_atomic;
 use crate::prior::{parse_prior_set, PriorError};
 use crate::report::analysis::{render_files, terminal_summary};
+use crate::report::publication::{
+    by_sex_tables, figures_svg, methods_md, report_md_and_tex, BySex,
+};
 use crate::report::RunInfo;
+use crate::summary::by_sex::age_interval;
+use crate::summary::{age_by_sex, prevalence_by_sex};
 use crate::Error;
 use std::path::{Path, PathBuf};
 
@@ -40,6 +45,10 @@ pub struct Args {
     /// draws are still made for the intervals of the numbers of females and males.
     #[arg(long, value_name = "N")]
     pub draws: Option<usize>,
+    /// A 0/1 condition column (e.g. a lesion) to compare between the sexes; repeatable. Such
+    /// columns are never evidence of sex.
+    #[arg(long = "by-sex", value_name = "COLUMN")]
+    pub by_sex: Vec<String>,
     /// Seed of every random stream (same seed, same bytes).
     #[arg(long, default_value_t = 1)]
     pub seed: u64,
@@ -110,6 +119,70 @@ pub fn run(args: Args) -> Result<i32, Error> {
         n_draws,
         args.seed,
     );
+    // Condition columns for the analyses by sex: carried columns holding 0/1.
+    let mut present_cols: Vec<(String, Vec<Option<bool>>)> = Vec::new();
+    let mut problems = Vec::new();
+    for col in &args.by_sex {
+        let Some(c) = a
+            .carried_columns
+            .iter()
+            .position(|x| x.trim().eq_ignore_ascii_case(col.trim()))
+        else {
+            return Err(Error::Settings {
+                file: "--by-sex".into(),
+                message: format!(
+                    "`{col}` is not a column of the input that the model leaves unused (trait columns are evidence and cannot be outcomes); columns available: {}",
+                    a.carried_columns.join(", ")
+                ),
+            });
+        };
+        let mut v = Vec::with_capacity(a.individuals.len());
+        for ind in &a.individuals {
+            let cell = ind.carried[c].trim();
+            v.push(match cell.to_ascii_lowercase().as_str() {
+                "1" | "yes" | "present" | "true" => Some(true),
+                "0" | "no" | "absent" | "false" => Some(false),
+                _ if settings.is_missing(cell) => None,
+                _ => {
+                    problems.push(crate::data::Problem {
+                        file: a.file.clone(),
+                        row: Some(ind.row),
+                        column: Some(a.carried_columns[c].clone()),
+                        value: Some(cell.to_string()),
+                        kind: crate::data::ProblemKind::UnreadableValue,
+                        expected: "1 (present) or 0 (absent), or a missing code".into(),
+                    });
+                    None
+                }
+            });
+        }
+        present_cols.push((a.carried_columns[c].clone(), v));
+    }
+    if !problems.is_empty() {
+        let e = crate::data::InputError {
+            file: a.file.clone(),
+            problems,
+            warnings: Vec::new(),
+        };
+        eprint!("{}", super::check::render_problems(&e));
+        return Ok(3);
+    }
+    let ages: Vec<Option<(f64, f64)>> = a
+        .individuals
+        .iter()
+        .map(|i| age_interval(i.age, model.minimum_age))
+        .collect();
+    let by_sex = BySex {
+        age: ages
+            .iter()
+            .any(Option::is_some)
+            .then(|| age_by_sex(&ages, &draws.female, args.seed)),
+        prevalence: present_cols
+            .iter()
+            .map(|(c, v)| prevalence_by_sex(c, v, &draws.female))
+            .collect(),
+        ages,
+    };
     let run = RunInfo {
         program: "dimorph",
         version: crate::VERSION,
@@ -139,7 +212,35 @@ pub fn run(args: Args) -> Result<i32, Error> {
         path: args.out.clone(),
         source: std::io::Error::other(e.to_string()),
     })?;
-    std::fs::create_dir_all(&args.out).map_err(|source| Error::Io {
+    let mut files = files;
+    files.files.extend(by_sex_tables(&by_sex, &analysis));
+    let figs = figures_svg(&model, &a, &evidence, &analysis, &by_sex).map_err(|e| Error::Io {
+        path: args.out.join("figures"),
+        source: std::io::Error::other(e.to_string()),
+    })?;
+    files
+        .files
+        .extend(figs.into_iter().map(|(n, svg)| (n, svg.into_bytes())));
+    files.files.push((
+        "methods.md".into(),
+        methods_md(&model, &a, &evidence, &analysis, &draws, &by_sex, &run).into_bytes(),
+    ));
+    let mut names: Vec<String> = files.files.iter().map(|(n, _)| n.clone()).collect();
+    names.push("report.md".into());
+    names.push("tables.tex".into());
+    let (report, tables) = report_md_and_tex(
+        &model,
+        &a,
+        &evidence,
+        &analysis,
+        &by_sex,
+        &run,
+        &prior.provenance,
+        &names,
+    );
+    files.files.push(("report.md".into(), report.into_bytes()));
+    files.files.push(("tables.tex".into(), tables.into_bytes()));
+    std::fs::create_dir_all(args.out.join("figures")).map_err(|source| Error::Io {
         path: args.out.clone(),
         source,
     })?;

@@ -18,6 +18,7 @@ SCRIPTS = {
     "normal_tails.py": ("normal_tails.csv", "expected", "rel", 1e-12),
     "mvn_boxes.py": ("mvn_boxes.csv", "ln_p", "abs", 1e-6),
     "pi_posterior.py": ("pi_posterior.csv", "expected", "abs", 1e-9),
+    "by_sex.py": ("by_sex_expected.csv", "expected", "abs", 1e-12),
 }
 
 

@@ -1,0 +1,729 @@
+//! What goes into the paper: `report.md`, `tables.tex`, `methods.md`, the by-sex CSV tables
+//! and the figures.
+
+use super::analysis::RunInfo;
+use super::figures;
+use crate::assemblage::draws::Draws;
+use crate::assemblage::{Analysis, Category, PiPosterior};
+use crate::catalogue::Region;
+use crate::data::Assemblage;
+use crate::model::{Block, BlockStatus, IndividualEvidence, Model};
+use crate::summary::{category_by_age, AgeBySex, PrevalenceBySex};
+use std::collections::BTreeSet;
+use std::f64::consts::LN_10;
+use std::fmt::Write as _;
+
+/// The analyses by sex that were run.
+#[derive(Debug, Clone, PartialEq)]
+pub struct BySex {
+    /// Age at death by sex, when the input has ages.
+    pub age: Option<AgeBySex>,
+    /// Prevalence by sex of each condition column named.
+    pub prevalence: Vec<PrevalenceBySex>,
+    /// Age interval of each individual.
+    pub ages: Vec<Option<(f64, f64)>>,
+}
+
+fn f3(x: f64) -> String {
+    if x.is_finite() {
+        format!("{x:.3}")
+    } else {
+        "–".into()
+    }
+}
+
+fn f1(x: f64) -> String {
+    if x.is_finite() {
+        format!("{x:.1}")
+    } else {
+        "–".into()
+    }
+}
+
+fn csv_bytes(rows: Vec<Vec<String>>) -> Vec<u8> {
+    let mut w = csv::WriterBuilder::new()
+        .terminator(csv::Terminator::Any(b'\n'))
+        .from_writer(Vec::new());
+    for r in rows {
+        let _ = w.write_record(&r);
+    }
+    w.into_inner().unwrap_or_default()
+}
+
+fn tex(s: &str) -> String {
+    s.replace('\\', "\\textbackslash{}")
+        .replace('&', "\\&")
+        .replace('%', "\\%")
+        .replace('_', "\\_")
+        .replace('#', "\\#")
+        .replace('$', "\\$")
+}
+
+/// The by-sex CSV tables: (file name, bytes).
+pub fn by_sex_tables(by_sex: &BySex, analysis: &Analysis) -> Vec<(String, Vec<u8>)> {
+    let mut files = Vec::new();
+    if let Some(a) = &by_sex.age {
+        let mut rows = vec![vec![
+            "quantity".to_string(),
+            "estimate".into(),
+            "lo".into(),
+            "hi".into(),
+        ]];
+        for (q, v) in [
+            ("mean_age_female", a.mean_female),
+            ("mean_age_male", a.mean_male),
+            ("difference_female_minus_male", a.difference),
+        ] {
+            rows.push(vec![q.into(), f3(v.0), f3(v.1), f3(v.2)]);
+        }
+        rows.push(vec![
+            "p_females_die_younger".into(),
+            f3(a.p_females_die_younger),
+            String::new(),
+            String::new(),
+        ]);
+        for c in &a.classes {
+            rows.push(vec![
+                format!("females_aged_{}", c.class.replace(' ', "_")),
+                f3(c.female.0),
+                f3(c.female.1),
+                f3(c.female.2),
+            ]);
+            rows.push(vec![
+                format!("males_aged_{}", c.class.replace(' ', "_")),
+                f3(c.male.0),
+                f3(c.male.1),
+                f3(c.male.2),
+            ]);
+        }
+        files.push(("by_sex_age.csv".into(), csv_bytes(rows)));
+    }
+    if !by_sex.prevalence.is_empty() {
+        let mut rows = vec![[
+            "condition",
+            "n_recorded",
+            "n_present",
+            "n_female",
+            "n_male",
+            "prevalence_female",
+            "female_lo",
+            "female_hi",
+            "prevalence_male",
+            "male_lo",
+            "male_hi",
+            "difference",
+            "difference_lo",
+            "difference_hi",
+            "odds_ratio",
+            "odds_ratio_lo",
+            "odds_ratio_hi",
+        ]
+        .iter()
+        .map(|s| s.to_string())
+        .collect::<Vec<_>>()];
+        for p in &by_sex.prevalence {
+            rows.push(vec![
+                p.column.clone(),
+                p.n_recorded.to_string(),
+                p.n_present.to_string(),
+                f1(p.n_female),
+                f1(p.n_male),
+                f3(p.female.0),
+                f3(p.female.1),
+                f3(p.female.2),
+                f3(p.male.0),
+                f3(p.male.1),
+                f3(p.male.2),
+                f3(p.difference.0),
+                f3(p.difference.1),
+                f3(p.difference.2),
+                f3(p.odds_ratio.0),
+                f3(p.odds_ratio.1),
+                f3(p.odds_ratio.2),
+            ]);
+        }
+        files.push(("by_sex_prevalence.csv".into(), csv_bytes(rows)));
+    }
+    let mut rows = vec![std::iter::once("age_class".to_string())
+        .chain(Category::ALL.iter().map(|c| c.as_str().to_string()))
+        .collect::<Vec<_>>()];
+    for (label, counts) in category_by_age(&by_sex.ages, &analysis.main.categories) {
+        rows.push(
+            std::iter::once(label)
+                .chain(counts.iter().map(|c| c.to_string()))
+                .collect(),
+        );
+    }
+    files.push(("category_by_age.csv".into(), csv_bytes(rows)));
+    files
+}
+
+/// The figures: (file name, SVG text).
+///
+/// # Errors
+/// [`figures::FigureError`] when plotting fails.
+pub fn figures_svg(
+    model: &Model,
+    a: &Assemblage,
+    evidence: &[IndividualEvidence],
+    analysis: &Analysis,
+    by_sex: &BySex,
+) -> Result<Vec<(String, String)>, figures::FigureError> {
+    let mut out = Vec::new();
+    let pts: Vec<(f64, f64, f64)> = analysis
+        .main
+        .p_female
+        .iter()
+        .zip(&analysis.individual_sensitivity)
+        .filter_map(|(p, s)| Some((p.as_ref().copied()?, s.p_female_min?, s.p_female_max?)))
+        .collect();
+    let t = analysis.thresholds;
+    out.push((
+        "figures/p_female.svg".into(),
+        figures::p_female_figure(&pts, [t.male, t.probable_male, t.probable_female, t.female])?,
+    ));
+    let l: Vec<f64> = evidence
+        .iter()
+        .filter(|e| e.estimable)
+        .map(|e| e.ln_lr)
+        .collect();
+    let mut curves = Vec::new();
+    for r in std::iter::once(&analysis.main).chain(
+        analysis
+            .sensitivity
+            .iter()
+            .filter(|r| r.prior.name != analysis.main.prior.name),
+    ) {
+        if matches!(r.prior.shape, crate::prior::PriorShape::Fixed { .. }) || curves.len() >= 6 {
+            continue;
+        }
+        let post = PiPosterior::compute(&l, &r.prior);
+        let step = (post.grid.len() / 400).max(1);
+        let pts: Vec<(f64, f64)> = (0..post.grid.len())
+            .step_by(step)
+            .map(|i| {
+                (
+                    post.grid[i],
+                    post.mass[i] / (post.edges[i + 1] - post.edges[i]).max(f64::MIN_POSITIVE),
+                )
+            })
+            .collect();
+        curves.push((r.prior.name.clone(), pts));
+    }
+    out.push((
+        "figures/pi_posterior.svg".into(),
+        figures::pi_posterior_figure(&curves)?,
+    ));
+    let blocks: Vec<String> = model.blocks.iter().map(|b| b.id().to_string()).collect();
+    let mut rows: Vec<(f64, String, Vec<Option<f64>>)> = a
+        .individuals
+        .iter()
+        .zip(evidence)
+        .filter(|(_, e)| e.estimable)
+        .map(|(ind, e)| {
+            (
+                e.ln_lr,
+                ind.id.clone(),
+                e.blocks
+                    .iter()
+                    .map(|b| (b.status == BlockStatus::Used).then_some(b.ln_lr / LN_10))
+                    .collect(),
+            )
+        })
+        .collect();
+    rows.sort_by(|x, y| x.0.total_cmp(&y.0));
+    let rows: Vec<(String, Vec<Option<f64>>)> =
+        rows.into_iter().map(|(_, id, v)| (id, v)).collect();
+    out.push((
+        "figures/lr_by_region.svg".into(),
+        figures::lr_by_region_figure(&blocks, &rows)?,
+    ));
+    if let Some(age) = &by_sex.age {
+        out.push(("figures/age_at_death.svg".into(), figures::age_figure(age)?));
+    }
+    Ok(out)
+}
+
+/// Published methods actually used in a run, as (key, reference) in author–year style.
+pub fn references_used(
+    model: &Model,
+    evidence: &[IndividualEvidence],
+    by_sex: &BySex,
+) -> Vec<&'static str> {
+    let mut used_traits: BTreeSet<String> = BTreeSet::new();
+    let mut used_latent = false;
+    let mut used_dna = false;
+    let mut equations: BTreeSet<String> = BTreeSet::new();
+    for e in evidence {
+        for (b, be) in model.blocks.iter().zip(&e.blocks) {
+            if be.status != BlockStatus::Used {
+                continue;
+            }
+            used_traits.extend(be.traits_used.iter().cloned());
+            match b {
+                Block::Latent(_) => used_latent = true,
+                Block::Dna(_) => used_dna = true,
+                Block::Equations(_) => {
+                    equations.insert(be.note.clone());
+                }
+            }
+        }
+    }
+    let region_used = |r: Region| {
+        used_traits
+            .iter()
+            .any(|t| model.catalogue.get(t).is_some_and(|d| d.region == r))
+    };
+    let mut refs = Vec::new();
+    if used_latent {
+        refs.push("Konigsberg, L. W., & Hens, S. M. (1998). American Journal of Physical Anthropology, 107, 97–112.");
+        refs.push(
+            "Genz, A. (1992). Journal of Computational and Graphical Statistics, 1, 141–149.",
+        );
+        refs.push("Genz, A. (2004). Statistics and Computing, 14, 251–260.");
+    }
+    if [
+        "glabella",
+        "mastoid",
+        "supraorbital_margin",
+        "mental_eminence",
+        "nuchal_crest",
+    ]
+    .iter()
+    .any(|t| used_traits.contains(*t))
+    {
+        refs.push("Walker, P. L. (2008). American Journal of Physical Anthropology, 136, 39–50.");
+    }
+    if ["ventral_arc", "subpubic_concavity", "ischiopubic_ramus"]
+        .iter()
+        .any(|t| used_traits.contains(*t))
+    {
+        refs.push("Klales, A. R., Ousley, S. D., & Vollner, J. M. (2012). American Journal of Physical Anthropology, 149, 104–114.");
+        refs.push("Phenice, T. W. (1969). American Journal of Physical Anthropology, 30, 297–301.");
+    }
+    if used_traits.contains("sciatic_notch") {
+        refs.push("Walker, P. L. (2005). American Journal of Physical Anthropology, 127, 385–391.");
+    }
+    if region_used(Region::Postcranial)
+        || region_used(Region::Dental)
+        || used_traits.contains("preauricular_sulcus")
+    {
+        refs.push("Buikstra, J. E., & Ubelaker, D. H. (Eds.). (1994). Standards for data collection from human skeletal remains. Arkansas Archeological Survey Research Series 44.");
+    }
+    if used_traits.contains("femur_head_diameter")
+        || used_traits.contains("femur_midshaft_circumference")
+    {
+        refs.push(
+            "Noussios, G., et al. (2019). Journal of Clinical Medicine Research, 11, 740–744.",
+        );
+    }
+    if used_dna {
+        refs.push("Skoglund, P., et al. (2013). Journal of Archaeological Science, 40, 4477–4482.");
+    }
+    refs.push(
+        "Bruzek, J., et al. (2017). American Journal of Physical Anthropology, 164, 440–449.",
+    );
+    refs.push("ENFSI (2015). Guideline for evaluative reporting in forensic science. European Network of Forensic Science Institutes.");
+    if !by_sex.prevalence.is_empty() {
+        refs.push(
+            "Rubin, D. B. (1987). Multiple Imputation for Nonresponse in Surveys. New York: Wiley.",
+        );
+    }
+    let _ = equations;
+    refs
+}
+
+/// The methods paragraph and its reference list.
+pub fn methods_md(
+    model: &Model,
+    a: &Assemblage,
+    evidence: &[IndividualEvidence],
+    analysis: &Analysis,
+    draws: &Draws,
+    by_sex: &BySex,
+    run: &RunInfo,
+) -> String {
+    let main = &analysis.main;
+    let used_blocks: Vec<String> = model
+        .blocks
+        .iter()
+        .enumerate()
+        .filter(|(k, _)| {
+            evidence
+                .iter()
+                .any(|e| e.blocks[*k].status == BlockStatus::Used)
+        })
+        .map(|(_, b)| match b {
+            Block::Latent(l) => format!(
+                "{} ({})",
+                if l.label.is_empty() { &l.id } else { &l.label },
+                l.traits
+                    .iter()
+                    .map(|t| model
+                        .catalogue
+                        .get(&t.id)
+                        .map(|d| d.name.clone())
+                        .unwrap_or_else(|| t.id.clone()))
+                    .collect::<Vec<_>>()
+                    .join(", ")
+            ),
+            Block::Equations(e) => format!(
+                "{} (published logistic equations)",
+                if e.label.is_empty() { &e.id } else { &e.label }
+            ),
+            Block::Dna(d) => format!(
+                "{} (reads mapped to the X and Y chromosomes)",
+                if d.label.is_empty() { &d.id } else { &d.label }
+            ),
+        })
+        .collect();
+    let has_latent = model.blocks.iter().any(|b| matches!(b, Block::Latent(_)));
+    let mut s = String::new();
+    let _ = writeln!(s, "# Methods: sex estimation\n");
+    let _ = write!(
+        s,
+        "Biological sex was estimated for the {} individuals of the assemblage ({} with usable evidence) with dimorph {} (model `{}`), which combines all surviving evidence of each individual in one Bayesian computation. The evidence was treated as {} blocks, assumed independent given sex: {}. ",
+        main.n_individuals, main.n_estimable, run.version, model.name, used_blocks.len(), used_blocks.join("; ")
+    );
+    if has_latent {
+        let _ = write!(s, "Ordinal trait scores and measurements were modelled jointly by a multivariate cumulative probit with correlated latent traits (Konigsberg & Hens, 1998), extended to measurements; unobserved traits were integrated out, and probabilities of ordinal score combinations were computed exactly in one and two dimensions (Genz, 2004) and by Genz's separation-of-variables method with randomised quasi-Monte Carlo in three or more (Genz, 1992). ");
+    }
+    let _ = write!(
+        s,
+        "Morphological evidence was not used for individuals younger than {} years. ",
+        model.minimum_age
+    );
+    let _ = write!(
+        s,
+        "Each individual's likelihood ratio (female:male) was combined with a {} prior on the proportion of females in the population, which was itself estimated from the assemblage; individual posterior probabilities of being female were integrated over that proportion. ",
+        main.prior.name
+    );
+    if let Some(h) = &main.hyper {
+        let _ = write!(
+            s,
+            "Groups ({}) were modelled hierarchically, each group's proportion female following a Beta distribution around a shared mean with a log-uniform prior on its concentration; the Bayes factor for groups that differ against a shared proportion was {:.2} (log10). ",
+            main.groups.iter().map(|g| g.group.as_str()).collect::<Vec<_>>().join(", "),
+            h.ln_bf_groups_differ / LN_10
+        );
+    }
+    let t = analysis.thresholds;
+    let _ = write!(
+        s,
+        "Individuals were called female when P(female) ≥ {}, probable female from {} to {}, indeterminate between {} and {}, probable male from {} to {} and male at or below {} (the 0.95 rule after Bruzek et al., 2017). Likelihood ratios are described with the verbal scale of the ENFSI guideline (ENFSI, 2015). ",
+        t.female, t.probable_female, t.female, t.probable_male, t.probable_female, t.male, t.probable_male, t.male
+    );
+    let _ = write!(
+        s,
+        "The sensitivity of every result to the prior was assessed by repeating the analysis under {} further priors, including fixed proportions from 0.1 to 0.9. ",
+        analysis.sensitivity.len()
+    );
+    if by_sex.age.is_some() || !by_sex.prevalence.is_empty() {
+        let _ = write!(
+            s,
+            "Analyses by sex (age at death{}) were computed over {} joint posterior draws of every individual's sex, so that uncertainty in sex is carried into them{}. ",
+            if by_sex.prevalence.is_empty() { String::new() } else { format!("; prevalence of {}", by_sex.prevalence.iter().map(|p| p.column.replace('_', " ")).collect::<Vec<_>>().join(", ")) },
+            draws.mu.len(),
+            if by_sex.prevalence.is_empty() { "" } else { "; prevalence estimates were pooled with Rubin's rules (Rubin, 1987)" }
+        );
+    }
+    let _ = writeln!(
+        s,
+        "The proportion female was estimated at {:.2} (95% interval {:.2}–{:.2}). The analysis used seed {}; the input file's SHA-256 is `{}`.\n",
+        main.pi.mean, main.pi.lo, main.pi.hi, run.seed, a.sha256
+    );
+    let _ = writeln!(
+        s,
+        "Note: these are estimates, not identifications. {}\n",
+        if model.provenance.to_lowercase().contains("illustrative") {
+            "The model's parameters are illustrative (see its provenance); a published analysis should use a model fitted to a documented reference collection of a relevant population."
+        } else {
+            ""
+        }
+    );
+    let _ = writeln!(s, "## References\n");
+    for r in references_used(model, evidence, by_sex) {
+        let _ = writeln!(s, "- {r}");
+    }
+    let _ = writeln!(s, "\nEntries give author, year and where published; check them against the sources and add titles in your journal's style before publication.");
+    s
+}
+
+/// The readable report and the LaTeX tables.
+#[allow(clippy::too_many_arguments)]
+pub fn report_md_and_tex(
+    model: &Model,
+    a: &Assemblage,
+    evidence: &[IndividualEvidence],
+    analysis: &Analysis,
+    by_sex: &BySex,
+    run: &RunInfo,
+    prior_provenance: &str,
+    files: &[String],
+) -> (String, String) {
+    let main = &analysis.main;
+    let mut m = String::new();
+    let mut t = String::new();
+    let _ = writeln!(m, "# Sex estimation report: {}\n", a.file);
+    let _ = writeln!(m, "> Estimates, not identifications. Forensic casework requires validated methods, accredited practice and the rules of the jurisdiction. Biological sex is not gender. These are the remains of people.\n");
+    let _ = writeln!(m, "## What was analysed\n");
+    let _ = writeln!(
+        m,
+        "- Input: `{}` (SHA-256 `{}`), {} individuals, {} with usable evidence",
+        a.file, a.sha256, main.n_individuals, main.n_estimable
+    );
+    let _ = writeln!(
+        m,
+        "- Model: `{}` ({}; SHA-256 `{}`)",
+        model.name, run.model_file, model.sha256
+    );
+    let _ = writeln!(
+        m,
+        "- Prior: `{}`; sensitivity set of {} priors",
+        main.prior.name,
+        analysis.sensitivity.len()
+    );
+    let th = analysis.thresholds;
+    let _ = writeln!(m, "- Thresholds on P(female): male ≤ {}, probable male ≤ {}, probable female ≥ {}, female ≥ {}", th.male, th.probable_male, th.probable_female, th.female);
+    let _ = writeln!(m, "- Program: dimorph {}, seed {}", run.version, run.seed);
+    let _ = writeln!(m, "- Reproduce with: `{}`\n", run.command.join(" "));
+    let _ = writeln!(
+        m,
+        "### Model provenance\n\n```\n{}\n```\n",
+        model.provenance.trim()
+    );
+    let _ = writeln!(
+        m,
+        "### Prior provenance\n\n```\n{}\n```\n",
+        prior_provenance.trim()
+    );
+    let _ = writeln!(m, "## Proportion female\n");
+    let _ = writeln!(m, "| prior | mean | median | 95% interval | highest density | P(π < 0.5) | expected females |");
+    let _ = writeln!(m, "|---|---|---|---|---|---|---|");
+    let _ = writeln!(
+        t,
+        "% Tables written by dimorph {}; requires \\usepackage{{booktabs}}.\n",
+        run.version
+    );
+    let _ = writeln!(t, "\\begin{{table}}\n\\centering\n\\caption{{Posterior of the proportion female under each prior.}}\n\\begin{{tabular}}{{lrrrr}}\n\\toprule\nPrior & Mean & 2.5\\% & 97.5\\% & Expected females \\\\\n\\midrule");
+    for r in std::iter::once(main).chain(
+        analysis
+            .sensitivity
+            .iter()
+            .filter(|r| r.prior.name != main.prior.name),
+    ) {
+        let _ = writeln!(
+            m,
+            "| {} | {:.3} | {:.3} | {:.3}–{:.3} | {:.3}–{:.3} | {:.3} | {:.1} |",
+            r.prior.name,
+            r.pi.mean,
+            r.pi.median,
+            r.pi.lo,
+            r.pi.hi,
+            r.pi.hdi_lo,
+            r.pi.hdi_hi,
+            r.pi.p_below_half,
+            r.expected_females
+        );
+        let _ = writeln!(
+            t,
+            "{} & {:.3} & {:.3} & {:.3} & {:.1} \\\\",
+            tex(&r.prior.name),
+            r.pi.mean,
+            r.pi.lo,
+            r.pi.hi,
+            r.expected_females
+        );
+    }
+    let _ = writeln!(t, "\\bottomrule\n\\end{{tabular}}\n\\end{{table}}\n");
+    let _ = writeln!(
+        m,
+        "\nOne sex against a mixed community: log10 Bayes factor {:.2}.\n",
+        main.ln_bf_one_sex / LN_10
+    );
+    let _ = writeln!(m, "## Categories\n");
+    let _ = writeln!(m, "| category | individuals |\n|---|---|");
+    let _ = writeln!(t, "\\begin{{table}}\n\\centering\n\\caption{{Individuals per category under the {} prior.}}\n\\begin{{tabular}}{{lr}}\n\\toprule\nCategory & Individuals \\\\\n\\midrule", tex(&main.prior.name));
+    for c in Category::ALL {
+        let n = main.categories.iter().filter(|&&x| x == c).count();
+        let _ = writeln!(m, "| {} | {} |", c.label(), n);
+        let _ = writeln!(t, "{} & {} \\\\", c.label(), n);
+    }
+    let _ = writeln!(t, "\\bottomrule\n\\end{{tabular}}\n\\end{{table}}\n");
+    let _ = writeln!(m, "\n## Prior sensitivity\n");
+    let sens: Vec<String> = a
+        .individuals
+        .iter()
+        .zip(&analysis.individual_sensitivity)
+        .filter(|(_, s)| s.prior_sensitive)
+        .map(|(i, s)| {
+            format!(
+                "{} (P(female) {:.3}–{:.3})",
+                i.id,
+                s.p_female_min.unwrap_or(f64::NAN),
+                s.p_female_max.unwrap_or(f64::NAN)
+            )
+        })
+        .collect();
+    if sens.is_empty() {
+        let _ = writeln!(m, "No individual's category depends on the prior.\n");
+    } else {
+        let _ = writeln!(
+            m,
+            "{} individuals change category under some prior of the set: {}.\n",
+            sens.len(),
+            sens.join(", ")
+        );
+    }
+    if !main.groups.is_empty() {
+        let _ = writeln!(m, "## Groups\n\n| group | n | proportion female | 95% interval | expected females |\n|---|---|---|---|---|");
+        let _ = writeln!(t, "\\begin{{table}}\n\\centering\n\\caption{{Proportion female by group (hierarchical model).}}\n\\begin{{tabular}}{{lrrrr}}\n\\toprule\nGroup & n & Mean & 95\\% interval & Expected females \\\\\n\\midrule");
+        for g in &main.groups {
+            let _ = writeln!(
+                m,
+                "| {} | {} | {:.3} | {:.3}–{:.3} | {:.1} |",
+                g.group, g.n, g.pi.mean, g.pi.lo, g.pi.hi, g.expected_females
+            );
+            let _ = writeln!(
+                t,
+                "{} & {} & {:.3} & {:.3}--{:.3} & {:.1} \\\\",
+                tex(&g.group),
+                g.n,
+                g.pi.mean,
+                g.pi.lo,
+                g.pi.hi,
+                g.expected_females
+            );
+        }
+        let _ = writeln!(t, "\\bottomrule\n\\end{{tabular}}\n\\end{{table}}\n");
+        if let Some(h) = &main.hyper {
+            let _ = writeln!(m, "\nAcross groups {:.3} ({:.3}–{:.3}); groups differ against share one proportion: log10 Bayes factor {:.2}.\n", h.mu_mean, h.mu_lo, h.mu_hi, h.ln_bf_groups_differ / LN_10);
+        }
+    }
+    if let Some(age) = &by_sex.age {
+        let _ = writeln!(m, "## Age at death by sex\n\nOver the joint draws ({} individuals with a recorded age; interval ages imputed uniformly within their interval, open classes closed at {} years):\n", age.n_with_age, crate::summary::OPEN_CLASS_END);
+        let _ = writeln!(m, "| | mean | 95% interval |\n|---|---|---|");
+        for (q, v) in [
+            ("females", age.mean_female),
+            ("males", age.mean_male),
+            ("difference (F − M)", age.difference),
+        ] {
+            let _ = writeln!(m, "| {q} | {} | {}–{} |", f1(v.0), f1(v.1), f1(v.2));
+        }
+        let _ = writeln!(
+            m,
+            "\nP(females die younger on average) = {}.\n",
+            f3(age.p_females_die_younger)
+        );
+        let _ = writeln!(
+            m,
+            "| age class | females (95% interval) | males (95% interval) |\n|---|---|---|"
+        );
+        let _ = writeln!(t, "\\begin{{table}}\n\\centering\n\\caption{{Age at death by sex over the joint posterior draws (mean and 95\\% interval).}}\n\\begin{{tabular}}{{lrr}}\n\\toprule\nAge class & Females & Males \\\\\n\\midrule");
+        for c in &age.classes {
+            let _ = writeln!(
+                m,
+                "| {} | {} ({}–{}) | {} ({}–{}) |",
+                c.class,
+                f1(c.female.0),
+                f1(c.female.1),
+                f1(c.female.2),
+                f1(c.male.0),
+                f1(c.male.1),
+                f1(c.male.2)
+            );
+            let _ = writeln!(
+                t,
+                "{} & {} ({}--{}) & {} ({}--{}) \\\\",
+                tex(&c.class),
+                f1(c.female.0),
+                f1(c.female.1),
+                f1(c.female.2),
+                f1(c.male.0),
+                f1(c.male.1),
+                f1(c.male.2)
+            );
+        }
+        let _ = writeln!(t, "\\bottomrule\n\\end{{tabular}}\n\\end{{table}}\n");
+        let _ = writeln!(m);
+    }
+    if !by_sex.prevalence.is_empty() {
+        let _ = writeln!(m, "## Prevalence by sex\n\nPooled over the joint draws with Rubin's rules (sampling and sex uncertainty together):\n");
+        let _ = writeln!(m, "| condition | recorded | females | males | difference | odds ratio F:M |\n|---|---|---|---|---|---|");
+        let _ = writeln!(t, "\\begin{{table}}\n\\centering\n\\caption{{Prevalence by sex (pooled over joint posterior draws, 95\\% intervals).}}\n\\begin{{tabular}}{{lrrrr}}\n\\toprule\nCondition & Females & Males & Difference & Odds ratio \\\\\n\\midrule");
+        for p in &by_sex.prevalence {
+            let _ = writeln!(
+                m,
+                "| {} | {} | {} ({}–{}) | {} ({}–{}) | {} ({}–{}) | {} ({}–{}) |",
+                p.column,
+                p.n_recorded,
+                f3(p.female.0),
+                f3(p.female.1),
+                f3(p.female.2),
+                f3(p.male.0),
+                f3(p.male.1),
+                f3(p.male.2),
+                f3(p.difference.0),
+                f3(p.difference.1),
+                f3(p.difference.2),
+                f3(p.odds_ratio.0),
+                f3(p.odds_ratio.1),
+                f3(p.odds_ratio.2)
+            );
+            let _ = writeln!(
+                t,
+                "{} & {} ({}--{}) & {} ({}--{}) & {} ({}--{}) & {} ({}--{}) \\\\",
+                tex(&p.column),
+                f3(p.female.0),
+                f3(p.female.1),
+                f3(p.female.2),
+                f3(p.male.0),
+                f3(p.male.1),
+                f3(p.male.2),
+                f3(p.difference.0),
+                f3(p.difference.1),
+                f3(p.difference.2),
+                f3(p.odds_ratio.0),
+                f3(p.odds_ratio.1),
+                f3(p.odds_ratio.2)
+            );
+        }
+        let _ = writeln!(t, "\\bottomrule\n\\end{{tabular}}\n\\end{{table}}\n");
+        let _ = writeln!(
+            m,
+            "\nOutcome columns are never used as evidence of sex: that would be circular.\n"
+        );
+    }
+    let flagged: Vec<String> = a
+        .individuals
+        .iter()
+        .zip(evidence)
+        .flat_map(|(i, e)| {
+            model
+                .blocks
+                .iter()
+                .zip(&e.blocks)
+                .filter(|(_, b)| {
+                    matches!(
+                        b.status,
+                        BlockStatus::Atypical | BlockStatus::NumericalFailure
+                    )
+                })
+                .map(move |(bl, b)| format!("{} ({}): {}", i.id, bl.id(), b.note))
+        })
+        .collect();
+    if !a.warnings.is_empty() || !flagged.is_empty() {
+        let _ = writeln!(m, "## Warnings\n");
+        for f in &flagged {
+            let _ = writeln!(m, "- {f}");
+        }
+        for w in &a.warnings {
+            let _ = writeln!(m, "- {w}");
+        }
+        let _ = writeln!(m);
+    }
+    let _ = writeln!(m, "## Files\n");
+    for f in files {
+        let _ = writeln!(m, "- `{f}`");
+    }
+    (m, t)
+}

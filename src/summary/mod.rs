@@ -1,0 +1,13 @@
+//! Analyses by sex over the joint draws, so that the uncertainty in every individual's sex
+//! is carried into age at death, prevalence of conditions, and the tables of a publication.
+//!
+//! Outcome columns (age, conditions) are never evidence of sex: using them would make the
+//! comparison circular (a grave good or a lesion read as "male" would then "show" that males
+//! have it).
+
+pub mod by_sex;
+
+pub use by_sex::{
+    age_by_sex, category_by_age, prevalence_by_sex, AgeBySex, AgeClassRow, PrevalenceBySex,
+    AGE_CLASSES, OPEN_CLASS_END,
+};

@@ -1,0 +1,138 @@
+//! The publication outputs: report, tables, methods, by-sex tables, and figures that render.
+
+mod common;
+use common::{dimorph, stderr};
+use std::path::Path;
+
+fn demo() -> String {
+    Path::new(env!("CARGO_MANIFEST_DIR"))
+        .join("examples/mirefold.csv")
+        .display()
+        .to_string()
+}
+
+/// Parse and render an SVG with resvg; fails on an invalid file or a blank picture.
+fn render(svg: &str, png: Option<&Path>) {
+    let mut opt = resvg::usvg::Options::default();
+    opt.fontdb_mut()
+        .load_font_data(dimorph::report::figures::FONT_BYTES.to_vec());
+    opt.fontdb_mut().set_sans_serif_family("DejaVu Sans");
+    let tree = resvg::usvg::Tree::from_str(svg, &opt).expect("a valid SVG");
+    let size = tree.size().to_int_size();
+    let mut pix =
+        resvg::tiny_skia::Pixmap::new(size.width(), size.height()).expect("a non-empty picture");
+    resvg::render(
+        &tree,
+        resvg::tiny_skia::Transform::default(),
+        &mut pix.as_mut(),
+    );
+    let dark = pix
+        .pixels()
+        .iter()
+        .filter(|p| p.red() < 128 && p.alpha() > 0)
+        .count();
+    assert!(
+        dark > 500,
+        "the figure is almost blank ({dark} dark pixels)"
+    );
+    if let Some(p) = png {
+        pix.save_png(p).unwrap();
+    }
+}
+
+#[test]
+fn the_demo_writes_report_tables_methods_and_figures_that_render() {
+    let dir = tempfile::tempdir().unwrap();
+    let out = dir.path().join("r");
+    let o = dimorph(&[
+        "analyse",
+        &demo(),
+        "--out",
+        out.to_str().unwrap(),
+        "--group-by",
+        "phase",
+        "--draws",
+        "300",
+        "--by-sex",
+        "cribra_orbitalia",
+    ]);
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    for f in [
+        "report.md",
+        "tables.tex",
+        "methods.md",
+        "by_sex_age.csv",
+        "by_sex_prevalence.csv",
+        "category_by_age.csv",
+    ] {
+        assert!(out.join(f).exists(), "{f}");
+    }
+    let report = std::fs::read_to_string(out.join("report.md")).unwrap();
+    for needle in [
+        "not identifications",
+        "SHA-256",
+        "Reproduce with",
+        "## Groups",
+        "## Age at death by sex",
+        "## Prevalence by sex",
+        "MH-011",
+    ] {
+        assert!(report.contains(needle), "report lacks {needle}");
+    }
+    let methods = std::fs::read_to_string(out.join("methods.md")).unwrap();
+    assert!(methods.contains("Konigsberg & Hens, 1998") && methods.contains("## References"));
+    let tex = std::fs::read_to_string(out.join("tables.tex")).unwrap();
+    assert_eq!(
+        tex.matches("\\begin{tabular}").count(),
+        tex.matches("\\end{tabular}").count()
+    );
+    let keep = std::env::var_os("DIMORPH_KEEP_FIGURES").map(std::path::PathBuf::from);
+    for f in ["p_female", "pi_posterior", "lr_by_region", "age_at_death"] {
+        let svg = std::fs::read_to_string(out.join(format!("figures/{f}.svg"))).unwrap();
+        assert!(svg.contains("<text"), "{f} has no text");
+        render(
+            &svg,
+            keep.as_ref().map(|d| d.join(format!("{f}.png"))).as_deref(),
+        );
+    }
+}
+
+#[test]
+fn outcome_columns_must_be_zero_or_one_and_never_traits() {
+    let dir = tempfile::tempdir().unwrap();
+    let input = dir.path().join("in.csv");
+    std::fs::write(
+        &input,
+        "id,glabella,lesion,age\nA,2,1,30\nB,5,maybe,40\nC,4,0,35\n",
+    )
+    .unwrap();
+    let out = dir.path().join("r");
+    let o = dimorph(&[
+        "analyse",
+        input.to_str().unwrap(),
+        "--out",
+        out.to_str().unwrap(),
+        "--by-sex",
+        "lesion",
+        "--priors",
+        "flat",
+    ]);
+    assert_eq!(o.status.code(), Some(3));
+    assert!(
+        stderr(&o).contains("row 3, column `lesion`: found `maybe`"),
+        "{}",
+        stderr(&o)
+    );
+    assert!(!out.exists());
+    let o = dimorph(&[
+        "analyse",
+        input.to_str().unwrap(),
+        "--out",
+        out.to_str().unwrap(),
+        "--by-sex",
+        "glabella",
+        "--priors",
+        "flat",
+    ]);
+    assert_eq!(o.status.code(), Some(4));
+}
