@@ -288,3 +288,45 @@ fn without_groups_the_single_posterior_is_used_and_no_group_files_are_written() 
         col(&out2.join("individuals.csv"), 6)
     );
 }
+
+#[test]
+fn recalibration_writes_its_tables() {
+    let dir = tempfile::tempdir().unwrap();
+    let out = dir.path().join("rc");
+    let o = dimorph(&[
+        "analyse",
+        &demo(),
+        "--out",
+        out.to_str().unwrap(),
+        "--priors",
+        "flat",
+        "--recalibrate",
+        "--iterations",
+        "400",
+    ]);
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    assert_eq!(
+        header(&out.join("recalibration.csv")),
+        [
+            "trait",
+            "sex",
+            "reference_mean",
+            "recalibrated_mean",
+            "lo",
+            "hi",
+            "shift_sd",
+            "rhat",
+            "ess"
+        ]
+    );
+    assert_eq!(
+        header(&out.join("recalibration_check.csv")),
+        ["trait", "n", "share_outside_99", "flagged"]
+    );
+    assert_eq!(
+        header(&out.join("recalibrated_individuals.csv"))[5],
+        "category_changed"
+    );
+    let mut r = csv::Reader::from_path(out.join("recalibration.csv")).unwrap();
+    assert_eq!(r.records().count(), 8, "4 measurements × 2 sexes");
+}

@@ -6,6 +6,7 @@ pub mod draws;
 pub mod gibbs;
 pub mod hierarchy;
 pub mod posterior;
+pub mod recalibration;
 
 pub use category::{lr_support, Category, Thresholds};
 pub use posterior::{PiPosterior, PiSummary};

@@ -3,12 +3,14 @@
 
 use super::input::InputArgs;
 use crate::assemblage::draws::Draws;
+use crate::assemblage::recalibration::{recalibrate, RecalibrationSettings};
 use crate::assemblage::{analyse, Thresholds};
 use crate::data::read_assemblage;
 use crate::likelihood::evaluate_assemblage;
 use crate::model::{BlockStatus, Context};
 use crate::output::write_atomic;
 use crate::prior::{parse_prior_set, PriorError};
+use crate::report::analysis::recalibration_files;
 use crate::report::analysis::{render_files, terminal_summary};
 use crate::report::publication::{
     by_sex_tables, figures_svg, methods_md, report_md_and_tex, BySex,
@@ -49,6 +51,16 @@ pub struct Args {
     /// columns are never evidence of sex.
     #[arg(long = "by-sex", value_name = "COLUMN")]
     pub by_sex: Vec<String>,
+    /// Let the assemblage correct the reference means of the measurements (Gibbs sampling;
+    /// writes recalibration.csv, recalibration_check.csv and recalibrated_individuals.csv).
+    #[arg(long)]
+    pub recalibrate: bool,
+    /// Prior SD of a recalibrated mean's shift, in reference within-sex SDs.
+    #[arg(long, value_name = "SD", default_value_t = 1.0)]
+    pub shift: f64,
+    /// Iterations per chain of the recalibration (a quarter is discarded as burn-in).
+    #[arg(long, value_name = "N", default_value_t = 2000)]
+    pub iterations: usize,
     /// Seed of every random stream (same seed, same bytes).
     #[arg(long, default_value_t = 1)]
     pub seed: u64,
@@ -225,6 +237,48 @@ pub fn run(args: Args) -> Result<i32, Error> {
         "methods.md".into(),
         methods_md(&model, &a, &evidence, &analysis, &draws, &by_sex, &run).into_bytes(),
     ));
+    if args.recalibrate {
+        if !(args.shift > 0.0 && args.shift.is_finite()) || args.iterations < 100 {
+            return Err(Error::Settings {
+                file: "--shift/--iterations".into(),
+                message:
+                    "the shift is a positive number of SDs and at least 100 iterations are needed"
+                        .into(),
+            });
+        }
+        let st = RecalibrationSettings {
+            shift: args.shift,
+            iterations: args.iterations,
+            burn_in: args.iterations / 4,
+            seed: args.seed,
+            ..RecalibrationSettings::default()
+        };
+        let r = recalibrate(&model, &a.individuals, &evidence, prior, &st);
+        files.files.extend(recalibration_files(&a, &analysis, &r));
+        if r.means.is_empty() {
+            eprintln!(
+                "note: the model has no block made only of measurements: nothing to recalibrate"
+            );
+        }
+        for w in &r.warnings {
+            eprintln!("warning: recalibration did not converge for {w}");
+        }
+        for c in r.checks.iter().filter(|c| c.flagged) {
+            eprintln!(
+                "warning: {:.1}% of the {} `{}` measurements lie outside the reference model's 99% range: the reference does not fit this assemblage",
+                100.0 * c.share_outside,
+                c.n,
+                c.trait_id
+            );
+        }
+        let changed = (0..a.individuals.len())
+            .filter(|&i| match (analysis.main.p_female[i], r.p_female[i]) {
+                (Some(p), Some(q)) => thresholds.categorise(p) != thresholds.categorise(q),
+                _ => false,
+            })
+            .count();
+        println!("Recalibrated {} means ({} individuals change category; see recalibration.csv and recalibrated_individuals.csv)", r.means.len(), changed);
+    }
     let mut names: Vec<String> = files.files.iter().map(|(n, _)| n.clone()).collect();
     names.push("report.md".into());
     names.push("tables.tex".into());

@@ -520,3 +520,84 @@ pub fn terminal_summary(
     );
     s
 }
+
+/// The recalibration's files: `recalibration.csv` (trait, sex, reference_mean,
+/// recalibrated_mean, lo, hi, shift_sd, rhat, ess), `recalibration_check.csv` (trait, n,
+/// share_outside_99, flagged) and `recalibrated_individuals.csv` (id, p_female_reference,
+/// p_female_recalibrated, category_reference, category_recalibrated, category_changed).
+pub fn recalibration_files(
+    a: &Assemblage,
+    analysis: &Analysis,
+    r: &crate::assemblage::recalibration::Recalibration,
+) -> Vec<(String, Vec<u8>)> {
+    let mut rows = vec![[
+        "trait",
+        "sex",
+        "reference_mean",
+        "recalibrated_mean",
+        "lo",
+        "hi",
+        "shift_sd",
+        "rhat",
+        "ess",
+    ]
+    .iter()
+    .map(|s| s.to_string())
+    .collect::<Vec<_>>()];
+    for m in &r.means {
+        rows.push(vec![
+            m.trait_id.clone(),
+            m.sex.to_string(),
+            f4(m.reference),
+            f4(m.mean),
+            f4(m.lo),
+            f4(m.hi),
+            format!("{:.3}", m.shift_sd),
+            format!("{:.4}", m.rhat),
+            format!("{:.0}", m.ess),
+        ]);
+    }
+    let mut checks = vec![vec![
+        "trait".to_string(),
+        "n".into(),
+        "share_outside_99".into(),
+        "flagged".into(),
+    ]];
+    for c in &r.checks {
+        checks.push(vec![
+            c.trait_id.clone(),
+            c.n.to_string(),
+            f4(c.share_outside),
+            c.flagged.to_string(),
+        ]);
+    }
+    let t = analysis.thresholds;
+    let mut ind = vec![[
+        "id",
+        "p_female_reference",
+        "p_female_recalibrated",
+        "category_reference",
+        "category_recalibrated",
+        "category_changed",
+    ]
+    .iter()
+    .map(|s| s.to_string())
+    .collect::<Vec<_>>()];
+    for (i, x) in a.individuals.iter().enumerate() {
+        let (p, q) = (analysis.main.p_female[i], r.p_female[i]);
+        let cat = |v: Option<f64>| v.map(|v| t.categorise(v)).unwrap_or(Category::NotEstimable);
+        ind.push(vec![
+            x.id.clone(),
+            p.map(prob).unwrap_or_default(),
+            q.map(prob).unwrap_or_default(),
+            cat(p).as_str().into(),
+            cat(q).as_str().into(),
+            (cat(p) != cat(q)).to_string(),
+        ]);
+    }
+    vec![
+        ("recalibration.csv".into(), csv_bytes(rows)),
+        ("recalibration_check.csv".into(), csv_bytes(checks)),
+        ("recalibrated_individuals.csv".into(), csv_bytes(ind)),
+    ]
+}

@@ -1,0 +1,607 @@
+//! Metric recalibration: the assemblage's own measurements correct the reference sample's
+//! per-sex means.
+//!
+//! # Model
+//! For each latent block whose traits are all measurements, the target population's sex
+//! means are μₛ ~ N(μₛ,ref, diag(shift² σₛ²)) — `shift` in units of the reference within-sex
+//! SD (default 1) — with the reference within-sex covariance Σₛ kept. Every other block
+//! (ordinal traits, equations, DNA) keeps its reference likelihood and anchors each
+//! individual's sex, so the labels cannot switch. π ~ the chosen Beta prior (or is fixed).
+//!
+//! # Computation
+//! Gibbs sampling with data augmentation (Tanner & Wong 1987): (1) each individual's sex from
+//! π and its likelihood under the current means; (2) its missing measurements from the
+//! conditional normal given the observed ones and its sex; (3) each sex's mean vector from
+//! its conjugate normal posterior; (4) π from Beta(a + n_F, b + n_M). Several chains from
+//! dispersed starts, each seeded; split-R̂ and effective sample size (Gelman et al. 2013,
+//! *Bayesian Data Analysis*, 3rd ed., §11.4–11.5) for every parameter.
+
+use super::posterior::p_female_given;
+use crate::data::Observation;
+use crate::model::latent::LatentKind;
+use crate::model::{Block, IndividualEvidence, Model};
+use crate::numeric::normal::ln_add_exp;
+use crate::prior::{Prior, PriorShape};
+use nalgebra::{DMatrix, DVector};
+use rand::distr::Distribution;
+use rand::{RngExt, SeedableRng};
+use rand_chacha::ChaCha8Rng;
+use serde::Serialize;
+use statrs::distribution::{Beta, Normal};
+
+/// Settings of the recalibration.
+#[derive(Debug, Clone, Copy, PartialEq, Serialize)]
+pub struct RecalibrationSettings {
+    /// Prior SD of a mean's shift, in reference within-sex SDs (default 1).
+    pub shift: f64,
+    /// Chains (default 4).
+    pub chains: usize,
+    /// Iterations per chain, burn-in included (default 2000).
+    pub iterations: usize,
+    /// Burn-in iterations discarded (default 500).
+    pub burn_in: usize,
+    /// R̂ above which a parameter is flagged (default 1.01).
+    pub max_rhat: f64,
+    /// Effective sample size below which a parameter is flagged (default 400).
+    pub min_ess: f64,
+    /// Seed.
+    pub seed: u64,
+}
+
+impl Default for RecalibrationSettings {
+    fn default() -> Self {
+        RecalibrationSettings {
+            shift: 1.0,
+            chains: 4,
+            iterations: 2000,
+            burn_in: 500,
+            max_rhat: 1.01,
+            min_ess: 400.0,
+            seed: 1,
+        }
+    }
+}
+
+/// One recalibrated mean.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct RecalibratedMean {
+    /// Trait id.
+    pub trait_id: String,
+    /// `F` or `M`.
+    pub sex: &'static str,
+    /// Reference mean.
+    pub reference: f64,
+    /// Posterior mean of the target mean.
+    pub mean: f64,
+    /// 2.5% quantile.
+    pub lo: f64,
+    /// 97.5% quantile.
+    pub hi: f64,
+    /// (mean − reference) / reference within-sex SD.
+    pub shift_sd: f64,
+    /// Split-R̂.
+    pub rhat: f64,
+    /// Effective sample size.
+    pub ess: f64,
+}
+
+/// Posterior predictive check of one measurement against the reference model.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct FitCheck {
+    /// Trait id.
+    pub trait_id: String,
+    /// Measurements.
+    pub n: usize,
+    /// Share outside the reference model's central 99% predictive range.
+    pub share_outside: f64,
+    /// Whether the share is beyond what chance allows (0.01 + 3 binomial SEs).
+    pub flagged: bool,
+}
+
+/// The result of a recalibration.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct Recalibration {
+    /// Recalibrated means, by trait then sex.
+    pub means: Vec<RecalibratedMean>,
+    /// P(F) per individual under the recalibrated model (`None` without evidence).
+    pub p_female: Vec<Option<f64>>,
+    /// Split-R̂ and ESS of π.
+    pub pi_rhat: f64,
+    /// ESS of π.
+    pub pi_ess: f64,
+    /// Posterior mean of π.
+    pub pi_mean: f64,
+    /// Parameters failing the thresholds, in words.
+    pub warnings: Vec<String>,
+    /// Predictive checks per measurement.
+    pub checks: Vec<FitCheck>,
+}
+
+/// A metric-only block prepared for sampling.
+struct MetricBlock {
+    /// Index of the block in the model.
+    block: usize,
+    ids: Vec<String>,
+    mu_ref: [DVector<f64>; 2],
+    cov: [DMatrix<f64>; 2],
+    /// Prior variances of the means (shift² σ²).
+    prior_var: [DVector<f64>; 2],
+    /// Per individual: observed values (None where missing); empty when nothing observed.
+    y: Vec<Vec<Option<f64>>>,
+}
+
+fn ln_mvn(y: &[f64], idx: &[usize], mu: &DVector<f64>, cov: &DMatrix<f64>) -> f64 {
+    let k = idx.len();
+    if k == 0 {
+        return 0.0;
+    }
+    let s = DMatrix::from_fn(k, k, |i, j| cov[(idx[i], idx[j])]);
+    let Some(ch) = s.cholesky() else {
+        return f64::NEG_INFINITY;
+    };
+    let r = DVector::from_iterator(k, idx.iter().zip(y).map(|(&j, v)| v - mu[j]));
+    let q = r.dot(&ch.solve(&r));
+    let ld: f64 = 2.0 * ch.l().diagonal().iter().map(|d| d.ln()).sum::<f64>();
+    -0.5 * (q + ld + k as f64 * (2.0 * std::f64::consts::PI).ln())
+}
+
+/// Split-R̂ of several chains of one scalar.
+pub fn split_rhat(chains: &[Vec<f64>]) -> f64 {
+    let halves: Vec<&[f64]> = chains
+        .iter()
+        .flat_map(|c| {
+            let h = c.len() / 2;
+            [&c[..h], &c[h..2 * h]]
+        })
+        .collect();
+    let m = halves.len() as f64;
+    let n = halves.iter().map(|h| h.len()).min().unwrap_or(0) as f64;
+    if n < 2.0 {
+        return f64::NAN;
+    }
+    let means: Vec<f64> = halves
+        .iter()
+        .map(|h| h.iter().sum::<f64>() / h.len() as f64)
+        .collect();
+    let grand = means.iter().sum::<f64>() / m;
+    let b = n / (m - 1.0) * means.iter().map(|x| (x - grand).powi(2)).sum::<f64>();
+    let w = halves
+        .iter()
+        .zip(&means)
+        .map(|(h, mu)| h.iter().map(|x| (x - mu).powi(2)).sum::<f64>() / (h.len() as f64 - 1.0))
+        .sum::<f64>()
+        / m;
+    if w <= 0.0 {
+        return 1.0;
+    }
+    (((n - 1.0) / n * w + b / n) / w).sqrt()
+}
+
+/// Effective sample size over chains (autocorrelations summed in pairs until a pair turns
+/// negative: Geyer's initial positive sequence).
+pub fn ess(chains: &[Vec<f64>]) -> f64 {
+    let m = chains.len();
+    let n = chains.iter().map(Vec::len).min().unwrap_or(0);
+    if n < 4 {
+        return f64::NAN;
+    }
+    let means: Vec<f64> = chains
+        .iter()
+        .map(|c| c.iter().sum::<f64>() / n as f64)
+        .collect();
+    let vars: Vec<f64> = chains
+        .iter()
+        .zip(&means)
+        .map(|(c, mu)| c.iter().map(|x| (x - mu).powi(2)).sum::<f64>() / n as f64)
+        .collect();
+    let w = vars.iter().sum::<f64>() / m as f64;
+    if w <= 0.0 {
+        return (m * n) as f64;
+    }
+    let rho = |lag: usize| -> f64 {
+        let mut s = 0.0;
+        for (c, mu) in chains.iter().zip(&means) {
+            s += (0..n - lag)
+                .map(|t| (c[t] - mu) * (c[t + lag] - mu))
+                .sum::<f64>()
+                / n as f64;
+        }
+        s / m as f64 / w
+    };
+    let mut sum = 0.0;
+    let mut lag = 1;
+    while lag + 1 < n {
+        let pair = rho(lag) + rho(lag + 1);
+        if pair < 0.0 {
+            break;
+        }
+        sum += pair;
+        lag += 2;
+    }
+    let tau = -1.0 + 2.0 * (1.0 + sum);
+    (m * n) as f64 / tau.max(1e-9)
+}
+
+/// Recalibrate the metric-only blocks of a model on an assemblage.
+///
+/// `evidence` is the reference evaluation (its non-metric blocks anchor the sexes).
+pub fn recalibrate(
+    model: &Model,
+    individuals: &[crate::data::Individual],
+    evidence: &[IndividualEvidence],
+    prior: &Prior,
+    settings: &RecalibrationSettings,
+) -> Recalibration {
+    // Metric-only blocks.
+    let mut blocks: Vec<MetricBlock> = Vec::new();
+    for (k, b) in model.blocks.iter().enumerate() {
+        let Block::Latent(lb) = b else { continue };
+        if !lb.traits.iter().all(|t| t.kind == LatentKind::Metric) {
+            continue;
+        }
+        let cat: Vec<usize> = lb.traits.iter().map(|t| t.catalogue_index).collect();
+        let y = individuals
+            .iter()
+            .map(|ind| {
+                let v: Vec<Option<f64>> = cat
+                    .iter()
+                    .map(|&c| match ind.observations[c] {
+                        Some(Observation::Measurement { value }) => Some(value),
+                        _ => None,
+                    })
+                    .collect();
+                if v.iter().any(Option::is_some) {
+                    v
+                } else {
+                    Vec::new()
+                }
+            })
+            .collect();
+        let p = cat.len();
+        let sd = |s: usize| DVector::from_iterator(p, (0..p).map(|j| lb.cov[s][(j, j)].sqrt()));
+        blocks.push(MetricBlock {
+            block: k,
+            ids: lb.traits.iter().map(|t| t.id.clone()).collect(),
+            mu_ref: [lb.mean[0].clone(), lb.mean[1].clone()],
+            cov: [lb.cov[0].clone(), lb.cov[1].clone()],
+            prior_var: [
+                sd(0).map(|x| (settings.shift * x).powi(2)),
+                sd(1).map(|x| (settings.shift * x).powi(2)),
+            ],
+            y,
+        });
+    }
+    // Fixed part of each individual's ln LR: every block except the recalibrated ones.
+    let fixed: Vec<f64> = evidence
+        .iter()
+        .map(|e| {
+            e.blocks
+                .iter()
+                .enumerate()
+                .filter(|(k, b)| {
+                    b.status == crate::model::BlockStatus::Used
+                        && !blocks.iter().any(|mb| mb.block == *k)
+                })
+                .map(|(_, b)| b.ln_lr)
+                .sum()
+        })
+        .collect();
+    let active: Vec<bool> = evidence.iter().map(|e| e.estimable).collect();
+    let chains: Vec<ChainOut> = {
+        use rayon::prelude::*;
+        (0..settings.chains)
+            .into_par_iter()
+            .map(|c| run_chain(&blocks, &fixed, &active, prior, settings, c))
+            .collect()
+    };
+    // Summaries.
+    let mut means = Vec::new();
+    let mut warnings = Vec::new();
+    let mut p = 0;
+    for mb in &blocks {
+        for s in 0..2 {
+            for (j, id) in mb.ids.iter().enumerate() {
+                let traces: Vec<Vec<f64>> = chains.iter().map(|ch| ch.params[p].clone()).collect();
+                p += 1;
+                let mut all: Vec<f64> = traces.iter().flatten().copied().collect();
+                all.sort_by(f64::total_cmp);
+                let q = |x: f64| {
+                    all[((x * (all.len() - 1) as f64).round() as usize).min(all.len() - 1)]
+                };
+                let mean = all.iter().sum::<f64>() / all.len() as f64;
+                let (rhat, e) = (split_rhat(&traces), ess(&traces));
+                let sex = if s == 0 { "F" } else { "M" };
+                if !(rhat <= settings.max_rhat) || !(e >= settings.min_ess) {
+                    warnings.push(format!("{id} ({sex}): R-hat {rhat:.3}, effective sample size {e:.0} — run longer (more iterations) before relying on it"));
+                }
+                let sd = mb.cov[s][(j, j)].sqrt();
+                means.push(RecalibratedMean {
+                    trait_id: id.clone(),
+                    sex,
+                    reference: mb.mu_ref[s][j],
+                    mean,
+                    lo: q(0.025),
+                    hi: q(0.975),
+                    shift_sd: (mean - mb.mu_ref[s][j]) / sd,
+                    rhat,
+                    ess: e,
+                });
+            }
+        }
+    }
+    let pi_traces: Vec<Vec<f64>> = chains.iter().map(|c| c.pi.clone()).collect();
+    let (pi_rhat, pi_ess) = (split_rhat(&pi_traces), ess(&pi_traces));
+    let fixed_pi = matches!(prior.shape, PriorShape::Fixed { .. });
+    if !fixed_pi && (!(pi_rhat <= settings.max_rhat) || !(pi_ess >= settings.min_ess)) {
+        warnings.push(format!(
+            "proportion female: R-hat {pi_rhat:.3}, effective sample size {pi_ess:.0}"
+        ));
+    }
+    let kept: f64 = chains.iter().map(|c| c.kept as f64).sum();
+    let p_female = (0..individuals.len())
+        .map(|i| active[i].then(|| chains.iter().map(|c| c.pf_sum[i]).sum::<f64>() / kept))
+        .collect();
+    let pi_mean = pi_traces.iter().flatten().sum::<f64>()
+        / pi_traces.iter().map(Vec::len).sum::<usize>().max(1) as f64;
+    // Predictive check against the reference model.
+    let mut checks = Vec::new();
+    for mb in &blocks {
+        for (j, id) in mb.ids.iter().enumerate() {
+            let vals: Vec<f64> =
+                mb.y.iter()
+                    .filter_map(|v| v.get(j).copied().flatten())
+                    .collect();
+            if vals.is_empty() {
+                continue;
+            }
+            let (lo, hi) = mixture_range(pi_mean.clamp(0.01, 0.99), mb, j);
+            let out = vals.iter().filter(|&&v| v < lo || v > hi).count() as f64 / vals.len() as f64;
+            let limit = 0.01 + 3.0 * (0.01 * 0.99 / vals.len() as f64).sqrt();
+            checks.push(FitCheck {
+                trait_id: id.clone(),
+                n: vals.len(),
+                share_outside: out,
+                flagged: out > limit,
+            });
+        }
+    }
+    Recalibration {
+        means,
+        p_female,
+        pi_rhat,
+        pi_ess,
+        pi_mean,
+        warnings,
+        checks,
+    }
+}
+
+/// The central 99% range of the reference predictive mixture π N(μF, σF²) + (1 − π) N(μM, σM²).
+fn mixture_range(pi: f64, mb: &MetricBlock, j: usize) -> (f64, f64) {
+    let n = |s: usize| Normal::new(mb.mu_ref[s][j], mb.cov[s][(j, j)].sqrt()).ok();
+    let (Some(f), Some(m)) = (n(0), n(1)) else {
+        return (f64::NEG_INFINITY, f64::INFINITY);
+    };
+    use statrs::distribution::ContinuousCDF;
+    let cdf = |x: f64| pi * f.cdf(x) + (1.0 - pi) * m.cdf(x);
+    let solve = |target: f64| {
+        let (mut a, mut b) = (
+            f.inverse_cdf(1e-6).min(m.inverse_cdf(1e-6)),
+            f.inverse_cdf(1.0 - 1e-6).max(m.inverse_cdf(1.0 - 1e-6)),
+        );
+        for _ in 0..100 {
+            let c = 0.5 * (a + b);
+            if cdf(c) < target {
+                a = c;
+            } else {
+                b = c;
+            }
+        }
+        0.5 * (a + b)
+    };
+    (solve(0.005), solve(0.995))
+}
+
+struct ChainOut {
+    /// Traces of every mean parameter (block, sex, trait order).
+    params: Vec<Vec<f64>>,
+    pi: Vec<f64>,
+    /// Σ over kept iterations of P(F | current parameters) per individual (Rao–Blackwell).
+    pf_sum: Vec<f64>,
+    kept: usize,
+}
+
+fn run_chain(
+    blocks: &[MetricBlock],
+    fixed: &[f64],
+    active: &[bool],
+    prior: &Prior,
+    st: &RecalibrationSettings,
+    chain: usize,
+) -> ChainOut {
+    let mut rng = ChaCha8Rng::seed_from_u64(
+        st.seed
+            .wrapping_mul(0x9e37_79b9)
+            .wrapping_add(chain as u64 * 7919 + 1),
+    );
+    let std = Normal::standard();
+    let n = fixed.len();
+    // Dispersed starts: each mean displaced by up to ±2 prior SDs.
+    let mut mu: Vec<[DVector<f64>; 2]> = blocks
+        .iter()
+        .map(|mb| {
+            let mut m = [mb.mu_ref[0].clone(), mb.mu_ref[1].clone()];
+            for (s, ms) in m.iter_mut().enumerate() {
+                for j in 0..ms.len() {
+                    ms[j] += (rng.random::<f64>() * 4.0 - 2.0) * mb.prior_var[s][j].sqrt();
+                }
+            }
+            m
+        })
+        .collect();
+    let (mut pi, fixed_pi, (a, b)) = match prior.shape {
+        PriorShape::Fixed { pi } => (pi, true, (1.0, 1.0)),
+        PriorShape::Beta { a, b } => (0.2 + 0.6 * rng.random::<f64>(), false, (a, b)),
+    };
+    let n_params: usize = blocks.iter().map(|b| 2 * b.ids.len()).sum();
+    let mut out = ChainOut {
+        params: vec![Vec::new(); n_params],
+        pi: Vec::new(),
+        pf_sum: vec![0.0; n],
+        kept: 0,
+    };
+    let mut sex = vec![false; n];
+    for it in 0..st.iterations {
+        // 1. Sexes given means and π (observed measurements only: missing ones integrate out).
+        for i in 0..n {
+            if !active[i] {
+                continue;
+            }
+            let mut l = fixed[i];
+            for (mb, m) in blocks.iter().zip(&mu) {
+                let yi = &mb.y[i];
+                if yi.is_empty() {
+                    continue;
+                }
+                let idx: Vec<usize> = (0..yi.len()).filter(|&j| yi[j].is_some()).collect();
+                let vals: Vec<f64> = idx.iter().filter_map(|&j| yi[j]).collect();
+                l +=
+                    ln_mvn(&vals, &idx, &m[0], &mb.cov[0]) - ln_mvn(&vals, &idx, &m[1], &mb.cov[1]);
+            }
+            let pf = p_female_given(pi.clamp(1e-12, 1.0 - 1e-12), l);
+            sex[i] = rng.random::<f64>() < pf;
+            if it >= st.burn_in {
+                out.pf_sum[i] += pf;
+            }
+        }
+        // 2–3. Missing measurements by data augmentation, then each sex's means.
+        for (mb, m) in blocks.iter().zip(mu.iter_mut()) {
+            let p = mb.ids.len();
+            #[allow(clippy::needless_range_loop)] // s indexes the reference arrays of the block too
+            for s in 0..2 {
+                let cov = &mb.cov[s];
+                let Some(prec) = cov.clone().try_inverse() else {
+                    continue;
+                };
+                let mut sum = DVector::zeros(p);
+                let mut count = 0.0;
+                for i in 0..n {
+                    let yi = &mb.y[i];
+                    if yi.is_empty() || !active[i] || sex[i] != (s == 0) {
+                        continue;
+                    }
+                    let full = augment(yi, &m[s], cov, &std, &mut rng);
+                    sum += full;
+                    count += 1.0;
+                }
+                let prior_prec = DMatrix::from_diagonal(&mb.prior_var[s].map(|v| 1.0 / v));
+                let post_prec = &prior_prec + &prec * count;
+                let Some(post_cov) = post_prec.clone().try_inverse() else {
+                    continue;
+                };
+                let post_mean = &post_cov * (&prior_prec * &mb.mu_ref[s] + &prec * &sum);
+                let Some(ch) = post_cov.cholesky() else {
+                    continue;
+                };
+                let z = DVector::from_fn(p, |_, _| std.sample(&mut rng));
+                m[s] = post_mean + ch.l() * z;
+            }
+        }
+        // 4. π.
+        if !fixed_pi {
+            let nf = (0..n).filter(|&i| active[i] && sex[i]).count() as f64;
+            let nm = (0..n).filter(|&i| active[i] && !sex[i]).count() as f64;
+            if let Ok(d) = Beta::new(a + nf, b + nm) {
+                pi = d.sample(&mut rng);
+            }
+        }
+        if it >= st.burn_in {
+            let mut k = 0;
+            for m in &mu {
+                for ms in m.iter() {
+                    for j in 0..ms.len() {
+                        out.params[k].push(ms[j]);
+                        k += 1;
+                    }
+                }
+            }
+            out.pi.push(pi);
+            out.kept += 1;
+        }
+    }
+    out
+}
+
+/// Fill an individual's missing measurements from the conditional normal given the observed.
+fn augment(
+    y: &[Option<f64>],
+    mu: &DVector<f64>,
+    cov: &DMatrix<f64>,
+    std: &Normal,
+    rng: &mut ChaCha8Rng,
+) -> DVector<f64> {
+    let p = y.len();
+    let obs: Vec<usize> = (0..p).filter(|&j| y[j].is_some()).collect();
+    let mis: Vec<usize> = (0..p).filter(|&j| y[j].is_none()).collect();
+    let mut full = DVector::from_iterator(p, (0..p).map(|j| y[j].unwrap_or(mu[j])));
+    if mis.is_empty() {
+        return full;
+    }
+    let sub =
+        |r: &[usize], c: &[usize]| DMatrix::from_fn(r.len(), c.len(), |i, j| cov[(r[i], c[j])]);
+    let (s_oo, s_mo, s_mm) = (sub(&obs, &obs), sub(&mis, &obs), sub(&mis, &mis));
+    let (cm, cc) = match s_oo.clone().try_inverse() {
+        Some(inv) if !obs.is_empty() => {
+            let r = DVector::from_iterator(obs.len(), obs.iter().map(|&j| full[j] - mu[j]));
+            let cm =
+                DVector::from_iterator(mis.len(), mis.iter().map(|&j| mu[j])) + &s_mo * &inv * r;
+            (cm, &s_mm - &s_mo * inv * s_mo.transpose())
+        }
+        _ => (
+            DVector::from_iterator(mis.len(), mis.iter().map(|&j| mu[j])),
+            s_mm,
+        ),
+    };
+    let cc = (&cc + cc.transpose()) * 0.5;
+    let draw = match cc.cholesky() {
+        Some(ch) => cm + ch.l() * DVector::from_fn(mis.len(), |_, _| std.sample(rng)),
+        None => cm,
+    };
+    for (k, &j) in mis.iter().enumerate() {
+        full[j] = draw[k];
+    }
+    full
+}
+
+/// ln of the sum of exps (for tests).
+pub fn ln_sum(v: &[f64]) -> f64 {
+    v.iter().copied().fold(f64::NEG_INFINITY, ln_add_exp)
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn rhat_and_ess_on_known_chains() {
+        // Independent draws: R-hat ≈ 1 and ESS ≈ the number of draws.
+        let mut rng = ChaCha8Rng::seed_from_u64(1);
+        let std = Normal::standard();
+        let chains: Vec<Vec<f64>> = (0..4)
+            .map(|_| (0..1000).map(|_| std.sample(&mut rng)).collect())
+            .collect();
+        let r = split_rhat(&chains);
+        assert!((r - 1.0).abs() < 0.01, "{r}");
+        let e = ess(&chains);
+        assert!(e > 3000.0 && e < 5000.0, "{e}");
+        // Chains stuck at different values: R-hat far above 1.
+        let stuck: Vec<Vec<f64>> = (0..4)
+            .map(|c| {
+                (0..1000)
+                    .map(|t| c as f64 + 0.01 * (t % 7) as f64)
+                    .collect()
+            })
+            .collect();
+        assert!(split_rhat(&stuck) > 2.0);
+    }
+}
