@@ -330,3 +330,44 @@ fn recalibration_writes_its_tables() {
     let mut r = csv::Reader::from_path(out.join("recalibration.csv")).unwrap();
     assert_eq!(r.records().count(), 8, "4 measurements × 2 sexes");
 }
+
+#[test]
+fn the_same_bytes_with_one_thread_or_several() {
+    let dir = tempfile::tempdir().unwrap();
+    let mut outputs = Vec::new();
+    for threads in ["1", "2"] {
+        let out = dir.path().join(format!("t{threads}"));
+        let o = std::process::Command::new(env!("CARGO_BIN_EXE_dimorph"))
+            .args([
+                "analyse",
+                &demo(),
+                "--out",
+                out.to_str().unwrap(),
+                "--group-by",
+                "phase",
+                "--draws",
+                "100",
+                "--priors",
+                "shipped",
+            ])
+            .env("RAYON_NUM_THREADS", threads)
+            .output()
+            .unwrap();
+        assert_eq!(
+            o.status.code(),
+            Some(0),
+            "{}",
+            String::from_utf8_lossy(&o.stderr)
+        );
+        outputs.push(
+            [
+                "individuals.csv",
+                "assemblage.csv",
+                "groups.csv",
+                "draws.csv",
+            ]
+            .map(|f| std::fs::read(out.join(f)).unwrap()),
+        );
+    }
+    assert_eq!(outputs[0], outputs[1]);
+}
