@@ -18,7 +18,7 @@
 //! p(μ, κ | D) ∝ p(μ) p(κ) ∏g mg(μ, κ); group and individual posteriors are mixtures over the
 //! hyper-grid.
 
-use super::posterior::{ln_mixture, p_female_given, PiSummary};
+use super::posterior::{ln_mixture, locate_region, p_female_given, PiSummary};
 use crate::numeric::normal::ln_add_exp;
 use crate::prior::{Prior, PriorShape};
 use serde::Serialize;
@@ -84,21 +84,7 @@ impl GroupGrid {
             let (lp, lq) = (pi.ln(), (1.0 - pi).ln());
             l.iter().map(|&x| ln_mixture(lp, lq, x)).sum::<f64>()
         };
-        let w0 = 1.0 / COARSE_CELLS as f64;
-        let coarse: Vec<f64> = (0..COARSE_CELLS)
-            .map(|i| ell(pi_of((i as f64 + 0.5) * w0)))
-            .collect();
-        let max = coarse.iter().copied().fold(f64::NEG_INFINITY, f64::max);
-        let first = coarse
-            .iter()
-            .position(|&v| v > max - LN_CUTOFF)
-            .unwrap_or(0);
-        let last = coarse
-            .iter()
-            .rposition(|&v| v > max - LN_CUTOFF)
-            .unwrap_or(COARSE_CELLS - 1);
-        let lo = first.saturating_sub(1) as f64 * w0;
-        let hi = (last + 2).min(COARSE_CELLS) as f64 * w0;
+        let (lo, hi) = locate_region(|t| ell(pi_of(t)), COARSE_CELLS, LN_CUTOFF);
         let h = (hi - lo) / GROUP_CELLS as f64;
         let edges: Vec<f64> = (0..=GROUP_CELLS)
             .map(|i| pi_of(lo + i as f64 * h))

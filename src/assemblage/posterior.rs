@@ -65,6 +65,23 @@ pub struct PiSummary {
     pub p_below_half: f64,
 }
 
+/// The interval of t ∈ (0, 1) where `ln_f` lies within `cutoff` of its maximum, found on
+/// `cells` midpoints and widened by one cell each side.
+pub fn locate_region(ln_f: impl Fn(f64) -> f64, cells: usize, cutoff: f64) -> (f64, f64) {
+    let w0 = 1.0 / cells as f64;
+    let coarse: Vec<f64> = (0..cells).map(|i| ln_f((i as f64 + 0.5) * w0)).collect();
+    let max = coarse.iter().copied().fold(f64::NEG_INFINITY, f64::max);
+    let first = coarse.iter().position(|&v| v > max - cutoff).unwrap_or(0);
+    let last = coarse
+        .iter()
+        .rposition(|&v| v > max - cutoff)
+        .unwrap_or(cells - 1);
+    (
+        first.saturating_sub(1) as f64 * w0,
+        (last + 2).min(cells) as f64 * w0,
+    )
+}
+
 /// ln(π e^l + 1 − π) for one individual, stable for any l.
 #[inline]
 pub fn ln_mixture(ln_pi: f64, ln_1m_pi: f64, l: f64) -> f64 {
@@ -118,22 +135,7 @@ impl PiPosterior {
                     .sum::<f64>()
         };
         let ln_weight = |t: f64| ln_density(pi_of(t)) + ln_jacobian(t);
-        // Coarse pass in t.
-        let w0 = 1.0 / COARSE_CELLS as f64;
-        let coarse: Vec<f64> = (0..COARSE_CELLS)
-            .map(|i| ln_weight((i as f64 + 0.5) * w0))
-            .collect();
-        let max = coarse.iter().copied().fold(f64::NEG_INFINITY, f64::max);
-        let first = coarse
-            .iter()
-            .position(|&v| v > max - LN_CUTOFF)
-            .unwrap_or(0);
-        let last = coarse
-            .iter()
-            .rposition(|&v| v > max - LN_CUTOFF)
-            .unwrap_or(COARSE_CELLS - 1);
-        let lo = first.saturating_sub(1) as f64 * w0;
-        let hi = ((last + 2).min(COARSE_CELLS)) as f64 * w0;
+        let (lo, hi) = locate_region(ln_weight, COARSE_CELLS, LN_CUTOFF);
         // Fine pass.
         let width = (hi - lo) / FINE_CELLS as f64;
         let ts: Vec<f64> = (0..FINE_CELLS)

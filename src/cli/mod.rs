@@ -63,3 +63,11 @@ pub fn command_line() -> Vec<String> {
         .chain(std::env::args().skip(1))
         .collect()
 }
+
+/// A settings error from a command-line option.
+pub(crate) fn settings_error(option: &str, message: String) -> crate::Error {
+    crate::Error::Settings {
+        file: option.into(),
+        message,
+    }
+}

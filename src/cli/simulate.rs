@@ -38,12 +38,7 @@ pub struct Args {
     pub out: PathBuf,
 }
 
-fn settings_error(file: &str, message: String) -> Error {
-    Error::Settings {
-        file: file.into(),
-        message,
-    }
-}
+use super::settings_error;
 
 /// Run the command.
 ///

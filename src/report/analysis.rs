@@ -83,16 +83,7 @@ fn f4(x: f64) -> String {
     format!("{x:.4}")
 }
 
-fn csv_bytes(rows: Vec<Vec<String>>) -> Vec<u8> {
-    let mut w = csv::WriterBuilder::new()
-        .terminator(csv::Terminator::Any(b'\n'))
-        .from_writer(Vec::new());
-    for r in rows {
-        // Writing to memory cannot fail for valid UTF-8 records.
-        let _ = w.write_record(&r);
-    }
-    w.into_inner().unwrap_or_default()
-}
+use super::csv_bytes;
 
 /// Render the four files.
 ///

@@ -5,3 +5,14 @@ pub mod figures;
 pub mod publication;
 
 pub use analysis::{AnalysisFiles, RunInfo};
+
+/// Rows as CSV text with `\n` line ends (writing to memory cannot fail for text records).
+pub(crate) fn csv_bytes(rows: Vec<Vec<String>>) -> Vec<u8> {
+    let mut w = csv::WriterBuilder::new()
+        .terminator(csv::Terminator::Any(b'\n'))
+        .from_writer(Vec::new());
+    for r in rows {
+        let _ = w.write_record(&r);
+    }
+    w.into_inner().unwrap_or_default()
+}

@@ -40,15 +40,7 @@ fn f1(x: f64) -> String {
     }
 }
 
-fn csv_bytes(rows: Vec<Vec<String>>) -> Vec<u8> {
-    let mut w = csv::WriterBuilder::new()
-        .terminator(csv::Terminator::Any(b'\n'))
-        .from_writer(Vec::new());
-    for r in rows {
-        let _ = w.write_record(&r);
-    }
-    w.into_inner().unwrap_or_default()
-}
+use super::csv_bytes;
 
 fn tex(s: &str) -> String {
     s.replace('\\', "\\textbackslash{}")

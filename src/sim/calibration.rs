@@ -1,10 +1,8 @@
 //! Calibration of P(female) by simulation with known truth: the reliability table, the
 //! expected calibration error, and accuracy per region and per sex (so sex bias shows).
 
-use super::assemblage::simulate;
-use super::spec::{GroupSpec, MissingSpec};
+use super::spec::MissingSpec;
 use super::SimError;
-use crate::assemblage::PiPosterior;
 use crate::data::Sex;
 use crate::model::{BlockStatus, Context, EvidenceCache, Model};
 use crate::prior::Prior;
@@ -91,24 +89,19 @@ pub fn calibrate(
                         .unwrap_or_else(|_| rng.random())
                 }
             };
-            let sim = simulate(
+            let (sim, ev, post) = super::simulate_and_evaluate(
                 model,
-                &[GroupSpec {
+                super::GroupSpec {
                     name: String::new(),
                     n,
                     pi,
-                }],
+                },
                 missing,
                 s,
+                &Context::new(seed),
+                &cache,
+                prior,
             )?;
-            let ctx = Context::new(seed);
-            let ev: Vec<_> = sim
-                .individuals
-                .iter()
-                .map(|i| model.evaluate_cached(i, &ctx, &cache))
-                .collect();
-            let l: Vec<f64> = ev.iter().filter(|e| e.estimable).map(|e| e.ln_lr).collect();
-            let post = PiPosterior::compute(&l, prior);
             let mut pairs = Vec::new();
             let mut acc = vec![[0usize; 4]; model.blocks.len()];
             for (e, sex) in ev.iter().zip(&sim.true_sex) {

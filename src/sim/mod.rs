@@ -95,3 +95,32 @@ pub fn draw_sex(pi: f64, rng: &mut ChaCha8Rng) -> Sex {
         Sex::Male
     }
 }
+
+/// Simulate one population (`group`: its size and proportion female), evaluate every individual
+/// (through a shared cache) and compute the posterior of π under `prior`.
+pub(crate) fn simulate_and_evaluate(
+    model: &crate::model::Model,
+    group: GroupSpec,
+    missing: &MissingSpec,
+    seed: u64,
+    ctx: &crate::model::Context,
+    cache: &crate::model::EvidenceCache,
+    prior: &crate::prior::Prior,
+) -> Result<
+    (
+        Simulated,
+        Vec<crate::model::IndividualEvidence>,
+        crate::assemblage::PiPosterior,
+    ),
+    SimError,
+> {
+    let sim = simulate(model, &[group], missing, seed)?;
+    let ev: Vec<_> = sim
+        .individuals
+        .iter()
+        .map(|i| model.evaluate_cached(i, ctx, cache))
+        .collect();
+    let l: Vec<f64> = ev.iter().filter(|e| e.estimable).map(|e| e.ln_lr).collect();
+    let post = crate::assemblage::PiPosterior::compute(&l, prior);
+    Ok((sim, ev, post))
+}

@@ -1,10 +1,9 @@
 //! Planning an analysis: many simulated excavations of a given size, preservation and sex
 //! ratio, and what the analysis would be able to say.
 
-use super::assemblage::simulate;
-use super::spec::{GroupSpec, MissingSpec};
+use super::spec::MissingSpec;
 use super::SimError;
-use crate::assemblage::{Category, PiPosterior, Thresholds};
+use crate::assemblage::{Category, Thresholds};
 use crate::data::Sex;
 use crate::model::{Context, EvidenceCache, Model};
 use crate::prior::Prior;
@@ -79,24 +78,19 @@ pub fn plan(model: &Model, settings: &PlanSettings) -> Result<Vec<PlanRow>, SimE
                     .wrapping_mul(1_000_003)
                     .wrapping_add((n as u64) << 20)
                     .wrapping_add(r as u64);
-                let sim = simulate(
+                let (sim, ev, post) = super::simulate_and_evaluate(
                     model,
-                    &[GroupSpec {
+                    super::GroupSpec {
                         name: String::new(),
                         n,
                         pi,
-                    }],
+                    },
                     missing,
                     s,
+                    &Context::new(seed),
+                    &cache,
+                    prior,
                 )?;
-                let ctx = Context::new(seed);
-                let ev: Vec<_> = sim
-                    .individuals
-                    .iter()
-                    .map(|i| model.evaluate_cached(i, &ctx, &cache))
-                    .collect();
-                let l: Vec<f64> = ev.iter().filter(|e| e.estimable).map(|e| e.ln_lr).collect();
-                let post = PiPosterior::compute(&l, prior);
                 let summ = post.summary();
                 let mut counts = [0usize; 6];
                 let (mut firm, mut wrong) = (0, 0);
