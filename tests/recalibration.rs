@@ -46,7 +46,14 @@ fn gibbs_agrees_with_exact_enumeration_for_two_individuals() {
         burn_in: 1_000,
         ..RecalibrationSettings::default()
     };
-    let r = recalibrate(&model, &inds, &ev, &Prior::fixed(0.5).unwrap(), &settings);
+    let r = recalibrate(
+        &model,
+        &inds,
+        &ev,
+        &Prior::fixed(0.5).unwrap(),
+        &settings,
+        None,
+    );
     // Exact.
     let group_density = |members: &[f64], mu: f64, sd: f64| -> f64 {
         let k = members.len();
@@ -147,6 +154,7 @@ fn one_cemetery(
         &ev,
         &flat,
         &RecalibrationSettings { seed, ..*settings },
+        None,
     );
     // Coverage of the true postcranial means.
     let Block::Latent(tb) = truth

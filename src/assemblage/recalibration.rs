@@ -231,6 +231,7 @@ pub fn recalibrate(
     evidence: &[IndividualEvidence],
     prior: &Prior,
     settings: &RecalibrationSettings,
+    progress: Option<&indicatif::ProgressBar>,
 ) -> Recalibration {
     // Metric-only blocks.
     let mut blocks: Vec<MetricBlock> = Vec::new();
@@ -291,7 +292,7 @@ pub fn recalibrate(
         use rayon::prelude::*;
         (0..settings.chains)
             .into_par_iter()
-            .map(|c| run_chain(&blocks, &fixed, &active, prior, settings, c))
+            .map(|c| run_chain(&blocks, &fixed, &active, prior, settings, c, progress))
             .collect()
     };
     // Summaries.
@@ -418,6 +419,7 @@ fn run_chain(
     prior: &Prior,
     st: &RecalibrationSettings,
     chain: usize,
+    progress: Option<&indicatif::ProgressBar>,
 ) -> ChainOut {
     let mut rng = ChaCha8Rng::seed_from_u64(
         st.seed
@@ -452,6 +454,11 @@ fn run_chain(
     };
     let mut sex = vec![false; n];
     for it in 0..st.iterations {
+        if let Some(p) = progress {
+            if it % 50 == 49 {
+                p.inc(50);
+            }
+        }
         // 1. Sexes given means and π (observed measurements only: missing ones integrate out).
         for i in 0..n {
             if !active[i] {

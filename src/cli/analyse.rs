@@ -253,7 +253,16 @@ pub fn run(args: Args) -> Result<i32, Error> {
             seed: args.seed,
             ..RecalibrationSettings::default()
         };
-        let r = recalibrate(&model, &a.individuals, &evidence, prior, &st);
+        // A progress bar on the terminal (drawn only when standard error is a terminal).
+        let bar = indicatif::ProgressBar::new((st.chains * st.iterations) as u64);
+        bar.set_style(
+            indicatif::ProgressStyle::with_template(
+                "recalibrating measurements [{bar:40}] {pos}/{len} iterations ({eta} left)",
+            )
+            .unwrap_or_else(|_| indicatif::ProgressStyle::default_bar()),
+        );
+        let r = recalibrate(&model, &a.individuals, &evidence, prior, &st, Some(&bar));
+        bar.finish_and_clear();
         files.files.extend(recalibration_files(&a, &analysis, &r));
         if r.means.is_empty() {
             eprintln!(
