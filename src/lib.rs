@@ -31,6 +31,7 @@
 // `!(x > 0.0)` is used on purpose: it rejects NaN as well as non-positive values.
 #![allow(clippy::neg_cmp_op_on_partial_ord)]
 
+pub mod agreement;
 pub mod assemblage;
 pub mod catalogue;
 pub mod cli;

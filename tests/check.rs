@@ -236,3 +236,24 @@ fn workbooks_read_the_first_or_the_named_sheet() {
     let out = dimorph(&["check", p, "--sheet", "nosuch"]);
     assert!(stderr(&out).contains("notes, scores"), "{}", stderr(&out));
 }
+
+#[test]
+fn two_observers_are_compared() {
+    let root = std::path::Path::new(env!("CARGO_MANIFEST_DIR"));
+    let dir = tempfile::tempdir().unwrap();
+    let out = dimorph(&[
+        "agreement",
+        root.join("examples/mirefold.csv").to_str().unwrap(),
+        root.join("examples/mirefold-second-observer.csv")
+            .to_str()
+            .unwrap(),
+        "--out",
+        dir.path().to_str().unwrap(),
+    ]);
+    assert_eq!(out.status.code(), Some(0), "{}", stderr(&out));
+    let text = stdout(&out);
+    assert!(text.contains("Individuals in both tables: 40"), "{text}");
+    assert!(text.contains("glabella") && text.contains("femur_head_diameter"));
+    let head = std::fs::read_to_string(dir.path().join("disagreements.csv")).unwrap();
+    assert!(head.starts_with("id,trait,first,second\n"));
+}

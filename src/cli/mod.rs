@@ -1,6 +1,7 @@
 //! The command line: argument parsing and the glue that calls the library. One file per
 //! subcommand, each with its `Args` and a `run`.
 
+pub mod agreement;
 pub mod analyse;
 pub mod check;
 pub mod evidence;
@@ -36,6 +37,8 @@ pub enum Command {
     Simulate(simulate::Args),
     /// Before excavating: how wide will the interval of the sex ratio be, over a range of sizes?
     Plan(plan::Args),
+    /// How well two observers' scorings of the same individuals agree.
+    Agreement(agreement::Args),
 }
 
 /// Run a parsed command line; returns the process exit code.
@@ -46,6 +49,7 @@ pub fn run(cli: Cli) -> i32 {
         Command::Evidence(args) => evidence::run(args),
         Command::Simulate(args) => simulate::run(args),
         Command::Plan(args) => plan::run(args),
+        Command::Agreement(args) => agreement::run(args),
     };
     match result {
         Ok(code) => code,

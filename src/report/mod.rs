@@ -7,7 +7,7 @@ pub mod publication;
 pub use analysis::{AnalysisFiles, RunInfo};
 
 /// Rows as CSV text with `\n` line ends (writing to memory cannot fail for text records).
-pub(crate) fn csv_bytes(rows: Vec<Vec<String>>) -> Vec<u8> {
+pub fn csv_bytes(rows: Vec<Vec<String>>) -> Vec<u8> {
     let mut w = csv::WriterBuilder::new()
         .terminator(csv::Terminator::Any(b'\n'))
         .from_writer(Vec::new());

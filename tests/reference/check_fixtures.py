@@ -19,6 +19,7 @@ SCRIPTS = {
     "mvn_boxes.py": ("mvn_boxes.csv", "ln_p", "abs", 1e-6),
     "pi_posterior.py": ("pi_posterior.csv", "expected", "abs", 1e-9),
     "by_sex.py": ("by_sex_expected.csv", "expected", "abs", 1e-12),
+    "agreement.py": ("agreement_expected.csv", "expected", "abs", 1e-12),
 }
 
 

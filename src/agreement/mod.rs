@@ -1,0 +1,316 @@
+//! Observer agreement: two observers' scorings of the same individuals.
+//!
+//! Ordinal traits: weighted kappa with linear and quadratic disagreement weights (Cohen 1968,
+//! Psychological Bulletin 70:213–220), κw = 1 − Σ wᵢⱼ Oᵢⱼ / Σ wᵢⱼ Eᵢⱼ with O the observed and E
+//! the chance-expected (product of marginals) proportions, wᵢⱼ = |i − j|/(K − 1) or its square.
+//! Measurements: the technical error of measurement TEM = √(Σ d² / 2n) and its relative form
+//! (TEM / mean, %), and the intra-class correlation ICC(2,1) for absolute agreement (Shrout &
+//! Fleiss 1979, Psychological Bulletin 86:420–428). 95% intervals by a seeded percentile
+//! bootstrap over individuals.
+
+use crate::catalogue::TraitKind;
+use crate::data::{Assemblage, Observation};
+use rand::{RngExt, SeedableRng};
+use rand_chacha::ChaCha8Rng;
+use serde::Serialize;
+
+/// Weighted kappa of paired grades on the scale `lowest..=highest`.
+pub fn weighted_kappa(pairs: &[(i32, i32)], lowest: i32, highest: i32, quadratic: bool) -> f64 {
+    let k = (highest - lowest + 1) as usize;
+    let n = pairs.len() as f64;
+    if n == 0.0 || k < 2 {
+        return f64::NAN;
+    }
+    let mut o = vec![vec![0.0; k]; k];
+    for &(a, b) in pairs {
+        o[(a - lowest) as usize][(b - lowest) as usize] += 1.0 / n;
+    }
+    let row: Vec<f64> = (0..k).map(|i| o[i].iter().sum()).collect();
+    let col: Vec<f64> = (0..k).map(|j| (0..k).map(|i| o[i][j]).sum()).collect();
+    let w = |i: usize, j: usize| {
+        let d = (i as f64 - j as f64).abs() / (k as f64 - 1.0);
+        if quadratic {
+            d * d
+        } else {
+            d
+        }
+    };
+    let (mut num, mut den) = (0.0, 0.0);
+    for i in 0..k {
+        for j in 0..k {
+            num += w(i, j) * o[i][j];
+            den += w(i, j) * row[i] * col[j];
+        }
+    }
+    if den == 0.0 {
+        return if num == 0.0 { 1.0 } else { f64::NAN };
+    }
+    1.0 - num / den
+}
+
+/// Technical error of measurement √(Σ d² / 2n).
+pub fn tem(pairs: &[(f64, f64)]) -> f64 {
+    let n = pairs.len() as f64;
+    (pairs.iter().map(|(a, b)| (a - b).powi(2)).sum::<f64>() / (2.0 * n)).sqrt()
+}
+
+/// ICC(2,1), absolute agreement, two raters (Shrout & Fleiss 1979):
+/// (MSR − MSE) / (MSR + MSE + 2(MSC − MSE)/n).
+pub fn icc_2_1(pairs: &[(f64, f64)]) -> f64 {
+    let n = pairs.len() as f64;
+    if n < 2.0 {
+        return f64::NAN;
+    }
+    let grand = pairs.iter().map(|(a, b)| a + b).sum::<f64>() / (2.0 * n);
+    let rows: Vec<f64> = pairs.iter().map(|(a, b)| (a + b) / 2.0).collect();
+    let ca = pairs.iter().map(|p| p.0).sum::<f64>() / n;
+    let cb = pairs.iter().map(|p| p.1).sum::<f64>() / n;
+    let ssr = 2.0 * rows.iter().map(|r| (r - grand).powi(2)).sum::<f64>();
+    let ssc = n * ((ca - grand).powi(2) + (cb - grand).powi(2));
+    let sst: f64 = pairs
+        .iter()
+        .map(|(a, b)| (a - grand).powi(2) + (b - grand).powi(2))
+        .sum();
+    let sse = sst - ssr - ssc;
+    let (msr, msc, mse) = (ssr / (n - 1.0), ssc, sse / (n - 1.0));
+    (msr - mse) / (msr + mse + 2.0 * (msc - mse) / n)
+}
+
+/// Agreement on one trait.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct TraitAgreement {
+    /// Trait id.
+    pub trait_id: String,
+    /// Pairs with both observers recording an exact value.
+    pub n: usize,
+    /// Pairs left out because one observer gave a grade range.
+    pub ranges_left_out: usize,
+    /// Ordinal: linear-weighted kappa and 95% interval; metric: TEM (and interval).
+    pub first: (f64, f64, f64),
+    /// Ordinal: quadratic-weighted kappa; metric: ICC(2,1).
+    pub second: (f64, f64, f64),
+    /// Metric: relative TEM in % of the mean; ordinal: share of exact agreement.
+    pub third: f64,
+    /// `ordinal` or `metric`.
+    pub kind: &'static str,
+}
+
+/// One disagreement between the observers.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct Disagreement {
+    /// Individual.
+    pub id: String,
+    /// Trait.
+    pub trait_id: String,
+    /// Observer A's value.
+    pub a: String,
+    /// Observer B's value.
+    pub b: String,
+}
+
+/// The comparison of two scorings.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct Agreement {
+    /// Individuals in both files.
+    pub n_common: usize,
+    /// Ids only in A.
+    pub only_a: Vec<String>,
+    /// Ids only in B.
+    pub only_b: Vec<String>,
+    /// Per trait scored by both.
+    pub traits: Vec<TraitAgreement>,
+    /// Every disagreement (grades differing, or measurements differing by more than 2 TEM).
+    pub disagreements: Vec<Disagreement>,
+}
+
+fn bootstrap<T: Copy>(
+    pairs: &[T],
+    stat: impl Fn(&[T]) -> f64,
+    reps: usize,
+    seed: u64,
+) -> (f64, f64) {
+    let mut rng = ChaCha8Rng::seed_from_u64(seed);
+    let n = pairs.len();
+    let mut v: Vec<f64> = (0..reps)
+        .map(|_| {
+            let s: Vec<T> = (0..n)
+                .map(|_| pairs[(rng.random::<f64>() * n as f64) as usize % n])
+                .collect();
+            stat(&s)
+        })
+        .filter(|x| x.is_finite())
+        .collect();
+    if v.is_empty() {
+        return (f64::NAN, f64::NAN);
+    }
+    v.sort_by(f64::total_cmp);
+    let q = |p: f64| v[((p * (v.len() - 1) as f64).round() as usize).min(v.len() - 1)];
+    (q(0.025), q(0.975))
+}
+
+/// Compare two observers' scorings (read with the same catalogue).
+pub fn compare(a: &Assemblage, b: &Assemblage, seed: u64) -> Agreement {
+    let cat = &a.catalogue;
+    let find = |x: &Assemblage, id: &str| x.individuals.iter().position(|i| i.id == id);
+    let common: Vec<(usize, usize)> = a
+        .individuals
+        .iter()
+        .enumerate()
+        .filter_map(|(i, ind)| find(b, &ind.id).map(|j| (i, j)))
+        .collect();
+    let only_a = a
+        .individuals
+        .iter()
+        .filter(|i| find(b, &i.id).is_none())
+        .map(|i| i.id.clone())
+        .collect();
+    let only_b = b
+        .individuals
+        .iter()
+        .filter(|i| find(a, &i.id).is_none())
+        .map(|i| i.id.clone())
+        .collect();
+    let mut traits = Vec::new();
+    let mut disagreements = Vec::new();
+    for (t, def) in cat.traits().iter().enumerate() {
+        if !(a.trait_columns[t] && b.trait_columns[t]) {
+            continue;
+        }
+        match &def.kind {
+            TraitKind::Ordinal { lowest, highest } => {
+                let mut pairs = Vec::new();
+                let mut ranges = 0;
+                for &(i, j) in &common {
+                    if let (
+                        Some(Observation::Grade { low: x, high: x2 }),
+                        Some(Observation::Grade { low: y, high: y2 }),
+                    ) = (
+                        a.individuals[i].observations[t],
+                        b.individuals[j].observations[t],
+                    ) {
+                        if x == x2 && y == y2 {
+                            pairs.push((x, y));
+                            if x != y {
+                                disagreements.push(Disagreement {
+                                    id: a.individuals[i].id.clone(),
+                                    trait_id: def.id.clone(),
+                                    a: x.to_string(),
+                                    b: y.to_string(),
+                                });
+                            }
+                        } else {
+                            ranges += 1;
+                        }
+                    }
+                }
+                if pairs.is_empty() {
+                    continue;
+                }
+                let (lo, hi) = (*lowest, *highest);
+                let lin = weighted_kappa(&pairs, lo, hi, false);
+                let quad = weighted_kappa(&pairs, lo, hi, true);
+                let bl = bootstrap(
+                    &pairs,
+                    |p| weighted_kappa(p, lo, hi, false),
+                    2000,
+                    seed ^ t as u64,
+                );
+                let bq = bootstrap(
+                    &pairs,
+                    |p| weighted_kappa(p, lo, hi, true),
+                    2000,
+                    seed ^ (t as u64 + 1000),
+                );
+                traits.push(TraitAgreement {
+                    trait_id: def.id.clone(),
+                    n: pairs.len(),
+                    ranges_left_out: ranges,
+                    first: (lin, bl.0, bl.1),
+                    second: (quad, bq.0, bq.1),
+                    third: pairs.iter().filter(|(x, y)| x == y).count() as f64 / pairs.len() as f64,
+                    kind: "ordinal",
+                });
+            }
+            TraitKind::Metric { .. } => {
+                let mut pairs = Vec::new();
+                let mut ids = Vec::new();
+                for &(i, j) in &common {
+                    if let (
+                        Some(Observation::Measurement { value: x }),
+                        Some(Observation::Measurement { value: y }),
+                    ) = (
+                        a.individuals[i].observations[t],
+                        b.individuals[j].observations[t],
+                    ) {
+                        pairs.push((x, y));
+                        ids.push(a.individuals[i].id.clone());
+                    }
+                }
+                if pairs.is_empty() {
+                    continue;
+                }
+                let e = tem(&pairs);
+                for ((x, y), id) in pairs.iter().zip(&ids) {
+                    if (x - y).abs() > 2.0 * e && e > 0.0 {
+                        disagreements.push(Disagreement {
+                            id: id.clone(),
+                            trait_id: def.id.clone(),
+                            a: x.to_string(),
+                            b: y.to_string(),
+                        });
+                    }
+                }
+                let mean =
+                    pairs.iter().map(|(x, y)| x + y).sum::<f64>() / (2.0 * pairs.len() as f64);
+                let bt = bootstrap(&pairs, tem, 2000, seed ^ t as u64);
+                let bi = bootstrap(&pairs, icc_2_1, 2000, seed ^ (t as u64 + 1000));
+                traits.push(TraitAgreement {
+                    trait_id: def.id.clone(),
+                    n: pairs.len(),
+                    ranges_left_out: 0,
+                    first: (e, bt.0, bt.1),
+                    second: (icc_2_1(&pairs), bi.0, bi.1),
+                    third: 100.0 * e / mean,
+                    kind: "metric",
+                });
+            }
+            TraitKind::Count => {}
+        }
+    }
+    Agreement {
+        n_common: common.len(),
+        only_a,
+        only_b,
+        traits,
+        disagreements,
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn kappa_closed_forms() {
+        // Perfect agreement: 1. Complete reversal on a 2-point scale: −1.
+        assert_eq!(weighted_kappa(&[(1, 1), (2, 2), (3, 3)], 1, 3, false), 1.0);
+        assert!((weighted_kappa(&[(1, 2), (2, 1)], 1, 2, false) + 1.0).abs() < 1e-12);
+        // For two categories weighted kappa equals Cohen's unweighted kappa: observed
+        // agreement 0.7, chance 0.5 → 0.4.
+        let p: Vec<(i32, i32)> = [(1, 1); 35]
+            .into_iter()
+            .chain([(2, 2); 35])
+            .chain([(1, 2); 15])
+            .chain([(2, 1); 15])
+            .collect();
+        assert!((weighted_kappa(&p, 1, 2, true) - 0.4).abs() < 1e-12);
+    }
+
+    #[test]
+    fn tem_and_icc_closed_forms() {
+        // Differences 1, 1, 2: TEM = √(6 / 6) = 1.
+        assert!((tem(&[(10.0, 11.0), (20.0, 21.0), (30.0, 32.0)]) - 1.0).abs() < 1e-12);
+        // Identical scores: ICC 1.
+        assert!((icc_2_1(&[(1.0, 1.0), (2.0, 2.0), (5.0, 5.0)]) - 1.0).abs() < 1e-12);
+    }
+}
