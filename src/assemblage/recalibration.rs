@@ -128,21 +128,56 @@ struct MetricBlock {
     prior_var: [DVector<f64>; 2],
     /// Per individual: observed values (None where missing); empty when nothing observed.
     y: Vec<Vec<Option<f64>>>,
+    /// Per individual: the observed part's factorisation, computed once (the covariance
+    /// does not change during sampling).
+    prepared: Vec<Option<Prepared>>,
 }
 
-fn ln_mvn(y: &[f64], idx: &[usize], mu: &DVector<f64>, cov: &DMatrix<f64>) -> f64 {
-    let k = idx.len();
-    if k == 0 {
-        return 0.0;
+/// An individual's observed measurements of a block with, per sex, the inverse Cholesky
+/// factor and log-determinant of their covariance.
+struct Prepared {
+    idx: Vec<usize>,
+    vals: DVector<f64>,
+    l_inv: [DMatrix<f64>; 2],
+    ln_det: [f64; 2],
+}
+
+impl Prepared {
+    fn new(y: &[Option<f64>], cov: &[DMatrix<f64>; 2]) -> Option<Prepared> {
+        let idx: Vec<usize> = (0..y.len()).filter(|&j| y[j].is_some()).collect();
+        if idx.is_empty() {
+            return None;
+        }
+        let k = idx.len();
+        let mut l_inv = [DMatrix::zeros(0, 0), DMatrix::zeros(0, 0)];
+        let mut ln_det = [0.0; 2];
+        for s in 0..2 {
+            let m = DMatrix::from_fn(k, k, |i, j| cov[s][(idx[i], idx[j])]);
+            let ch = m.cholesky()?;
+            ln_det[s] = 2.0 * ch.l().diagonal().iter().map(|d| d.ln()).sum::<f64>();
+            l_inv[s] = ch.l().try_inverse()?;
+        }
+        Some(Prepared {
+            vals: DVector::from_iterator(k, idx.iter().filter_map(|&j| y[j])),
+            idx,
+            l_inv,
+            ln_det,
+        })
     }
-    let s = DMatrix::from_fn(k, k, |i, j| cov[(idx[i], idx[j])]);
-    let Some(ch) = s.cholesky() else {
-        return f64::NEG_INFINITY;
-    };
-    let r = DVector::from_iterator(k, idx.iter().zip(y).map(|(&j, v)| v - mu[j]));
-    let q = r.dot(&ch.solve(&r));
-    let ld: f64 = 2.0 * ch.l().diagonal().iter().map(|d| d.ln()).sum::<f64>();
-    -0.5 * (q + ld + k as f64 * (2.0 * std::f64::consts::PI).ln())
+
+    /// ln N(y_obs; μ_obs, Σ_obs) for sex s.
+    fn ln_density(&self, s: usize, mu: &DVector<f64>) -> f64 {
+        let k = self.idx.len();
+        let r = DVector::from_iterator(
+            k,
+            self.idx
+                .iter()
+                .enumerate()
+                .map(|(i, &j)| self.vals[i] - mu[j]),
+        );
+        let z = &self.l_inv[s] * r;
+        -0.5 * (z.dot(&z) + self.ln_det[s] + k as f64 * (2.0 * std::f64::consts::PI).ln())
+    }
 }
 
 /// Split-R̂ of several chains of one scalar.
@@ -241,7 +276,7 @@ pub fn recalibrate(
             continue;
         }
         let cat: Vec<usize> = lb.traits.iter().map(|t| t.catalogue_index).collect();
-        let y = individuals
+        let y: Vec<Vec<Option<f64>>> = individuals
             .iter()
             .map(|ind| {
                 let v: Vec<Option<f64>> = cat
@@ -260,7 +295,19 @@ pub fn recalibrate(
             .collect();
         let p = cat.len();
         let sd = |s: usize| DVector::from_iterator(p, (0..p).map(|j| lb.cov[s][(j, j)].sqrt()));
+        let covs = [lb.cov[0].clone(), lb.cov[1].clone()];
+        let prepared = y
+            .iter()
+            .map(|v: &Vec<Option<f64>>| {
+                if v.is_empty() {
+                    None
+                } else {
+                    Prepared::new(v, &covs)
+                }
+            })
+            .collect();
         blocks.push(MetricBlock {
+            prepared,
             block: k,
             ids: lb.traits.iter().map(|t| t.id.clone()).collect(),
             mu_ref: [lb.mean[0].clone(), lb.mean[1].clone()],
@@ -466,14 +513,9 @@ fn run_chain(
             }
             let mut l = fixed[i];
             for (mb, m) in blocks.iter().zip(&mu) {
-                let yi = &mb.y[i];
-                if yi.is_empty() {
-                    continue;
+                if let Some(p) = &mb.prepared[i] {
+                    l += p.ln_density(0, &m[0]) - p.ln_density(1, &m[1]);
                 }
-                let idx: Vec<usize> = (0..yi.len()).filter(|&j| yi[j].is_some()).collect();
-                let vals: Vec<f64> = idx.iter().filter_map(|&j| yi[j]).collect();
-                l +=
-                    ln_mvn(&vals, &idx, &m[0], &mb.cov[0]) - ln_mvn(&vals, &idx, &m[1], &mb.cov[1]);
             }
             let pf = p_female_given(pi.clamp(1e-12, 1.0 - 1e-12), l);
             sex[i] = rng.random::<f64>() < pf;
