@@ -3,6 +3,20 @@
 use crate::Error;
 use std::io::Write;
 use std::path::{Path, PathBuf};
+use std::sync::Mutex;
+
+/// Temporary files being written right now, so that an interrupted run can remove them.
+static PARTIAL: Mutex<Vec<PathBuf>> = Mutex::new(Vec::new());
+
+/// Remove every temporary file still being written (called when the run is interrupted):
+/// an interrupted run leaves no partial output.
+pub fn remove_partial_files() {
+    if let Ok(mut v) = PARTIAL.lock() {
+        for p in v.drain(..) {
+            let _ = std::fs::remove_file(p);
+        }
+    }
+}
 
 /// Write `bytes` to `path` atomically: a temporary file in the same folder, flushed and
 /// synced, then renamed over the target. A run that stops half-way leaves no partial file.
@@ -34,12 +48,18 @@ pub fn write_atomic(path: &Path, bytes: &[u8], protected: &[&Path]) -> Result<()
         .map(|n| n.to_string_lossy().into_owned())
         .unwrap_or_default();
     let tmp = dir.join(format!(".{name}.{}.partial", std::process::id()));
+    if let Ok(mut v) = PARTIAL.lock() {
+        v.push(tmp.clone());
+    }
     let result = (|| {
         let mut f = std::fs::File::create(&tmp)?;
         f.write_all(bytes)?;
         f.sync_all()?;
         std::fs::rename(&tmp, path)
     })();
+    if let Ok(mut v) = PARTIAL.lock() {
+        v.retain(|p| p != &tmp);
+    }
     if let Err(e) = result {
         let _ = std::fs::remove_file(&tmp);
         return Err(io(e));
