@@ -1,11 +1,10 @@
 //! Probability that a multivariate normal vector falls in a box: exact in one and two
 //! dimensions, Genz's separation of variables with randomised quasi-Monte Carlo from three.
 
-use super::normal::{cdf, ln_interval, pdf};
+use super::normal::{cdf, inverse_cdf_fast, ln_interval, pdf};
 use nalgebra::DMatrix;
 use rand::{RngExt, SeedableRng};
 use rand_chacha::ChaCha8Rng;
-use statrs::distribution::{ContinuousCDF, Normal};
 use std::f64::consts::PI;
 
 /// A log-probability with the estimated absolute error of the logarithm (0 for exact
@@ -306,7 +305,6 @@ pub fn genz_sov(
             error: 0.0,
         });
     }
-    let std = Normal::standard();
     let primes = first_primes(n.max(2) - 1);
     let generators: Vec<f64> = primes.iter().map(|&p| (p as f64).sqrt().fract()).collect();
     let mut rng = ChaCha8Rng::seed_from_u64(seed);
@@ -316,7 +314,7 @@ pub fn genz_sov(
         let mut f = e - d;
         for i in 1..n {
             let u = (d + w[i - 1] * (e - d)).clamp(1e-300, 1.0 - 1e-16);
-            y[i - 1] = std.inverse_cdf(u);
+            y[i - 1] = inverse_cdf_fast(u);
             let s: f64 = (0..i).map(|j| c[(i, j)] * y[j]).sum();
             d = cdf((a[i] - s) / c[(i, i)]);
             e = cdf((b[i] - s) / c[(i, i)]);
