@@ -18,13 +18,13 @@
 //! let table = "id,glabella,mastoid_l,femur_head_diameter_r,grave_goods\n\
 //!              T-01,4,3-4,46.5,knife\n\
 //!              T-02,NA,,41.0,spindle whorl\n";
-//! let catalogue = Catalogue::standard();
+//! let catalogue = Catalogue::standard()?;
 //! let a = read_assemblage_text("demo.csv", table.as_bytes(), &catalogue, &ReadSettings::default())?;
 //! assert_eq!(a.individuals.len(), 2);
-//! let mastoid = catalogue.position("mastoid").unwrap();
+//! let mastoid = catalogue.position("mastoid").ok_or("mastoid is in the catalogue")?;
 //! assert_eq!(a.individuals[0].observations[mastoid], Some(Observation::Grade { low: 3, high: 4 }));
 //! assert_eq!(a.carried_columns, vec!["grave_goods"]);
-//! # Ok::<(), dimorph::data::InputError>(())
+//! # Ok::<(), Box<dyn std::error::Error>>(())
 //! ```
 #![forbid(unsafe_code)]
 #![warn(missing_docs)]

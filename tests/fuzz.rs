@@ -45,7 +45,7 @@ fn mutated(base: &'static str) -> impl Strategy<Value = String> {
 fn nothing_read_from_outside_panics() {
     // Seven properties: bytes, text of table characters, mutated table, model, prior, scale map, specs.
     let n = cases();
-    let cat = Catalogue::standard();
+    let cat = Catalogue::standard().unwrap();
     let start = std::time::Instant::now();
     let config = Config {
         cases: n,

@@ -79,13 +79,13 @@ proptest! {
 
     #[test]
     fn arbitrary_bytes_never_panic(bytes in prop::collection::vec(any::<u8>(), 0..400)) {
-        let cat = Catalogue::standard();
+        let cat = Catalogue::standard().unwrap();
         let _ = read_assemblage_text("fuzz.csv", &bytes, &cat, &ReadSettings::default());
     }
 
     #[test]
     fn arbitrary_tables_never_panic_and_problems_are_located(text in table(), both in any::<bool>()) {
-        let cat = Catalogue::standard();
+        let cat = Catalogue::standard().unwrap();
         let settings = ReadSettings {
             side_policy: if both { SidePolicy::Both } else { SidePolicy::LeftFirst },
             ..ReadSettings::default()

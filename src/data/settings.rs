@@ -93,23 +93,6 @@ impl ReadSettings {
     }
 }
 
-#[cfg(test)]
-mod tests {
-    use super::*;
-
-    #[test]
-    fn default_and_declared_missing_codes() {
-        let mut s = ReadSettings::default();
-        for c in ["", "  ", "NA", "na", "N/A", "-", ".", "?"] {
-            assert!(s.is_missing(c), "{c:?}");
-        }
-        assert!(!s.is_missing("nr"));
-        s.missing_words.push("NR".into());
-        assert!(s.is_missing("nr"));
-        assert!(!s.is_missing("3"));
-    }
-}
-
 /// Read a score-scale map document.
 ///
 /// The document maps a trait id (or `"*"` for every ordinal trait without its own map) to
@@ -176,21 +159,5 @@ pub fn parse_scale_maps(
 }
 
 #[cfg(test)]
-mod scale_map_tests {
-    use super::*;
-    use crate::catalogue::Catalogue;
-
-    #[test]
-    fn numeric_keys_are_read_as_written() {
-        let cat = Catalogue::standard();
-        let m = parse_scale_maps("glabella: {-2: 1, -1: 2, 0: 3, 1: 4, 2: 5}\n", &cat).unwrap();
-        assert_eq!(m["glabella"]["-2"], 1);
-        assert_eq!(m["glabella"]["2"], 5);
-        assert!(parse_scale_maps("glabella: {a: 9}", &cat)
-            .unwrap_err()
-            .contains("outside"));
-        assert!(parse_scale_maps("femur_head_diameter: {a: 1}", &cat).is_err());
-        assert!(parse_scale_maps("nose: {a: 1}", &cat).is_err());
-        assert!(parse_scale_maps("[1, 2]", &cat).is_err());
-    }
-}
+#[path = "tests/settings.rs"]
+mod tests;

@@ -217,7 +217,12 @@ impl Model {
             }])
         })?;
         let mut problems = Vec::new();
-        let mut catalogue = Catalogue::standard();
+        let mut catalogue = Catalogue::standard().map_err(|e| {
+            fail(vec![ModelProblem {
+                place: "trait catalogue".into(),
+                message: e.to_string(),
+            }])
+        })?;
         if let Err(e) = catalogue.extend(raw.traits.clone()) {
             let place = match &e {
                 CatalogueError::InvalidTrait { id, .. } => format!("trait `{id}`"),

@@ -82,25 +82,5 @@ fn absolute(p: &Path) -> PathBuf {
 }
 
 #[cfg(test)]
-mod tests {
-    use super::*;
-
-    #[test]
-    fn writes_whole_files_and_refuses_to_overwrite_inputs() {
-        let dir = tempfile::tempdir().unwrap();
-        let input = dir.path().join("in.csv");
-        std::fs::write(&input, "id\nA\n").unwrap();
-        let out = dir.path().join("out.csv");
-        write_atomic(&out, b"x,y\n", &[&input]).unwrap();
-        assert_eq!(std::fs::read(&out).unwrap(), b"x,y\n");
-        assert!(write_atomic(&input, b"oops", &[&input]).is_err());
-        assert_eq!(std::fs::read(&input).unwrap(), b"id\nA\n");
-        // No temporary files left behind.
-        let names: Vec<_> = std::fs::read_dir(dir.path())
-            .unwrap()
-            .map(|e| e.unwrap().file_name())
-            .collect();
-        assert_eq!(names.len(), 2);
-        assert!(write_atomic(&dir.path().join("no/such/dir/x.csv"), b"", &[]).is_err());
-    }
-}
+#[path = "tests/output.rs"]
+mod tests;
