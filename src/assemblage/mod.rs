@@ -216,6 +216,10 @@ pub struct Analysis {
     /// The fitted posteriors under the chosen prior (for joint draws).
     #[serde(skip)]
     pub fitted: Fitted,
+    /// The posterior of π under each prior of the sensitivity set (for the figures), aligned
+    /// with `sensitivity`.
+    #[serde(skip)]
+    pub posteriors: Vec<PiPosterior>,
 }
 
 /// Analyse an assemblage's evidence under a chosen prior and a sensitivity set, with groups
@@ -230,11 +234,14 @@ pub fn analyse(
     let (main, fitted) = under_prior(evidence, groups, prior, thresholds);
     // Priors are independent: computed in parallel, collected in the set's order, so the
     // result does not depend on the number of threads.
-    let sensitivity: Vec<PriorResult> = {
+    let (sensitivity, posteriors): (Vec<PriorResult>, Vec<PiPosterior>) = {
         use rayon::prelude::*;
         set.par_iter()
-            .map(|p| under_prior(evidence, groups, p, thresholds).0)
-            .collect()
+            .map(|p| {
+                let (r, f) = under_prior(evidence, groups, p, thresholds);
+                (r, f.posterior)
+            })
+            .unzip()
     };
     let individual_sensitivity = (0..evidence.len())
         .map(|i| {
@@ -253,6 +260,7 @@ pub fn analyse(
         individual_sensitivity,
         thresholds: *thresholds,
         fitted,
+        posteriors,
     }
 }
 

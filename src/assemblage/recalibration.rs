@@ -20,7 +20,6 @@ use super::posterior::p_female_given;
 use crate::data::Observation;
 use crate::model::latent::LatentKind;
 use crate::model::{Block, IndividualEvidence, Model};
-use crate::numeric::normal::ln_add_exp;
 use crate::prior::{Prior, PriorShape};
 use nalgebra::{DMatrix, DVector};
 use rand::distr::Distribution;
@@ -620,11 +619,6 @@ fn augment(
         full[j] = draw[k];
     }
     full
-}
-
-/// ln of the sum of exps (for tests).
-pub fn ln_sum(v: &[f64]) -> f64 {
-    v.iter().copied().fold(f64::NEG_INFINITY, ln_add_exp)
 }
 
 #[cfg(test)]

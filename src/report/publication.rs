@@ -4,7 +4,7 @@
 use super::analysis::RunInfo;
 use super::figures;
 use crate::assemblage::draws::Draws;
-use crate::assemblage::{Analysis, Category, PiPosterior};
+use crate::assemblage::{Analysis, Category};
 use crate::catalogue::Region;
 use crate::data::Assemblage;
 use crate::model::{Block, BlockStatus, IndividualEvidence, Model};
@@ -174,22 +174,19 @@ pub fn figures_svg(
         "figures/p_female.svg".into(),
         figures::p_female_figure(&pts, [t.male, t.probable_male, t.probable_female, t.female])?,
     ));
-    let l: Vec<f64> = evidence
-        .iter()
-        .filter(|e| e.estimable)
-        .map(|e| e.ln_lr)
-        .collect();
     let mut curves = Vec::new();
-    for r in std::iter::once(&analysis.main).chain(
+    // Posteriors already computed by the analysis: the chosen prior's, then the set's.
+    let fitted = std::iter::once((&analysis.main, &analysis.fitted.posterior)).chain(
         analysis
             .sensitivity
             .iter()
-            .filter(|r| r.prior.name != analysis.main.prior.name),
-    ) {
+            .zip(&analysis.posteriors)
+            .filter(|(r, _)| r.prior.name != analysis.main.prior.name),
+    );
+    for (r, post) in fitted {
         if matches!(r.prior.shape, crate::prior::PriorShape::Fixed { .. }) || curves.len() >= 6 {
             continue;
         }
-        let post = PiPosterior::compute(&l, &r.prior);
         let step = (post.grid.len() / 400).max(1);
         let pts: Vec<(f64, f64)> = (0..post.grid.len())
             .step_by(step)
@@ -245,7 +242,6 @@ pub fn references_used(
     let mut used_traits: BTreeSet<String> = BTreeSet::new();
     let mut used_latent = false;
     let mut used_dna = false;
-    let mut equations: BTreeSet<String> = BTreeSet::new();
     for e in evidence {
         for (b, be) in model.blocks.iter().zip(&e.blocks) {
             if be.status != BlockStatus::Used {
@@ -255,9 +251,7 @@ pub fn references_used(
             match b {
                 Block::Latent(_) => used_latent = true,
                 Block::Dna(_) => used_dna = true,
-                Block::Equations(_) => {
-                    equations.insert(be.note.clone());
-                }
+                Block::Equations(_) => {}
             }
         }
     }
@@ -321,7 +315,6 @@ pub fn references_used(
             "Rubin, D. B. (1987). Multiple Imputation for Nonresponse in Surveys. New York: Wiley.",
         );
     }
-    let _ = equations;
     refs
 }
 
