@@ -127,18 +127,25 @@ struct MetricBlock {
     prior_var: [DVector<f64>; 2],
     /// Per individual: observed values (None where missing); empty when nothing observed.
     y: Vec<Vec<Option<f64>>>,
+    /// Within-sex precision matrices (fixed while sampling).
+    prec: [Option<DMatrix<f64>>; 2],
     /// Per individual: the observed part's factorisation, computed once (the covariance
     /// does not change during sampling).
     prepared: Vec<Option<Prepared>>,
 }
 
 /// An individual's observed measurements of a block with, per sex, the inverse Cholesky
-/// factor and log-determinant of their covariance.
+/// factor and log-determinant of their covariance, and what data augmentation of the missing
+/// ones needs: the regression of the missing on the observed (Σₘₒ Σₒₒ⁻¹) and the Cholesky
+/// factor of the conditional covariance. All fixed while sampling, so computed once.
 struct Prepared {
     idx: Vec<usize>,
     vals: DVector<f64>,
     l_inv: [DMatrix<f64>; 2],
     ln_det: [f64; 2],
+    mis: Vec<usize>,
+    gain: [DMatrix<f64>; 2],
+    cond_l: [Option<DMatrix<f64>>; 2],
 }
 
 impl Prepared {
@@ -156,12 +163,67 @@ impl Prepared {
             ln_det[s] = 2.0 * ch.l().diagonal().iter().map(|d| d.ln()).sum::<f64>();
             l_inv[s] = ch.l().try_inverse()?;
         }
+        let mis: Vec<usize> = (0..y.len()).filter(|&j| y[j].is_none()).collect();
+        let mut gain = [DMatrix::zeros(0, 0), DMatrix::zeros(0, 0)];
+        let mut cond_l = [None, None];
+        if !mis.is_empty() {
+            for s in 0..2 {
+                let sub = |r: &[usize], c: &[usize]| {
+                    DMatrix::from_fn(r.len(), c.len(), |i, j| cov[s][(r[i], c[j])])
+                };
+                let (s_oo, s_mo, s_mm) = (sub(&idx, &idx), sub(&mis, &idx), sub(&mis, &mis));
+                let inv = s_oo.try_inverse()?;
+                let cc = &s_mm - &s_mo * &inv * s_mo.transpose();
+                let cc = (&cc + cc.transpose()) * 0.5;
+                gain[s] = &s_mo * inv;
+                cond_l[s] = cc.cholesky().map(|c| c.l());
+            }
+        }
         Some(Prepared {
             vals: DVector::from_iterator(k, idx.iter().filter_map(|&j| y[j])),
             idx,
             l_inv,
             ln_det,
+            mis,
+            gain,
+            cond_l,
         })
+    }
+
+    /// The full measurement vector for sex s: observed values, and the missing ones drawn
+    /// from their normal distribution conditional on the observed (data augmentation).
+    fn augment(
+        &self,
+        s: usize,
+        mu: &DVector<f64>,
+        std: &Normal,
+        rng: &mut ChaCha8Rng,
+    ) -> DVector<f64> {
+        let p = self.idx.len() + self.mis.len();
+        let mut full = DVector::from_element(p, 0.0);
+        for (i, &j) in self.idx.iter().enumerate() {
+            full[j] = self.vals[i];
+        }
+        if self.mis.is_empty() {
+            return full;
+        }
+        let r = DVector::from_iterator(
+            self.idx.len(),
+            self.idx
+                .iter()
+                .enumerate()
+                .map(|(i, &j)| self.vals[i] - mu[j]),
+        );
+        let cm = DVector::from_iterator(self.mis.len(), self.mis.iter().map(|&j| mu[j]))
+            + &self.gain[s] * r;
+        let draw = match &self.cond_l[s] {
+            Some(l) => cm + l * DVector::from_fn(self.mis.len(), |_, _| std.sample(rng)),
+            None => cm,
+        };
+        for (k, &j) in self.mis.iter().enumerate() {
+            full[j] = draw[k];
+        }
+        full
     }
 
     /// ln N(y_obs; μ_obs, Σ_obs) for sex s.
@@ -307,6 +369,7 @@ pub fn recalibrate(
             .collect();
         blocks.push(MetricBlock {
             prepared,
+            prec: [covs[0].clone().try_inverse(), covs[1].clone().try_inverse()],
             block: k,
             ids: lb.traits.iter().map(|t| t.id.clone()).collect(),
             mu_ref: [lb.mean[0].clone(), lb.mean[1].clone()],
@@ -527,27 +590,28 @@ fn run_chain(
             let p = mb.ids.len();
             #[allow(clippy::needless_range_loop)] // s indexes the reference arrays of the block too
             for s in 0..2 {
-                let cov = &mb.cov[s];
-                let Some(prec) = cov.clone().try_inverse() else {
+                let Some(prec) = &mb.prec[s] else {
                     continue;
                 };
                 let mut sum = DVector::zeros(p);
                 let mut count = 0.0;
                 for i in 0..n {
-                    let yi = &mb.y[i];
-                    if yi.is_empty() || !active[i] || sex[i] != (s == 0) {
+                    let Some(prep) = &mb.prepared[i] else {
+                        continue;
+                    };
+                    if !active[i] || sex[i] != (s == 0) {
                         continue;
                     }
-                    let full = augment(yi, &m[s], cov, &std, &mut rng);
+                    let full = prep.augment(s, &m[s], &std, &mut rng);
                     sum += full;
                     count += 1.0;
                 }
                 let prior_prec = DMatrix::from_diagonal(&mb.prior_var[s].map(|v| 1.0 / v));
-                let post_prec = &prior_prec + &prec * count;
+                let post_prec = &prior_prec + prec * count;
                 let Some(post_cov) = post_prec.clone().try_inverse() else {
                     continue;
                 };
-                let post_mean = &post_cov * (&prior_prec * &mb.mu_ref[s] + &prec * &sum);
+                let post_mean = &post_cov * (&prior_prec * &mb.mu_ref[s] + prec * &sum);
                 let Some(ch) = post_cov.cholesky() else {
                     continue;
                 };
@@ -578,47 +642,6 @@ fn run_chain(
         }
     }
     out
-}
-
-/// Fill an individual's missing measurements from the conditional normal given the observed.
-fn augment(
-    y: &[Option<f64>],
-    mu: &DVector<f64>,
-    cov: &DMatrix<f64>,
-    std: &Normal,
-    rng: &mut ChaCha8Rng,
-) -> DVector<f64> {
-    let p = y.len();
-    let obs: Vec<usize> = (0..p).filter(|&j| y[j].is_some()).collect();
-    let mis: Vec<usize> = (0..p).filter(|&j| y[j].is_none()).collect();
-    let mut full = DVector::from_iterator(p, (0..p).map(|j| y[j].unwrap_or(mu[j])));
-    if mis.is_empty() {
-        return full;
-    }
-    let sub =
-        |r: &[usize], c: &[usize]| DMatrix::from_fn(r.len(), c.len(), |i, j| cov[(r[i], c[j])]);
-    let (s_oo, s_mo, s_mm) = (sub(&obs, &obs), sub(&mis, &obs), sub(&mis, &mis));
-    let (cm, cc) = match s_oo.clone().try_inverse() {
-        Some(inv) if !obs.is_empty() => {
-            let r = DVector::from_iterator(obs.len(), obs.iter().map(|&j| full[j] - mu[j]));
-            let cm =
-                DVector::from_iterator(mis.len(), mis.iter().map(|&j| mu[j])) + &s_mo * &inv * r;
-            (cm, &s_mm - &s_mo * inv * s_mo.transpose())
-        }
-        _ => (
-            DVector::from_iterator(mis.len(), mis.iter().map(|&j| mu[j])),
-            s_mm,
-        ),
-    };
-    let cc = (&cc + cc.transpose()) * 0.5;
-    let draw = match cc.cholesky() {
-        Some(ch) => cm + ch.l() * DVector::from_fn(mis.len(), |_, _| std.sample(rng)),
-        None => cm,
-    };
-    for (k, &j) in mis.iter().enumerate() {
-        full[j] = draw[k];
-    }
-    full
 }
 
 #[cfg(test)]
