@@ -7,7 +7,7 @@ use crate::assemblage::recalibration::{recalibrate, RecalibrationSettings};
 use crate::assemblage::{analyse, Thresholds};
 use crate::data::read_assemblage;
 use crate::likelihood::evaluate_assemblage;
-use crate::model::{BlockStatus, Context};
+use crate::model::Context;
 use crate::output::write_atomic;
 use crate::prior::{parse_prior_set, PriorError};
 use crate::report::analysis::recalibration_files;
@@ -17,7 +17,7 @@ use crate::report::publication::{
 };
 use crate::report::RunInfo;
 use crate::summary::by_sex::age_interval;
-use crate::summary::{age_by_sex, prevalence_by_sex};
+use crate::summary::{age_by_sex, condition_column, prevalence_by_sex};
 use crate::Error;
 use std::path::{Path, PathBuf};
 
@@ -133,51 +133,23 @@ pub fn run(args: Args) -> Result<i32, Error> {
     );
     // Condition columns for the analyses by sex: carried columns holding 0/1.
     let mut present_cols: Vec<(String, Vec<Option<bool>>)> = Vec::new();
-    let mut problems = Vec::new();
     for col in &args.by_sex {
-        let Some(c) = a
-            .carried_columns
-            .iter()
-            .position(|x| x.trim().eq_ignore_ascii_case(col.trim()))
-        else {
-            return Err(Error::Settings {
-                file: "--by-sex".into(),
-                message: format!(
-                    "`{col}` is not a column of the input that the model leaves unused (trait columns are evidence and cannot be outcomes); columns available: {}",
-                    a.carried_columns.join(", ")
-                ),
-            });
-        };
-        let mut v = Vec::with_capacity(a.individuals.len());
-        for ind in &a.individuals {
-            let cell = ind.carried[c].trim();
-            v.push(match cell.to_ascii_lowercase().as_str() {
-                "1" | "yes" | "present" | "true" => Some(true),
-                "0" | "no" | "absent" | "false" => Some(false),
-                _ if settings.is_missing(cell) => None,
-                _ => {
-                    problems.push(crate::data::Problem {
-                        file: a.file.clone(),
-                        row: Some(ind.row),
-                        column: Some(a.carried_columns[c].clone()),
-                        value: Some(cell.to_string()),
-                        kind: crate::data::ProblemKind::UnreadableValue,
-                        expected: "1 (present) or 0 (absent), or a missing code".into(),
-                    });
-                    None
-                }
-            });
+        match condition_column(&a, col) {
+            Ok(Some(v)) => present_cols.push(v),
+            Ok(None) => {
+                return Err(Error::Settings {
+                    file: "--by-sex".into(),
+                    message: format!(
+                        "`{col}` is not a column of the input that the model leaves unused (trait columns are evidence and cannot be outcomes); columns available: {}",
+                        a.carried_columns.join(", ")
+                    ),
+                })
+            }
+            Err(e) => {
+                eprint!("{}", super::check::render_problems(&e));
+                return Ok(3);
+            }
         }
-        present_cols.push((a.carried_columns[c].clone(), v));
-    }
-    if !problems.is_empty() {
-        let e = crate::data::InputError {
-            file: a.file.clone(),
-            problems,
-            warnings: Vec::new(),
-        };
-        eprint!("{}", super::check::render_problems(&e));
-        return Ok(3);
     }
     let ages: Vec<Option<(f64, f64)>> = a
         .individuals
@@ -315,20 +287,8 @@ pub fn run(args: Args) -> Result<i32, Error> {
         write_atomic(&args.out.join(name), bytes, &protected)?;
     }
     print!("{}", terminal_summary(&model, &a, &analysis, &draws));
-    for (ind, e) in a.individuals.iter().zip(&evidence) {
-        for (b, be) in model.blocks.iter().zip(&e.blocks) {
-            if matches!(
-                be.status,
-                BlockStatus::Atypical | BlockStatus::NumericalFailure
-            ) {
-                println!(
-                    "Flagged for a person to look at: {} ({}): {}",
-                    ind.id,
-                    b.id(),
-                    be.note
-                );
-            }
-        }
+    for f in crate::likelihood::flagged(&model, &a, &evidence) {
+        println!("Flagged for a person to look at: {f}");
     }
     println!(
         "Written to {}: {}",

@@ -164,15 +164,8 @@ pub fn summary(
         s,
         "Largest numerical error of an individual's ln LR: {worst:.1e}"
     );
-    for (ind, e) in a.individuals.iter().zip(ev) {
-        for (b, be) in model.blocks.iter().zip(&e.blocks) {
-            if matches!(
-                be.status,
-                BlockStatus::Atypical | BlockStatus::NumericalFailure
-            ) {
-                let _ = writeln!(s, "Flagged: {} ({}): {}", ind.id, b.id(), be.note);
-            }
-        }
+    for f in crate::likelihood::flagged(model, a, ev) {
+        let _ = writeln!(s, "Flagged: {f}");
     }
     let _ = writeln!(
         s,

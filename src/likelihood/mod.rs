@@ -23,3 +23,25 @@ pub fn evaluate_assemblage(
         .map(|ind| model.evaluate(ind, ctx))
         .collect()
 }
+
+/// Every block flagged for a person to look at (DNA fitting neither sex, numerical failure),
+/// as `ID (block): note`, in file order.
+pub fn flagged(
+    model: &Model,
+    assemblage: &Assemblage,
+    evidence: &[IndividualEvidence],
+) -> Vec<String> {
+    use crate::model::BlockStatus;
+    let mut out = Vec::new();
+    for (ind, e) in assemblage.individuals.iter().zip(evidence) {
+        for (b, be) in model.blocks.iter().zip(&e.blocks) {
+            if matches!(
+                be.status,
+                BlockStatus::Atypical | BlockStatus::NumericalFailure
+            ) {
+                out.push(format!("{} ({}): {}", ind.id, b.id(), be.note));
+            }
+        }
+    }
+    out
+}

@@ -678,24 +678,7 @@ pub fn report_md_and_tex(
             "\nOutcome columns are never used as evidence of sex: that would be circular.\n"
         );
     }
-    let flagged: Vec<String> = a
-        .individuals
-        .iter()
-        .zip(evidence)
-        .flat_map(|(i, e)| {
-            model
-                .blocks
-                .iter()
-                .zip(&e.blocks)
-                .filter(|(_, b)| {
-                    matches!(
-                        b.status,
-                        BlockStatus::Atypical | BlockStatus::NumericalFailure
-                    )
-                })
-                .map(move |(bl, b)| format!("{} ({}): {}", i.id, bl.id(), b.note))
-        })
-        .collect();
+    let flagged = crate::likelihood::flagged(model, a, evidence);
     if !a.warnings.is_empty() || !flagged.is_empty() {
         let _ = writeln!(m, "## Warnings\n");
         for f in &flagged {

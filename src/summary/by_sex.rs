@@ -1,7 +1,7 @@
 //! Age at death and prevalence by sex, pooled over joint draws of everyone's sex.
 
 use crate::assemblage::Category;
-use crate::data::AgeAtDeath;
+use crate::data::{AgeAtDeath, Assemblage, InputError, Problem, ProblemKind};
 use rand::{RngExt, SeedableRng};
 use rand_chacha::ChaCha8Rng;
 use serde::Serialize;
@@ -137,6 +137,63 @@ pub fn age_by_sex(ages: &[Option<(f64, f64)>], female: &[Vec<bool>], seed: u64) 
                 male: spread(b),
             })
             .collect(),
+    }
+}
+
+/// A condition column as read: its name as written and one value per individual.
+pub type ConditionColumn = (String, Vec<Option<bool>>);
+
+/// Read a condition column (a carried column, never evidence): `1`/`yes`/`present`/`true`
+/// and `0`/`no`/`absent`/`false` (any case); missing codes give `None`.
+///
+/// Returns `Ok(None)` when the assemblage has no such carried column (trait columns are
+/// evidence and cannot be outcomes), the column name as written and the values otherwise.
+///
+/// # Errors
+/// [`InputError`] listing every cell that is neither 0/1 nor a missing code.
+pub fn condition_column(
+    a: &Assemblage,
+    column: &str,
+) -> Result<Option<ConditionColumn>, InputError> {
+    let Some(c) = a
+        .carried_columns
+        .iter()
+        .position(|x| x.trim().eq_ignore_ascii_case(column.trim()))
+    else {
+        return Ok(None);
+    };
+    let mut problems = Vec::new();
+    let values = a
+        .individuals
+        .iter()
+        .map(|ind| {
+            let cell = ind.carried[c].trim();
+            match cell.to_ascii_lowercase().as_str() {
+                "1" | "yes" | "present" | "true" => Some(true),
+                "0" | "no" | "absent" | "false" => Some(false),
+                _ if a.settings.is_missing(cell) => None,
+                _ => {
+                    problems.push(Problem {
+                        file: a.file.clone(),
+                        row: Some(ind.row),
+                        column: Some(a.carried_columns[c].clone()),
+                        value: Some(cell.to_string()),
+                        kind: ProblemKind::UnreadableValue,
+                        expected: "1 (present) or 0 (absent), or a missing code".into(),
+                    });
+                    None
+                }
+            }
+        })
+        .collect();
+    if problems.is_empty() {
+        Ok(Some((a.carried_columns[c].clone(), values)))
+    } else {
+        Err(InputError {
+            file: a.file.clone(),
+            problems,
+            warnings: Vec::new(),
+        })
     }
 }
 

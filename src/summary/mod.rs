@@ -8,6 +8,6 @@
 pub mod by_sex;
 
 pub use by_sex::{
-    age_by_sex, category_by_age, prevalence_by_sex, AgeBySex, AgeClassRow, PrevalenceBySex,
-    AGE_CLASSES, OPEN_CLASS_END,
+    age_by_sex, category_by_age, condition_column, prevalence_by_sex, AgeBySex, AgeClassRow,
+    PrevalenceBySex, AGE_CLASSES, OPEN_CLASS_END,
 };
