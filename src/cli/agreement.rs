@@ -5,6 +5,7 @@ use crate::agreement::compare;
 use crate::data::read_assemblage;
 use crate::output::write_atomic;
 use crate::report::csv_bytes;
+use crate::report::header;
 use crate::Error;
 use std::fmt::Write as _;
 use std::path::{Path, PathBuf};
@@ -138,7 +139,7 @@ pub fn run(args: Args) -> Result<i32, Error> {
             path: out.clone(),
             source,
         })?;
-        let mut rows = vec![[
+        let mut rows = vec![header(&[
             "trait",
             "kind",
             "pairs",
@@ -150,10 +151,7 @@ pub fn run(args: Args) -> Result<i32, Error> {
             "lo",
             "hi",
             "exact_agreement_or_relative_tem",
-        ]
-        .iter()
-        .map(|x| x.to_string())
-        .collect::<Vec<_>>()];
+        ])];
         for t in &r.traits {
             rows.push(vec![
                 t.trait_id.clone(),

@@ -83,7 +83,7 @@ fn f4(x: f64) -> String {
     format!("{x:.4}")
 }
 
-use super::csv_bytes;
+use super::{csv_bytes, header};
 
 /// Render the four files.
 ///
@@ -100,7 +100,7 @@ pub fn render_files(
 ) -> Result<AnalysisFiles, serde_json::Error> {
     let main = &analysis.main;
     // individuals.csv
-    let mut header: Vec<String> = [
+    let mut head: Vec<String> = header(&[
         "id",
         "group",
         "status",
@@ -113,13 +113,10 @@ pub fn render_files(
         "p_female_min",
         "p_female_max",
         "prior_sensitive",
-    ]
-    .iter()
-    .map(|s| s.to_string())
-    .collect();
-    header.extend(model.blocks.iter().map(|b| format!("log10_lr_{}", b.id())));
-    header.extend(a.carried_columns.iter().cloned());
-    let mut rows = vec![header];
+    ]);
+    head.extend(model.blocks.iter().map(|b| format!("log10_lr_{}", b.id())));
+    head.extend(a.carried_columns.iter().cloned());
+    let mut rows = vec![head];
     for (i, (ind, ev)) in a.individuals.iter().zip(evidence).enumerate() {
         let s = &analysis.individual_sensitivity[i];
         let est = ev.estimable;
@@ -165,7 +162,7 @@ pub fn render_files(
                 .filter(|r| r.prior.name != main.prior.name),
         )
         .collect();
-    let mut rows = vec![[
+    let mut rows = vec![header(&[
         "prior",
         "pi_mean",
         "pi_median",
@@ -194,10 +191,7 @@ pub fn render_files(
         "kappa_lo",
         "kappa_hi",
         "log10_bf_groups_differ",
-    ]
-    .iter()
-    .map(|s| s.to_string())
-    .collect::<Vec<_>>()];
+    ])];
     let n_female = draws.n_female();
     let n = a.individuals.len();
     let (fm, flo, fhi) = count_summary(&n_female);
@@ -310,7 +304,7 @@ pub fn render_files(
         ("sensitivity.csv".to_string(), sensitivity),
     ];
     if !main.groups.is_empty() {
-        let mut rows = vec![[
+        let mut rows = vec![header(&[
             "group",
             "n",
             "pi_mean",
@@ -319,10 +313,7 @@ pub fn render_files(
             "expected_females",
             "n_estimable",
             "pi_median",
-        ]
-        .iter()
-        .map(|s| s.to_string())
-        .collect::<Vec<_>>()];
+        ])];
         for g in &main.groups {
             rows.push(vec![
                 g.group.clone(),
@@ -521,7 +512,7 @@ pub fn recalibration_files(
     analysis: &Analysis,
     r: &crate::assemblage::recalibration::Recalibration,
 ) -> Vec<(String, Vec<u8>)> {
-    let mut rows = vec![[
+    let mut rows = vec![header(&[
         "trait",
         "sex",
         "reference_mean",
@@ -531,10 +522,7 @@ pub fn recalibration_files(
         "shift_sd",
         "rhat",
         "ess",
-    ]
-    .iter()
-    .map(|s| s.to_string())
-    .collect::<Vec<_>>()];
+    ])];
     for m in &r.means {
         rows.push(vec![
             m.trait_id.clone(),
@@ -563,17 +551,14 @@ pub fn recalibration_files(
         ]);
     }
     let t = analysis.thresholds;
-    let mut ind = vec![[
+    let mut ind = vec![header(&[
         "id",
         "p_female_reference",
         "p_female_recalibrated",
         "category_reference",
         "category_recalibrated",
         "category_changed",
-    ]
-    .iter()
-    .map(|s| s.to_string())
-    .collect::<Vec<_>>()];
+    ])];
     for (i, x) in a.individuals.iter().enumerate() {
         let (p, q) = (analysis.main.p_female[i], r.p_female[i]);
         let cat = |v: Option<f64>| v.map(|v| t.categorise(v)).unwrap_or(Category::NotEstimable);

@@ -16,3 +16,8 @@ pub fn csv_bytes(rows: Vec<Vec<String>>) -> Vec<u8> {
     }
     w.into_inner().unwrap_or_default()
 }
+
+/// A header row from column names.
+pub fn header(names: &[&str]) -> Vec<String> {
+    names.iter().map(|s| s.to_string()).collect()
+}

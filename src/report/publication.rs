@@ -40,7 +40,7 @@ fn f1(x: f64) -> String {
     }
 }
 
-use super::csv_bytes;
+use super::{csv_bytes, header};
 
 fn tex(s: &str) -> String {
     s.replace('\\', "\\textbackslash{}")
@@ -91,7 +91,7 @@ pub fn by_sex_tables(by_sex: &BySex, analysis: &Analysis) -> Vec<(String, Vec<u8
         files.push(("by_sex_age.csv".into(), csv_bytes(rows)));
     }
     if !by_sex.prevalence.is_empty() {
-        let mut rows = vec![[
+        let mut rows = vec![header(&[
             "condition",
             "n_recorded",
             "n_present",
@@ -109,10 +109,7 @@ pub fn by_sex_tables(by_sex: &BySex, analysis: &Analysis) -> Vec<(String, Vec<u8
             "odds_ratio",
             "odds_ratio_lo",
             "odds_ratio_hi",
-        ]
-        .iter()
-        .map(|s| s.to_string())
-        .collect::<Vec<_>>()];
+        ])];
         for p in &by_sex.prevalence {
             rows.push(vec![
                 p.column.clone(),
