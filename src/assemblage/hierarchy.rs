@@ -25,7 +25,8 @@ use serde::Serialize;
 use statrs::function::beta::{beta_reg, ln_beta};
 use std::f64::consts::{FRAC_PI_2, PI};
 
-/// Smallest κ of the hyper-prior.
+/// Smallest κ of the hyper-prior (the range [1, 1000] is a stated choice of ours: weak, and
+/// wide enough for groups of almost one sex and for groups that share one proportion).
 pub const KAPPA_MIN: f64 = 1.0;
 /// Largest κ of the hyper-prior.
 pub const KAPPA_MAX: f64 = 1000.0;

@@ -31,7 +31,9 @@ use statrs::distribution::{Beta, Normal};
 /// Settings of the recalibration.
 #[derive(Debug, Clone, Copy, PartialEq, Serialize)]
 pub struct RecalibrationSettings {
-    /// Prior SD of a mean's shift, in reference within-sex SDs (default 1).
+    /// Prior SD of a mean's shift, in reference within-sex SDs (default 1: a choice of ours;
+    /// shifts of a full SD between populations are reported in the literature on moving
+    /// measurement standards, common practice).
     pub shift: f64,
     /// Chains (default 4).
     pub chains: usize,
@@ -39,9 +41,11 @@ pub struct RecalibrationSettings {
     pub iterations: usize,
     /// Burn-in iterations discarded (default 500).
     pub burn_in: usize,
-    /// R̂ above which a parameter is flagged (default 1.01).
+    /// R̂ above which a parameter is flagged (default 1.01, the threshold recommended by
+    /// Vehtari et al. 2021, Bayesian Analysis 16:667–718; from memory).
     pub max_rhat: f64,
-    /// Effective sample size below which a parameter is flagged (default 400).
+    /// Effective sample size below which a parameter is flagged (default 400, after Vehtari
+    /// et al. 2021; from memory).
     pub min_ess: f64,
     /// Seed.
     pub seed: u64,
@@ -93,7 +97,8 @@ pub struct FitCheck {
     pub n: usize,
     /// Share outside the reference model's central 99% predictive range.
     pub share_outside: f64,
-    /// Whether the share is beyond what chance allows (0.01 + 3 binomial SEs).
+    /// Whether the share is beyond what chance allows (0.01 + 3 binomial SEs; the 3 is a
+    /// choice of ours).
     pub flagged: bool,
 }
 

@@ -177,7 +177,8 @@ pub struct RawDnaBlock {
     pub female: RawBeta,
     /// Beta(α, β) of the Y fraction for XY individuals.
     pub male: RawBeta,
-    /// |z| beyond which the Y count fits a sex badly (default 4).
+    /// |z| beyond which the Y count fits a sex badly (default 4: a choice of ours, not a
+    /// published cut-off).
     #[serde(default)]
     pub atypical_z: Option<f64>,
 }
