@@ -6,7 +6,7 @@
 //! Measurements: the technical error of measurement TEM = √(Σ d² / 2n) and its relative form
 //! (TEM / mean, %), and the intra-class correlation ICC(2,1) for absolute agreement (Shrout &
 //! Fleiss 1979, Psychological Bulletin 86:420–428). 95% intervals by a seeded percentile
-//! bootstrap over individuals.
+//! bootstrap over individuals (2000 resamples, a choice of ours).
 
 use crate::catalogue::TraitKind;
 use crate::data::{Assemblage, Observation};
@@ -119,7 +119,8 @@ pub struct Agreement {
     pub only_b: Vec<String>,
     /// Per trait scored by both.
     pub traits: Vec<TraitAgreement>,
-    /// Every disagreement (grades differing, or measurements differing by more than 2 TEM).
+    /// Every disagreement (grades differing, or measurements differing by more than 2 TEM —
+    /// the factor 2 is a choice of ours, not a published rule).
     pub disagreements: Vec<Disagreement>,
 }
 

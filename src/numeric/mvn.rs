@@ -20,7 +20,9 @@ pub struct LnProbability {
 /// Settings of the randomised quasi-Monte Carlo integration.
 #[derive(Debug, Clone, Copy, PartialEq)]
 pub struct QmcSettings {
-    /// Independent random shifts of the lattice (the error estimate is over these).
+    /// Independent random shifts of the lattice (the error estimate is over these). The
+    /// defaults below are choices of ours; that the error bound covers the truth in ≥ 95% of
+    /// seeds is checked against scipy in tests/reference_mvn.rs.
     pub shifts: usize,
     /// Lattice points per shift at the start; doubled until the error target is met.
     pub min_points: usize,
