@@ -37,6 +37,7 @@ pub mod catalogue;
 pub mod cli;
 pub mod data;
 pub mod error;
+pub mod fit;
 pub mod likelihood;
 pub mod model;
 pub mod numeric;

@@ -1,0 +1,660 @@
+//! Fitting latent-trait blocks to a documented reference collection (`dimorph fit`).
+//!
+//! # Method
+//! Two-step maximum likelihood, each parameter from every individual who has the traits it
+//! concerns (missing cells cost only the estimates they belong to; nothing is dropped
+//! listwise):
+//! 1. margins: for each ordinal trait a cumulative probit on a male indicator
+//!    ([`ordinal`]: thresholds, male − female latent shift, within-sex SD 1); for each
+//!    measurement the per-sex mean and the maximum-likelihood SD (divisor n), or one pooled
+//!    within-sex SD when the block's dispersion is `shared`;
+//! 2. correlations given the margins ([`correlation`]): polychoric, polyserial or Pearson,
+//!    pooled over the sexes or per sex;
+//! 3. the correlation matrix made positive definite where the pairwise estimates are not
+//!    ([`repair`]).
+//!
+//! The written model centres each ordinal latent scale between the sexes (female −δ/2, male
+//! +δ/2, thresholds moved by −δ/2), the convention of the shipped models; the table of
+//! estimates reports the identified parameters (thresholds measured from the female latent
+//! mean, and δ) with their standard errors.
+
+pub mod correlation;
+pub mod ordinal;
+pub mod repair;
+pub mod spec;
+
+pub use spec::{BlockSpec, CorrelationSharing, Dispersion, FitSpec};
+
+use crate::catalogue::{Catalogue, TraitKind};
+use crate::data::{Individual, Maturity, Observation, Sex};
+use crate::model::spec::{PerSex, RawBlock, RawLatentBlock, RawLatentTrait, RawModel};
+use correlation::{Margin, PairCase, Value};
+use nalgebra::DMatrix;
+use ordinal::{fit_cumulative_probit, OrdinalScore};
+use serde::Serialize;
+
+/// Default minimum age of the individuals used (years), as for the shipped models.
+pub const DEFAULT_MINIMUM_AGE: f64 = 18.0;
+
+/// Fewer pairs than this and a correlation is set to 0 with a warning (a choice of ours).
+pub const MIN_PAIRS: usize = 5;
+
+/// Fewer pairs than this and a correlation is kept with a warning that it is imprecise (a
+/// choice of ours: the SE of a correlation near 0 is then above about 0.18).
+pub const FEW_PAIRS: usize = 30;
+
+/// One problem that stops a fit.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct FitProblem {
+    /// Where: block and trait.
+    pub place: String,
+    /// What is wrong and what would fix it.
+    pub message: String,
+}
+
+/// A fit that cannot be made, with every problem found.
+#[derive(Debug, Clone, PartialEq, Serialize, thiserror::Error)]
+#[error("{file}: the model cannot be fitted ({} problem{})", problems.len(), if problems.len() == 1 { "" } else { "s" })]
+pub struct FitError {
+    /// The reference file.
+    pub file: String,
+    /// Every problem.
+    pub problems: Vec<FitProblem>,
+}
+
+/// One estimated parameter, for the table of estimates.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct Estimate {
+    /// Block id.
+    pub block: String,
+    /// Trait id (the first of a pair for correlations).
+    pub trait_id: String,
+    /// What the number is.
+    pub parameter: String,
+    /// The scale it is on.
+    pub scale: String,
+    /// Maximum-likelihood estimate.
+    pub estimate: f64,
+    /// Standard error (NaN where not available).
+    pub se: f64,
+    /// Individuals whose records entered it.
+    pub n: usize,
+}
+
+/// Where the reference sample came from, for the model's provenance.
+#[derive(Debug, Clone, PartialEq)]
+pub struct ReferenceInfo {
+    /// File as named.
+    pub file: String,
+    /// SHA-256 of its bytes.
+    pub sha256: String,
+    /// The command that fitted it.
+    pub command: String,
+}
+
+/// A fitted model, its estimates and the warnings a person should read.
+#[derive(Debug, Clone)]
+pub struct Fitted {
+    /// The model, ready to be written as YAML.
+    pub model: RawModel,
+    /// Every estimate with its standard error.
+    pub estimates: Vec<Estimate>,
+    /// Things to look at before using the model.
+    pub warnings: Vec<String>,
+    /// Females used.
+    pub n_female: usize,
+    /// Males used.
+    pub n_male: usize,
+}
+
+impl Fitted {
+    /// The model as YAML text.
+    ///
+    /// # Errors
+    /// A serialisation message (not expected for finite estimates).
+    pub fn to_yaml(&self) -> Result<String, String> {
+        serde_yaml::to_string(&self.model).map_err(|e| e.to_string())
+    }
+
+    /// The table of estimates as CSV: block, trait, parameter, scale, estimate, se, lower_95,
+    /// upper_95, n.
+    pub fn estimates_csv(&self) -> Vec<u8> {
+        let mut rows = vec![crate::report::header(&[
+            "block",
+            "trait",
+            "parameter",
+            "scale",
+            "estimate",
+            "se",
+            "lower_95",
+            "upper_95",
+            "n",
+        ])];
+        let f = |x: f64| {
+            if x.is_finite() {
+                format!("{x:.6}")
+            } else {
+                String::new()
+            }
+        };
+        for e in &self.estimates {
+            rows.push(vec![
+                e.block.clone(),
+                e.trait_id.clone(),
+                e.parameter.clone(),
+                e.scale.clone(),
+                f(e.estimate),
+                f(e.se),
+                f(e.estimate - 1.96 * e.se),
+                f(e.estimate + 1.96 * e.se),
+                e.n.to_string(),
+            ]);
+        }
+        crate::report::csv_bytes(rows)
+    }
+}
+
+/// Check a specification against the catalogue (spec traits already added): every block id
+/// valid and unique, every trait known, ordinal or metric, and in one block only.
+///
+/// # Errors
+/// Every problem found, one line each.
+pub fn check_spec(spec: &FitSpec, catalogue: &Catalogue) -> Result<(), Vec<String>> {
+    let mut problems = Vec::new();
+    if spec.blocks.is_empty() {
+        problems.push("`blocks`: name at least one block to fit".to_string());
+    }
+    let mut seen_traits: Vec<&str> = Vec::new();
+    for (i, b) in spec.blocks.iter().enumerate() {
+        if let Err(m) = crate::catalogue::valid_id(&b.id) {
+            problems.push(format!("block {}: id `{}`: {m}", i + 1, b.id));
+        }
+        if spec.blocks[..i].iter().any(|o| o.id == b.id) {
+            problems.push(format!("block `{}`: block ids must be unique", b.id));
+        }
+        if b.traits.is_empty() {
+            problems.push(format!("block `{}`: list at least one trait", b.id));
+        }
+        for t in &b.traits {
+            match catalogue.get(t) {
+                None => problems.push(format!(
+                    "block `{}`: trait `{t}` is neither in the catalogue nor defined under `traits:`",
+                    b.id
+                )),
+                Some(def) if matches!(def.kind, TraitKind::Count) => problems.push(format!(
+                    "block `{}`: trait `{t}` is a count; latent blocks take ordinal and metric traits",
+                    b.id
+                )),
+                Some(_) => {}
+            }
+            if seen_traits.contains(&t.as_str()) {
+                problems.push(format!(
+                    "block `{}`: trait `{t}` is listed twice; a trait may serve one block only",
+                    b.id
+                ));
+            }
+            seen_traits.push(t);
+        }
+    }
+    if let Some(age) = spec.minimum_age {
+        if !(age.is_finite() && (0.0..=100.0).contains(&age)) {
+            problems.push(format!("`minimum_age`: years from 0 to 100, found {age}"));
+        }
+    }
+    if problems.is_empty() {
+        Ok(())
+    } else {
+        Err(problems)
+    }
+}
+
+/// Fit every block of `spec` to the reference individuals (each with its documented sex).
+///
+/// Individuals below the minimum age are left out (a warning says how many).
+///
+/// # Errors
+/// [`FitError`] listing every block and trait that cannot be estimated.
+pub fn fit(
+    spec: &FitSpec,
+    catalogue: &Catalogue,
+    reference: &[(&Individual, Sex)],
+    info: &ReferenceInfo,
+) -> Result<Fitted, FitError> {
+    let minimum_age = spec.minimum_age.unwrap_or(DEFAULT_MINIMUM_AGE);
+    let mut warnings = Vec::new();
+    let used: Vec<(&Individual, Sex)> = reference
+        .iter()
+        .filter(|(ind, _)| {
+            !matches!(
+                ind.age.as_ref().map(|a| a.maturity(minimum_age)),
+                Some(Maturity::Subadult)
+            )
+        })
+        .copied()
+        .collect();
+    if used.len() < reference.len() {
+        warnings.push(format!(
+            "{} individuals younger than {minimum_age} years were left out of the fit",
+            reference.len() - used.len()
+        ));
+    }
+    let n_female = used.iter().filter(|(_, s)| *s == Sex::Female).count();
+    let n_male = used.len() - n_female;
+    let mut problems = Vec::new();
+    let mut estimates = Vec::new();
+    let mut blocks = Vec::new();
+    for b in &spec.blocks {
+        if let Some(block) = fit_block(
+            b,
+            catalogue,
+            &used,
+            &mut estimates,
+            &mut warnings,
+            &mut problems,
+        ) {
+            blocks.push(RawBlock::Latent(block));
+        }
+    }
+    if !problems.is_empty() {
+        return Err(FitError {
+            file: info.file.clone(),
+            problems,
+        });
+    }
+    let traits = spec
+        .traits
+        .iter()
+        .filter(|t| spec.blocks.iter().any(|b| b.traits.contains(&t.id)))
+        .cloned()
+        .collect();
+    let provenance = format!(
+        "FITTED by dimorph {} to the reference file {} (SHA-256 {}), {} females and {} males \
+         of documented sex aged {minimum_age} years or more (or of unknown age).\n\
+         Command: {}\n\
+         Method: two-step maximum likelihood with pairwise-available cases: cumulative probit \
+         margins for ordinal traits (McCullagh 1980), per-sex means and ML SDs for \
+         measurements, then polychoric (Olsson 1979), polyserial (Olsson, Drasgow & Dorans \
+         1982) or Pearson correlations given the margins, repaired to positive definite by \
+         eigenvalue clipping where needed. Standard errors are in the table of estimates \
+         written beside this file.{}\n",
+        env!("CARGO_PKG_VERSION"),
+        info.file,
+        info.sha256,
+        n_female,
+        n_male,
+        info.command,
+        if warnings.is_empty() {
+            String::new()
+        } else {
+            format!("\nWarnings at fitting:\n- {}", warnings.join("\n- "))
+        }
+    );
+    Ok(Fitted {
+        model: RawModel {
+            name: spec.name.clone(),
+            description: spec.description.clone(),
+            provenance,
+            minimum_age: Some(minimum_age),
+            traits,
+            blocks,
+        },
+        estimates,
+        warnings,
+        n_female,
+        n_male,
+    })
+}
+
+/// One trait's values among the individuals used (index into `used`, sex index, value).
+type TraitValues = Vec<(usize, usize, Value)>;
+
+fn fit_block(
+    b: &BlockSpec,
+    catalogue: &Catalogue,
+    used: &[(&Individual, Sex)],
+    estimates: &mut Vec<Estimate>,
+    warnings: &mut Vec<String>,
+    problems: &mut Vec<FitProblem>,
+) -> Option<RawLatentBlock> {
+    let start = problems.len();
+    let mut margins: Vec<Margin> = Vec::new();
+    let mut values: Vec<TraitValues> = Vec::new();
+    let mut written: Vec<RawLatentTrait> = Vec::new();
+    for t in &b.traits {
+        let place = format!("block `{}`, trait `{t}`", b.id);
+        let (Some(index), Some(def)) = (catalogue.position(t), catalogue.get(t)) else {
+            problems.push(FitProblem {
+                place,
+                message: "not a trait of the catalogue".into(),
+            });
+            continue;
+        };
+        let lowest = match def.kind {
+            TraitKind::Ordinal { lowest, .. } => lowest,
+            _ => 0,
+        };
+        let vals: TraitValues = used
+            .iter()
+            .enumerate()
+            .filter_map(|(i, (ind, sex))| {
+                let s = usize::from(*sex == Sex::Male);
+                match ind.observations.get(index).copied().flatten()? {
+                    Observation::Grade { low, high } => Some((
+                        i,
+                        s,
+                        Value::Grade((low - lowest) as usize, (high - lowest) as usize),
+                    )),
+                    Observation::Measurement { value } => Some((i, s, Value::Measure(value))),
+                    Observation::Count { .. } => None,
+                }
+            })
+            .collect();
+        let n_sex = [
+            vals.iter().filter(|v| v.1 == 0).count(),
+            vals.iter().filter(|v| v.1 == 1).count(),
+        ];
+        if n_sex[0] < 2 || n_sex[1] < 2 {
+            problems.push(FitProblem {
+                place,
+                message: format!(
+                    "recorded for {} females and {} males; at least 2 of each are needed",
+                    n_sex[0], n_sex[1]
+                ),
+            });
+            continue;
+        }
+        let n = vals.len();
+        match &def.kind {
+            TraitKind::Ordinal { .. } => {
+                let k = def.kind.n_grades().unwrap_or(2);
+                let scores: Vec<OrdinalScore> = vals
+                    .iter()
+                    .filter_map(|&(_, s, v)| match v {
+                        Value::Grade(low, high) => Some(OrdinalScore {
+                            male: s == 1,
+                            low,
+                            high,
+                        }),
+                        Value::Measure(_) => None,
+                    })
+                    .collect();
+                for g in 0..k {
+                    for (s, word) in [(0, "female"), (1, "male")] {
+                        let seen = scores
+                            .iter()
+                            .any(|x| usize::from(x.male) == s && x.low == g && x.high == g);
+                        if !seen {
+                            warnings.push(format!(
+                                "{place}: grade {} is never recorded for a {word}",
+                                g as i32 + lowest
+                            ));
+                        }
+                    }
+                }
+                match fit_cumulative_probit(&scores, k) {
+                    Err(e) => {
+                        let message = match e {
+                            ordinal::OrdinalFitError::GradeNeverSeen(g) => format!(
+                                "grade {} is never recorded, so its threshold cannot be estimated; \
+                                 map the scores onto fewer grades (--scale-map) or record more individuals",
+                                g as i32 + lowest
+                            ),
+                            other => other.to_string(),
+                        };
+                        problems.push(FitProblem { place, message });
+                        continue;
+                    }
+                    Ok(f) => {
+                        let scale = "latent, female mean 0, within-sex SD 1";
+                        for (j, (th, se)) in f.thresholds.iter().zip(&f.threshold_se).enumerate() {
+                            estimates.push(Estimate {
+                                block: b.id.clone(),
+                                trait_id: t.clone(),
+                                parameter: format!(
+                                    "threshold {}|{}",
+                                    j as i32 + lowest,
+                                    j as i32 + lowest + 1
+                                ),
+                                scale: scale.into(),
+                                estimate: *th,
+                                se: *se,
+                                n,
+                            });
+                        }
+                        estimates.push(Estimate {
+                            block: b.id.clone(),
+                            trait_id: t.clone(),
+                            parameter: "male - female latent mean".into(),
+                            scale: scale.into(),
+                            estimate: f.shift,
+                            se: f.shift_se,
+                            n,
+                        });
+                        let half = 0.5 * f.shift;
+                        written.push(RawLatentTrait {
+                            id: t.clone(),
+                            thresholds: Some(f.thresholds.iter().map(|x| round(x - half)).collect()),
+                            mean: PerSex {
+                                female: round(-half),
+                                male: round(half),
+                            },
+                            sd: None,
+                        });
+                        margins.push(Margin::Ordinal {
+                            thresholds: f.thresholds.clone(),
+                            mean: [0.0, f.shift],
+                        });
+                    }
+                }
+            }
+            TraitKind::Metric { unit, .. } => {
+                let mut sum = [0.0; 2];
+                for &(_, s, v) in &vals {
+                    if let Value::Measure(x) = v {
+                        sum[s] += x;
+                    }
+                }
+                let mean = [sum[0] / n_sex[0] as f64, sum[1] / n_sex[1] as f64];
+                let mut ss = [0.0; 2];
+                for &(_, s, v) in &vals {
+                    if let Value::Measure(x) = v {
+                        ss[s] += (x - mean[s]).powi(2);
+                    }
+                }
+                let sd = match b.dispersion {
+                    Dispersion::PerSex => [
+                        (ss[0] / n_sex[0] as f64).sqrt(),
+                        (ss[1] / n_sex[1] as f64).sqrt(),
+                    ],
+                    Dispersion::Shared => {
+                        let pooled = ((ss[0] + ss[1]) / n as f64).sqrt();
+                        [pooled, pooled]
+                    }
+                };
+                if !(sd[0] > 0.0 && sd[1] > 0.0) {
+                    problems.push(FitProblem {
+                        place,
+                        message: "every recorded value of one sex is the same; an SD of 0 cannot be used".into(),
+                    });
+                    continue;
+                }
+                for (s, word) in [(0, "female"), (1, "male")] {
+                    estimates.push(Estimate {
+                        block: b.id.clone(),
+                        trait_id: t.clone(),
+                        parameter: format!("mean {word}"),
+                        scale: unit.clone(),
+                        estimate: mean[s],
+                        se: sd[s] / (n_sex[s] as f64).sqrt(),
+                        n: n_sex[s],
+                    });
+                }
+                match b.dispersion {
+                    Dispersion::PerSex => {
+                        for (s, word) in [(0, "female"), (1, "male")] {
+                            estimates.push(Estimate {
+                                block: b.id.clone(),
+                                trait_id: t.clone(),
+                                parameter: format!("sd {word}"),
+                                scale: unit.clone(),
+                                estimate: sd[s],
+                                se: sd[s] / (2.0 * n_sex[s] as f64).sqrt(),
+                                n: n_sex[s],
+                            });
+                        }
+                    }
+                    Dispersion::Shared => estimates.push(Estimate {
+                        block: b.id.clone(),
+                        trait_id: t.clone(),
+                        parameter: "sd within sex (pooled)".into(),
+                        scale: unit.clone(),
+                        estimate: sd[0],
+                        se: sd[0] / (2.0 * n as f64).sqrt(),
+                        n,
+                    }),
+                }
+                written.push(RawLatentTrait {
+                    id: t.clone(),
+                    thresholds: None,
+                    mean: PerSex {
+                        female: round(mean[0]),
+                        male: round(mean[1]),
+                    },
+                    sd: Some(PerSex {
+                        female: round(sd[0]),
+                        male: round(sd[1]),
+                    }),
+                });
+                margins.push(Margin::Metric { mean, sd });
+            }
+            TraitKind::Count => {
+                problems.push(FitProblem {
+                    place,
+                    message: "a count cannot enter a latent block".into(),
+                });
+                continue;
+            }
+        }
+        values.push(vals);
+    }
+    if problems.len() > start {
+        return None;
+    }
+    let p = b.traits.len();
+    let sexes: &[&[usize]] = match b.correlation {
+        CorrelationSharing::None => &[],
+        CorrelationSharing::Shared => &[&[0, 1]],
+        CorrelationSharing::PerSex => &[&[0], &[1]],
+    };
+    let mut matrices: Vec<DMatrix<f64>> = Vec::new();
+    for (which, sex_set) in sexes.iter().enumerate() {
+        let label = match (b.correlation, which) {
+            (CorrelationSharing::PerSex, 0) => "correlation female with ",
+            (CorrelationSharing::PerSex, _) => "correlation male with ",
+            _ => "correlation with ",
+        };
+        let mut r = DMatrix::identity(p, p);
+        for j in 0..p {
+            for k in j + 1..p {
+                let cases = pair_cases(&values[j], &values[k], sex_set);
+                let place = format!(
+                    "block `{}`: {}{} and {}",
+                    b.id,
+                    label.trim_end_matches(" with "),
+                    b.traits[j],
+                    b.traits[k]
+                );
+                let e = if cases.len() < MIN_PAIRS {
+                    warnings.push(format!(
+                        "{place}: only {} individuals have both; the correlation is set to 0",
+                        cases.len()
+                    ));
+                    correlation::CorrelationEstimate {
+                        rho: 0.0,
+                        se: f64::NAN,
+                        n: cases.len(),
+                        method: "none (too few pairs)",
+                    }
+                } else {
+                    if cases.len() < FEW_PAIRS {
+                        warnings.push(format!(
+                            "{place}: only {} individuals have both; the correlation is imprecise",
+                            cases.len()
+                        ));
+                    }
+                    correlation::estimate(&margins[j], &margins[k], &cases)
+                };
+                r[(j, k)] = e.rho;
+                r[(k, j)] = e.rho;
+                estimates.push(Estimate {
+                    block: b.id.clone(),
+                    trait_id: b.traits[j].clone(),
+                    parameter: format!("{label}{} ({})", b.traits[k], e.method),
+                    scale: "correlation within sex".into(),
+                    estimate: e.rho,
+                    se: e.se,
+                    n: e.n,
+                });
+            }
+        }
+        let (fixed, smallest) = repair::make_positive_definite(&r, repair::EIGENVALUE_FLOOR);
+        if let Some(s) = smallest {
+            warnings.push(format!(
+                "block `{}`: the pairwise correlations did not form a positive-definite matrix \
+                 (smallest eigenvalue {s:.4}); it was repaired by eigenvalue clipping",
+                b.id
+            ));
+        }
+        matrices.push(fixed);
+    }
+    let rows = |m: &DMatrix<f64>| -> Vec<Vec<f64>> {
+        (0..p)
+            .map(|i| (0..p).map(|j| round(m[(i, j)])).collect())
+            .collect()
+    };
+    let (correlation, correlation_female, correlation_male) = match matrices.as_slice() {
+        [shared] => (Some(rows(shared)), None, None),
+        [f, m] => (None, Some(rows(f)), Some(rows(m))),
+        _ => (None, None, None),
+    };
+    Some(RawLatentBlock {
+        id: b.id.clone(),
+        label: if b.label.is_empty() {
+            b.id.clone()
+        } else {
+            b.label.clone()
+        },
+        traits: written,
+        correlation,
+        correlation_female,
+        correlation_male,
+    })
+}
+
+/// Cases with both traits recorded, among the given sexes.
+fn pair_cases(first: &TraitValues, second: &TraitValues, sexes: &[usize]) -> Vec<PairCase> {
+    let mut out = Vec::new();
+    let mut k = 0;
+    for &(i, s, v) in first {
+        while k < second.len() && second[k].0 < i {
+            k += 1;
+        }
+        if k < second.len() && second[k].0 == i && sexes.contains(&s) {
+            out.push(PairCase {
+                sex: s,
+                first: v,
+                second: second[k].2,
+            });
+        }
+    }
+    out
+}
+
+/// Round to 10 significant decimals so the written model reads cleanly and is stable.
+fn round(x: f64) -> f64 {
+    (x * 1e10).round() / 1e10
+}
+
+#[cfg(test)]
+#[path = "tests/fit.rs"]
+mod tests;

@@ -1,0 +1,94 @@
+//! The fitting specification (`--traits SPEC`): which blocks to fit, with which traits, and how
+//! their dispersion and correlation are shared between the sexes.
+//!
+//! ```yaml
+//! name: lab-reference-2026          # name of the model written
+//! description: One paragraph.       # optional
+//! traits: []                        # optional: definitions of traits not in the catalogue,
+//!                                   # in the catalogue's form (id, name, region, kind, …)
+//! blocks:
+//!   - id: cranium
+//!     label: Cranial traits          # optional
+//!     traits: [glabella, mastoid, nuchal_crest]
+//!     dispersion: per-sex            # metric SDs: per-sex (default) or shared
+//!     correlation: shared            # shared (default), per-sex, or none (independent)
+//! ```
+//!
+//! A trait's kind (ordinal with its grades, metric with its unit) comes from its catalogue
+//! entry or from its definition under `traits:`.
+
+use crate::catalogue::RawTrait;
+use serde::{Deserialize, Serialize};
+
+/// How metric SDs are shared between the sexes.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Default, Deserialize, Serialize)]
+#[serde(rename_all = "kebab-case")]
+pub enum Dispersion {
+    /// One SD per sex.
+    #[default]
+    PerSex,
+    /// One pooled within-sex SD for both sexes.
+    Shared,
+}
+
+/// How the within-sex correlation matrix is shared between the sexes.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Default, Deserialize, Serialize)]
+#[serde(rename_all = "kebab-case")]
+pub enum CorrelationSharing {
+    /// One pooled within-sex correlation matrix.
+    #[default]
+    Shared,
+    /// One correlation matrix per sex.
+    PerSex,
+    /// Traits independent given sex (identity).
+    None,
+}
+
+/// One block to fit.
+#[derive(Debug, Clone, Deserialize, Serialize)]
+#[serde(deny_unknown_fields)]
+pub struct BlockSpec {
+    /// Block id.
+    pub id: String,
+    /// Readable label.
+    #[serde(default)]
+    pub label: String,
+    /// Trait ids in matrix order.
+    pub traits: Vec<String>,
+    /// Metric SDs per sex or shared.
+    #[serde(default)]
+    pub dispersion: Dispersion,
+    /// Correlation shared, per sex, or none.
+    #[serde(default)]
+    pub correlation: CorrelationSharing,
+}
+
+/// A fitting specification.
+#[derive(Debug, Clone, Deserialize, Serialize)]
+#[serde(deny_unknown_fields)]
+pub struct FitSpec {
+    /// Name of the model to write.
+    pub name: String,
+    /// One paragraph on what the model is for.
+    #[serde(default)]
+    pub description: String,
+    /// Years below which individuals are left out of the fit (and morphological blocks unused
+    /// in the model). Default 18.
+    #[serde(default)]
+    pub minimum_age: Option<f64>,
+    /// Definitions of traits not in the catalogue.
+    #[serde(default)]
+    pub traits: Vec<RawTrait>,
+    /// Blocks to fit.
+    pub blocks: Vec<BlockSpec>,
+}
+
+impl FitSpec {
+    /// Parse a specification document.
+    ///
+    /// # Errors
+    /// The YAML error as text.
+    pub fn from_yaml(text: &str) -> Result<FitSpec, String> {
+        serde_yaml::from_str(text).map_err(|e| format!("not a valid fitting specification: {e}"))
+    }
+}
