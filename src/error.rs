@@ -2,6 +2,7 @@
 
 use crate::catalogue::CatalogueError;
 use crate::data::InputError;
+use crate::fit::FitError;
 use crate::model::ModelError;
 use std::path::PathBuf;
 
@@ -18,6 +19,9 @@ pub enum Error {
     /// A model file is invalid (every problem is listed inside).
     #[error(transparent)]
     Model(#[from] ModelError),
+    /// A reference sample cannot support the model asked for (every problem is listed inside).
+    #[error(transparent)]
+    Fit(#[from] FitError),
     /// A settings file (scale map, prior) or option is invalid.
     #[error("{file}: {message}")]
     Settings {
@@ -41,7 +45,7 @@ impl Error {
     /// 3 input problems, 4 settings problems, 5 file access.
     pub fn exit_code(&self) -> i32 {
         match self {
-            Error::Input(_) => 3,
+            Error::Input(_) | Error::Fit(_) => 3,
             Error::Catalogue(_) | Error::Model(_) | Error::Settings { .. } => 4,
             Error::Io { .. } => 5,
         }

@@ -46,6 +46,7 @@ pub mod prior;
 pub mod report;
 pub mod sim;
 pub mod summary;
+pub mod validate;
 
 pub use error::Error;
 

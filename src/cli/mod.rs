@@ -5,9 +5,11 @@ pub mod agreement;
 pub mod analyse;
 pub mod check;
 pub mod evidence;
+pub mod fit;
 pub mod input;
 pub mod plan;
 pub mod simulate;
+pub mod validate;
 
 use clap::{Parser, Subcommand};
 
@@ -39,6 +41,10 @@ pub enum Command {
     Plan(plan::Args),
     /// How well two observers' scorings of the same individuals agree.
     Agreement(agreement::Args),
+    /// Fit a model to a documented reference collection (individuals of known sex).
+    Fit(fit::Args),
+    /// Error rates of a model on a documented reference collection, by cross-validation.
+    Validate(validate::Args),
 }
 
 /// Run a parsed command line; returns the process exit code.
@@ -50,6 +56,8 @@ pub fn run(cli: Cli) -> i32 {
         Command::Simulate(args) => simulate::run(args),
         Command::Plan(args) => plan::run(args),
         Command::Agreement(args) => agreement::run(args),
+        Command::Fit(args) => fit::run(args),
+        Command::Validate(args) => validate::run(args),
     };
     match result {
         Ok(code) => code,

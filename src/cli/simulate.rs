@@ -33,6 +33,10 @@ pub struct Args {
     /// Seed (same seed, same file).
     #[arg(long, default_value_t = 1)]
     pub seed: u64,
+    /// Write the sex as `known_sex` (documented sex) instead of `true_sex`: a simulated
+    /// reference collection for `dimorph fit` and `dimorph validate`.
+    #[arg(long)]
+    pub as_reference: bool,
     /// Where to write the table (CSV).
     #[arg(long, value_name = "FILE")]
     pub out: PathBuf,
@@ -77,17 +81,32 @@ pub fn run(args: Args) -> Result<i32, Error> {
     if let Some(m) = &args.model {
         protected.push(m.as_path());
     }
-    write_atomic(&args.out, &sim.to_csv(&model), &protected)?;
+    let column = if args.as_reference {
+        "known_sex"
+    } else {
+        "true_sex"
+    };
+    write_atomic(
+        &args.out,
+        &sim.to_csv_with_sex_column(&model, column),
+        &protected,
+    )?;
     let females = sim
         .true_sex
         .iter()
         .filter(|s| **s == crate::data::Sex::Female)
         .count();
     println!(
-        "Simulated {} individuals ({} female, {} male; the truth is in the `true_sex` column, never used as evidence) from model {} into {}",
+        "Simulated {} individuals ({} female, {} male; the truth is in the `{}` column{}) from model {} into {}",
         total,
         females,
         total - females,
+        column,
+        if args.as_reference {
+            ", as documented sex of a reference collection"
+        } else {
+            ", never used as evidence"
+        },
         model.name,
         args.out.display()
     );

@@ -116,7 +116,11 @@ pub fn estimate(first: &Margin, second: &Margin, cases: &[PairCase]) -> Correlat
             let (lo, hi) = ((rho - h).max(-0.9999), (rho + h).min(0.9999));
             let mid = 0.5 * (lo + hi);
             let d2 = (ll(hi) - 2.0 * ll(mid) + ll(lo)) / (0.25 * (hi - lo) * (hi - lo));
-            let se = if d2 < 0.0 { (-1.0 / d2).sqrt() } else { f64::NAN };
+            let se = if d2 < 0.0 {
+                (-1.0 / d2).sqrt()
+            } else {
+                f64::NAN
+            };
             CorrelationEstimate { rho, se, n, method }
         }
     }
@@ -143,8 +147,18 @@ pub fn pair_log_likelihood(first: &Margin, second: &Margin, cases: &[PairCase], 
                 let (a2, b2) = latent_bounds(t2, l2, h2, m2[c.sex]);
                 bvn_rectangle([a1, a2], [b1, b2], rho).max(1e-300).ln()
             }
-            (Margin::Ordinal { thresholds, mean }, Margin::Metric { mean: mm, sd }, Value::Grade(l, h), Value::Measure(x))
-            | (Margin::Metric { mean: mm, sd }, Margin::Ordinal { thresholds, mean }, Value::Measure(x), Value::Grade(l, h)) => {
+            (
+                Margin::Ordinal { thresholds, mean },
+                Margin::Metric { mean: mm, sd },
+                Value::Grade(l, h),
+                Value::Measure(x),
+            )
+            | (
+                Margin::Metric { mean: mm, sd },
+                Margin::Ordinal { thresholds, mean },
+                Value::Measure(x),
+                Value::Grade(l, h),
+            ) => {
                 let z = (x - mm[c.sex]) / sd[c.sex];
                 let (a, b) = latent_bounds(thresholds, l, h, mean[c.sex]);
                 let s = (1.0 - rho * rho).sqrt();

@@ -261,12 +261,9 @@ pub fn fit(
             problems,
         });
     }
-    let traits = spec
-        .traits
-        .iter()
-        .filter(|t| spec.blocks.iter().any(|b| b.traits.contains(&t.id)))
-        .cloned()
-        .collect();
+    // Every definition is kept, in order, so that the model's catalogue has the same trait
+    // order as the catalogue the reference was read with.
+    let traits = spec.traits.clone();
     let provenance = format!(
         "FITTED by dimorph {} to the reference file {} (SHA-256 {}), {} females and {} males \
          of documented sex aged {minimum_age} years or more (or of unknown age).\n\
@@ -433,7 +430,9 @@ fn fit_block(
                         let half = 0.5 * f.shift;
                         written.push(RawLatentTrait {
                             id: t.clone(),
-                            thresholds: Some(f.thresholds.iter().map(|x| round(x - half)).collect()),
+                            thresholds: Some(
+                                f.thresholds.iter().map(|x| round(x - half)).collect(),
+                            ),
                             mean: PerSex {
                                 female: round(-half),
                                 male: round(half),
@@ -474,7 +473,9 @@ fn fit_block(
                 if !(sd[0] > 0.0 && sd[1] > 0.0) {
                     problems.push(FitProblem {
                         place,
-                        message: "every recorded value of one sex is the same; an SD of 0 cannot be used".into(),
+                        message:
+                            "every recorded value of one sex is the same; an SD of 0 cannot be used"
+                                .into(),
                     });
                     continue;
                 }

@@ -57,7 +57,9 @@ pub enum OrdinalFitError {
     #[error("scores of both sexes are needed to estimate the difference between them")]
     OneSexOnly,
     /// Newton did not converge (separation: one sex always at one end of the scale).
-    #[error("the likelihood has no finite maximum (the sexes are perfectly separated on this trait)")]
+    #[error(
+        "the likelihood has no finite maximum (the sexes are perfectly separated on this trait)"
+    )]
     NoMaximum,
 }
 

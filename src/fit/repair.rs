@@ -16,7 +16,11 @@ pub fn make_positive_definite(r: &DMatrix<f64>, floor: f64) -> (DMatrix<f64>, Op
     let n = r.nrows();
     let sym = (r + r.transpose()) * 0.5;
     let eig = sym.clone().symmetric_eigen();
-    let smallest = eig.eigenvalues.iter().copied().fold(f64::INFINITY, f64::min);
+    let smallest = eig
+        .eigenvalues
+        .iter()
+        .copied()
+        .fold(f64::INFINITY, f64::min);
     if smallest >= floor {
         return (sym, None);
     }

@@ -41,10 +41,10 @@ pub struct RawModel {
     /// Sources, what is from memory, what is illustrative.
     pub provenance: String,
     /// Years below which morphological blocks are not used.
-    #[serde(default)]
+    #[serde(default, skip_serializing_if = "Option::is_none")]
     pub minimum_age: Option<f64>,
     /// Extra trait definitions.
-    #[serde(default)]
+    #[serde(default, skip_serializing_if = "Vec::is_empty")]
     pub traits: Vec<RawTrait>,
     /// Evidence blocks.
     pub blocks: Vec<RawBlock>,
@@ -84,13 +84,13 @@ pub struct RawLatentBlock {
     /// The traits, in the order of the correlation matrix.
     pub traits: Vec<RawLatentTrait>,
     /// Shared within-sex correlation matrix.
-    #[serde(default)]
+    #[serde(default, skip_serializing_if = "Option::is_none")]
     pub correlation: Option<Vec<Vec<f64>>>,
     /// Female within-sex correlation (with `correlation_male`).
-    #[serde(default)]
+    #[serde(default, skip_serializing_if = "Option::is_none")]
     pub correlation_female: Option<Vec<Vec<f64>>>,
     /// Male within-sex correlation (with `correlation_female`).
-    #[serde(default)]
+    #[serde(default, skip_serializing_if = "Option::is_none")]
     pub correlation_male: Option<Vec<Vec<f64>>>,
 }
 
@@ -101,12 +101,12 @@ pub struct RawLatentTrait {
     /// Catalogue trait id.
     pub id: String,
     /// Ordinal thresholds (latent scale), one fewer than the grades.
-    #[serde(default)]
+    #[serde(default, skip_serializing_if = "Option::is_none")]
     pub thresholds: Option<Vec<f64>>,
     /// Mean per sex (latent scale for ordinal traits, unit of measurement for metric).
     pub mean: PerSex,
     /// SD per sex (metric traits only).
-    #[serde(default)]
+    #[serde(default, skip_serializing_if = "Option::is_none")]
     pub sd: Option<PerSex>,
 }
 

@@ -337,3 +337,64 @@ pub fn age_figure(age: &AgeBySex) -> Result<String, FigureError> {
     }
     Ok(s)
 }
+
+/// Reliability of predicted probabilities: for each bin of P(female), the share of
+/// documented females (dots, with 95% Wilson intervals as bars) against the mean predicted
+/// P(female); the dashed diagonal is perfect calibration. `bins` holds
+/// (mean predicted, observed share, n).
+pub fn calibration_figure(bins: &[(f64, f64, usize)]) -> Result<String, FigureError> {
+    register_font();
+    let name = "calibration";
+    let mut s = String::new();
+    {
+        let root = SVGBackend::with_string(&mut s, (520, 520)).into_drawing_area();
+        root.fill(&WHITE).map_err(fail(name))?;
+        let mut c = ChartBuilder::on(&root)
+            .caption(
+                "Predicted P(female) against the documented share female",
+                ("sans-serif", 15),
+            )
+            .margin(14)
+            .x_label_area_size(42)
+            .y_label_area_size(50)
+            .build_cartesian_2d(0f64..1f64, 0f64..1f64)
+            .map_err(fail(name))?;
+        c.configure_mesh()
+            .x_desc("mean predicted P(female) in the bin")
+            .y_desc("share of documented females")
+            .draw()
+            .map_err(fail(name))?;
+        c.draw_series(DashedLineSeries::new(
+            vec![(0.0, 0.0), (1.0, 1.0)],
+            5,
+            4,
+            RGBColor(150, 150, 150).into(),
+        ))
+        .map_err(fail(name))?;
+        let used: Vec<_> = bins.iter().filter(|b| b.2 > 0).collect();
+        c.draw_series(used.iter().map(|&&(p, obs, n)| {
+            let (lo, hi) = wilson(obs, n);
+            PathElement::new(vec![(p, lo), (p, hi)], RGBColor(90, 90, 90))
+        }))
+        .map_err(fail(name))?;
+        c.draw_series(
+            used.iter()
+                .map(|&&(p, obs, _)| Circle::new((p, obs), 4, BLACK.filled())),
+        )
+        .map_err(fail(name))?;
+        root.present().map_err(fail(name))?;
+    }
+    Ok(s)
+}
+
+/// 95% Wilson score interval of a proportion (Wilson 1927, J Am Stat Assoc 22:209–212).
+pub fn wilson(share: f64, n: usize) -> (f64, f64) {
+    if n == 0 {
+        return (0.0, 1.0);
+    }
+    let z = 1.959_963_984_540_054_f64;
+    let n = n as f64;
+    let centre = (share + z * z / (2.0 * n)) / (1.0 + z * z / n);
+    let half = z / (1.0 + z * z / n) * (share * (1.0 - share) / n + z * z / (4.0 * n * n)).sqrt();
+    ((centre - half).max(0.0), (centre + half).min(1.0))
+}

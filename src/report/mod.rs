@@ -3,6 +3,7 @@
 pub mod analysis;
 pub mod figures;
 pub mod publication;
+pub mod validation;
 
 pub use analysis::{AnalysisFiles, RunInfo};
 

@@ -170,6 +170,12 @@ impl Simulated {
     /// The assemblage as CSV in the input contract: `id`, `group` (when named), `age`, one
     /// column per simulated trait, and `true_sex` (a carried column, never evidence).
     pub fn to_csv(&self, model: &Model) -> Vec<u8> {
+        self.to_csv_with_sex_column(model, "true_sex")
+    }
+
+    /// As [`Simulated::to_csv`], with the sex in a column of the given name: `known_sex` makes
+    /// a simulated reference collection of documented sex (for `dimorph fit` and `validate`).
+    pub fn to_csv_with_sex_column(&self, model: &Model, sex_column: &str) -> Vec<u8> {
         let cat = &model.catalogue;
         let grouped = self.individuals.iter().any(|i| i.group.is_some());
         let mut w = csv::WriterBuilder::new()
@@ -185,7 +191,7 @@ impl Simulated {
                 .iter()
                 .map(|&t| cat.traits()[t].id.clone()),
         );
-        head.push("true_sex".into());
+        head.push(sex_column.into());
         let _ = w.write_record(&head);
         for (ind, sex) in self.individuals.iter().zip(&self.true_sex) {
             let mut r = vec![ind.id.clone()];

@@ -51,7 +51,12 @@ fn truth(model: &Model, e: &Estimate) -> Option<f64> {
         "sd female" => Some(block.cov[0][(j, j)].sqrt()),
         "sd male" => Some(block.cov[1][(j, j)].sqrt()),
         _ => {
-            let k: usize = p.strip_prefix("threshold ")?.split('|').next()?.parse().ok()?;
+            let k: usize = p
+                .strip_prefix("threshold ")?
+                .split('|')
+                .next()?
+                .parse()
+                .ok()?;
             match &block.traits[j].kind {
                 crate::model::latent::LatentKind::Ordinal { thresholds, lowest } => {
                     Some(thresholds[(k as i32 - lowest) as usize] - mf)
@@ -67,14 +72,26 @@ fn fitting_a_simulated_reference_recovers_the_model_within_its_intervals() {
     let (model, sim) = reference(2000, "trait=0.2,range=0.03", 41);
     let spec = FitSpec::from_yaml(SPEC).unwrap();
     check_spec(&spec, &model.catalogue).unwrap();
-    let refs: Vec<_> = sim.individuals.iter().zip(sim.true_sex.iter().copied()).collect();
+    let refs: Vec<_> = sim
+        .individuals
+        .iter()
+        .zip(sim.true_sex.iter().copied())
+        .collect();
     let fitted = fit(&spec, &model.catalogue, &refs, &info()).unwrap();
     let mut covered = 0;
     let mut total = 0;
     for e in &fitted.estimates {
         let t = truth(&model, e).unwrap_or_else(|| panic!("no truth for {e:?}"));
         let z = (e.estimate - t) / e.se;
-        assert!(z.abs() < 4.5, "{} {} {}: {} ± {} vs {t}", e.block, e.trait_id, e.parameter, e.estimate, e.se);
+        assert!(
+            z.abs() < 4.5,
+            "{} {} {}: {} ± {} vs {t}",
+            e.block,
+            e.trait_id,
+            e.parameter,
+            e.estimate,
+            e.se
+        );
         total += 1;
         if z.abs() <= 1.96 {
             covered += 1;
@@ -100,10 +117,18 @@ fn problems_are_all_reported_and_warnings_name_the_grade() {
     let gl = model.catalogue.position("glabella").unwrap();
     let mut inds = sim.individuals.clone();
     for (ind, sex) in inds.iter_mut().zip(&sim.true_sex) {
-        if matches!(ind.observations[va], Some(Observation::Grade { low: 1, .. })) {
+        if matches!(
+            ind.observations[va],
+            Some(Observation::Grade { low: 1, .. })
+        ) {
             ind.observations[va] = Some(Observation::Grade { low: 2, high: 2 });
         }
-        if *sex == Sex::Male && matches!(ind.observations[gl], Some(Observation::Grade { low: 1, .. })) {
+        if *sex == Sex::Male
+            && matches!(
+                ind.observations[gl],
+                Some(Observation::Grade { low: 1, .. })
+            )
+        {
             ind.observations[gl] = Some(Observation::Grade { low: 2, high: 2 });
         }
     }
@@ -112,7 +137,9 @@ fn problems_are_all_reported_and_warnings_name_the_grade() {
     let err = fit(&spec, &model.catalogue, &refs, &info()).unwrap_err();
     assert_eq!(err.problems.len(), 1, "{err:?}");
     assert!(err.problems[0].place.contains("ventral_arc"));
-    assert!(err.problems[0].message.contains("grade 1 is never recorded"));
+    assert!(err.problems[0]
+        .message
+        .contains("grade 1 is never recorded"));
     // Without the ventral arc, the fit goes through and warns about the glabella.
     let spec = FitSpec::from_yaml(&SPEC.replace("ventral_arc, ", "")).unwrap();
     let fitted = fit(&spec, &model.catalogue, &refs, &info()).unwrap();

@@ -50,7 +50,11 @@ fn gradient_and_hessian_match_finite_differences() {
         let (gd, _) = derivatives(&groups, &dn, 3);
         for j in 0..4 {
             let fd = (gu[j] - gd[j]) / (2.0 * eps);
-            assert!((fd - h[(i, j)]).abs() < 1e-4, "hessian {i},{j}: {fd} vs {}", h[(i, j)]);
+            assert!(
+                (fd - h[(i, j)]).abs() < 1e-4,
+                "hessian {i},{j}: {fd} vs {}",
+                h[(i, j)]
+            );
         }
     }
 }
@@ -61,7 +65,12 @@ fn recovers_the_simulated_thresholds_and_shift() {
     let fit = fit_cumulative_probit(&simulate(4000, &tau, 1.1, 7), 5).unwrap();
     for (k, t) in tau.iter().enumerate() {
         let z = (fit.thresholds[k] - t) / fit.threshold_se[k];
-        assert!(z.abs() < 4.0, "threshold {k}: {} ± {}", fit.thresholds[k], fit.threshold_se[k]);
+        assert!(
+            z.abs() < 4.0,
+            "threshold {k}: {} ± {}",
+            fit.thresholds[k],
+            fit.threshold_se[k]
+        );
     }
     let z = (fit.shift - 1.1) / fit.shift_se;
     assert!(z.abs() < 4.0, "shift {} ± {}", fit.shift, fit.shift_se);

@@ -1,0 +1,452 @@
+//! Cross-validation of a model on a documented reference collection (`dimorph validate`).
+//!
+//! Each individual of documented sex is classified by a model that did not see it: with a
+//! fitting specification the model is refitted without the individual's fold (k-fold,
+//! stratified by sex, folds drawn with a seeded shuffle; or leave-one-out), with a fixed model
+//! file every individual is classified by that model as it stands (an external check, not a
+//! cross-validation: say so when reporting).
+//!
+//! P(female) = 1 / (1 + exp(−(ln LR + logit p₀))) with p₀ the prior probability of female
+//! (default ½, as in the validation studies of the trade). Scores:
+//! accuracy at P = ½; per sex, and the sex bias (female accuracy − male accuracy); the share
+//! left indeterminate between the probable-male and probable-female thresholds and the
+//! accuracy of the others; the Brier score, mean (P(F) − [female])² (Brier 1950, Mon Weather
+//! Rev 78:1–3); log loss, −mean ln P(documented sex); a reliability table in ten bins of P(F).
+
+use crate::assemblage::category::Thresholds;
+use crate::catalogue::Catalogue;
+use crate::data::{Individual, Sex};
+use crate::fit::{fit, FitError, FitSpec, ReferenceInfo};
+use crate::model::{BlockStatus, Context, EvidenceCache, Model, ModelError};
+use rand::seq::SliceRandom;
+use rand::SeedableRng;
+use rand_chacha::ChaCha8Rng;
+use rayon::prelude::*;
+use serde::Serialize;
+
+/// How the reference is split.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize)]
+pub enum Folds {
+    /// k folds, stratified by sex.
+    K(usize),
+    /// One fold per individual.
+    LeaveOneOut,
+}
+
+/// Settings of a validation.
+#[derive(Debug, Clone, PartialEq)]
+pub struct ValidationSettings {
+    /// The split (ignored for a fixed model).
+    pub folds: Folds,
+    /// Seed of the fold assignment and of the randomised integration.
+    pub seed: u64,
+    /// Prior probability of female.
+    pub prior_female: f64,
+    /// Category thresholds on P(F).
+    pub thresholds: Thresholds,
+}
+
+impl Default for ValidationSettings {
+    fn default() -> Self {
+        ValidationSettings {
+            folds: Folds::K(10),
+            seed: 1,
+            prior_female: 0.5,
+            thresholds: Thresholds::default(),
+        }
+    }
+}
+
+/// What is being validated.
+#[derive(Debug, Clone, Copy)]
+pub enum Subject<'a> {
+    /// A model file as it stands.
+    Fixed(&'a Model),
+    /// A fitting specification, refitted without each fold.
+    Refit(&'a FitSpec, &'a Catalogue),
+}
+
+/// One individual's held-out classification.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct Prediction {
+    /// Identifier.
+    pub id: String,
+    /// Documented sex.
+    pub sex: Sex,
+    /// Fold (0 for a fixed model).
+    pub fold: usize,
+    /// ln LR(F:M) over all blocks.
+    pub ln_lr: f64,
+    /// P(female) at the prior.
+    pub p_female: f64,
+    /// Traits that entered.
+    pub n_traits: usize,
+    /// ln LR of each block, `None` where the block was not used.
+    pub block_ln_lr: Vec<Option<f64>>,
+}
+
+/// Scores of a set of predictions.
+#[derive(Debug, Clone, Copy, PartialEq, Serialize)]
+pub struct Scores {
+    /// Individuals scored.
+    pub n: usize,
+    /// Documented females / males among them.
+    pub n_female: usize,
+    /// Documented males.
+    pub n_male: usize,
+    /// Share correct at P(F) = ½ (ties count as wrong).
+    pub accuracy: f64,
+    /// Share of females correct.
+    pub accuracy_female: f64,
+    /// Share of males correct.
+    pub accuracy_male: f64,
+    /// Female accuracy − male accuracy.
+    pub sex_bias: f64,
+    /// Share between the probable-male and probable-female thresholds.
+    pub share_indeterminate: f64,
+    /// Share correct among those not indeterminate.
+    pub accuracy_determinate: f64,
+    /// Brier score.
+    pub brier: f64,
+    /// Log loss (natural log).
+    pub log_loss: f64,
+}
+
+/// One bin of the reliability table.
+#[derive(Debug, Clone, Copy, PartialEq, Serialize)]
+pub struct ReliabilityBin {
+    /// Lower edge of P(F).
+    pub low: f64,
+    /// Upper edge.
+    pub high: f64,
+    /// Individuals in the bin.
+    pub n: usize,
+    /// Mean predicted P(F).
+    pub mean_p_female: f64,
+    /// Share of documented females.
+    pub share_female: f64,
+}
+
+/// A validation.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct Validation {
+    /// `k-fold cross-validation (k = 10)`, `leave-one-out cross-validation` or `fixed model`.
+    pub design: String,
+    /// Block ids in model order.
+    pub blocks: Vec<String>,
+    /// Predictions, in reference order, of individuals with usable evidence.
+    pub predictions: Vec<Prediction>,
+    /// Individuals without any usable evidence (not scored).
+    pub no_evidence: Vec<String>,
+    /// Scores over all predictions.
+    pub overall: Scores,
+    /// Scores per block, each block's evidence alone, among individuals it was used for.
+    pub by_block: Vec<(String, Scores)>,
+    /// Scores by how many traits entered: 1, 2, 3–4, 5–8, 9 or more.
+    pub by_traits: Vec<(String, Scores)>,
+    /// Reliability table in ten bins.
+    pub reliability: Vec<ReliabilityBin>,
+    /// The settings used.
+    #[serde(skip)]
+    pub settings: ValidationSettings,
+}
+
+/// Why a validation cannot be made.
+#[derive(Debug, thiserror::Error)]
+pub enum ValidationError {
+    /// The model could not be fitted in one fold.
+    #[error("fold {fold} of {folds}: {source}")]
+    Fit {
+        /// 1-based fold.
+        fold: usize,
+        /// Number of folds.
+        folds: usize,
+        /// The fitting problems.
+        source: FitError,
+    },
+    /// A refitted model did not load (not expected).
+    #[error("fold {fold}: the refitted model is invalid: {source}")]
+    Model {
+        /// 1-based fold.
+        fold: usize,
+        /// The model problems.
+        source: ModelError,
+    },
+    /// Bad settings or too small a reference.
+    #[error("{0}")]
+    Settings(String),
+}
+
+/// Assign folds: stratified by sex, each sex shuffled with the seed and dealt round-robin.
+pub fn assign_folds(sexes: &[Sex], folds: Folds, seed: u64) -> Vec<usize> {
+    let n = sexes.len();
+    match folds {
+        Folds::LeaveOneOut => (0..n).collect(),
+        Folds::K(k) => {
+            let mut out = vec![0; n];
+            let mut rng = ChaCha8Rng::seed_from_u64(seed);
+            let mut next = 0;
+            for s in [Sex::Female, Sex::Male] {
+                let mut idx: Vec<usize> = (0..n).filter(|&i| sexes[i] == s).collect();
+                idx.shuffle(&mut rng);
+                for i in idx {
+                    out[i] = next % k;
+                    next += 1;
+                }
+            }
+            out
+        }
+    }
+}
+
+/// Validate `subject` on the reference individuals (each with documented sex).
+///
+/// # Errors
+/// [`ValidationError`] for bad settings, or a fold whose training part cannot be fitted.
+pub fn validate(
+    subject: Subject,
+    reference: &[(&Individual, Sex)],
+    info: &ReferenceInfo,
+    settings: &ValidationSettings,
+) -> Result<Validation, ValidationError> {
+    let p0 = settings.prior_female;
+    if !(p0 > 0.0 && p0 < 1.0) {
+        return Err(ValidationError::Settings(format!(
+            "the prior probability of female must lie strictly between 0 and 1, found {p0}"
+        )));
+    }
+    if let Folds::K(k) = settings.folds {
+        if k < 2 || k > reference.len() {
+            return Err(ValidationError::Settings(format!(
+                "{k} folds for {} individuals: need 2 to {}",
+                reference.len(),
+                reference.len()
+            )));
+        }
+    }
+    let ctx = Context::new(settings.seed);
+    let (design, models, fold_of): (String, Vec<Model>, Vec<usize>) = match subject {
+        Subject::Fixed(m) => (
+            "fixed model (not cross-validated)".into(),
+            vec![m.clone()],
+            vec![0; reference.len()],
+        ),
+        Subject::Refit(spec, catalogue) => {
+            let sexes: Vec<Sex> = reference.iter().map(|r| r.1).collect();
+            let fold_of = assign_folds(&sexes, settings.folds, settings.seed);
+            let k = match settings.folds {
+                Folds::K(k) => k,
+                Folds::LeaveOneOut => reference.len(),
+            };
+            let models: Vec<Result<Model, ValidationError>> = (0..k)
+                .into_par_iter()
+                .map(|f| {
+                    let train: Vec<(&Individual, Sex)> = reference
+                        .iter()
+                        .zip(&fold_of)
+                        .filter(|(_, &g)| g != f)
+                        .map(|(r, _)| *r)
+                        .collect();
+                    let fitted = fit(spec, catalogue, &train, info).map_err(|source| {
+                        ValidationError::Fit {
+                            fold: f + 1,
+                            folds: k,
+                            source,
+                        }
+                    })?;
+                    let yaml = fitted
+                        .to_yaml()
+                        .map_err(|m| ValidationError::Settings(m.to_string()))?;
+                    Model::from_yaml("refitted model", &yaml).map_err(|source| {
+                        ValidationError::Model {
+                            fold: f + 1,
+                            source,
+                        }
+                    })
+                })
+                .collect();
+            let models = models.into_iter().collect::<Result<Vec<_>, _>>()?;
+            let design = match settings.folds {
+                Folds::K(k) => format!("{k}-fold cross-validation, stratified by sex"),
+                Folds::LeaveOneOut => "leave-one-out cross-validation".into(),
+            };
+            (design, models, fold_of)
+        }
+    };
+    let blocks: Vec<String> = models[0]
+        .blocks
+        .iter()
+        .map(|b| b.id().to_string())
+        .collect();
+    let caches: Vec<EvidenceCache> = models.iter().map(|_| EvidenceCache::default()).collect();
+    let evaluated: Vec<(usize, crate::model::IndividualEvidence)> = reference
+        .par_iter()
+        .enumerate()
+        .map(|(i, (ind, _))| {
+            let f = fold_of[i];
+            (i, models[f].evaluate_cached(ind, &ctx, &caches[f]))
+        })
+        .collect();
+    let logit0 = (p0 / (1.0 - p0)).ln();
+    let mut predictions = Vec::new();
+    let mut no_evidence = Vec::new();
+    for (i, e) in evaluated {
+        let (ind, sex) = reference[i];
+        if !e.estimable {
+            no_evidence.push(ind.id.clone());
+            continue;
+        }
+        predictions.push(Prediction {
+            id: ind.id.clone(),
+            sex,
+            fold: fold_of[i] + usize::from(matches!(subject, Subject::Refit(..))),
+            ln_lr: e.ln_lr,
+            p_female: logistic(e.ln_lr + logit0),
+            n_traits: e.n_traits,
+            block_ln_lr: e
+                .blocks
+                .iter()
+                .map(|b| (b.status == BlockStatus::Used).then_some(b.ln_lr))
+                .collect(),
+        });
+    }
+    let pairs =
+        |v: &[&Prediction]| -> Vec<(f64, Sex)> { v.iter().map(|p| (p.p_female, p.sex)).collect() };
+    let all: Vec<&Prediction> = predictions.iter().collect();
+    let overall = scores(&pairs(&all), &settings.thresholds);
+    let by_block = blocks
+        .iter()
+        .enumerate()
+        .map(|(b, id)| {
+            let v: Vec<(f64, Sex)> = predictions
+                .iter()
+                .filter_map(|p| p.block_ln_lr[b].map(|l| (logistic(l + logit0), p.sex)))
+                .collect();
+            (id.clone(), scores(&v, &settings.thresholds))
+        })
+        .collect();
+    let classes: [(&str, usize, usize); 5] = [
+        ("1", 1, 1),
+        ("2", 2, 2),
+        ("3-4", 3, 4),
+        ("5-8", 5, 8),
+        ("9 or more", 9, usize::MAX),
+    ];
+    let by_traits = classes
+        .iter()
+        .map(|&(label, lo, hi)| {
+            let v: Vec<&Prediction> = predictions
+                .iter()
+                .filter(|p| p.n_traits >= lo && p.n_traits <= hi)
+                .collect();
+            (label.to_string(), scores(&pairs(&v), &settings.thresholds))
+        })
+        .collect();
+    Ok(Validation {
+        design,
+        blocks,
+        reliability: reliability(&pairs(&all)),
+        predictions,
+        no_evidence,
+        overall,
+        by_block,
+        by_traits,
+        settings: settings.clone(),
+    })
+}
+
+fn logistic(x: f64) -> f64 {
+    if x >= 0.0 {
+        1.0 / (1.0 + (-x).exp())
+    } else {
+        let e = x.exp();
+        e / (1.0 + e)
+    }
+}
+
+/// Scores of (P(F), documented sex) pairs. Empty input gives NaN shares and n = 0.
+pub fn scores(v: &[(f64, Sex)], t: &Thresholds) -> Scores {
+    let n = v.len();
+    let females = v.iter().filter(|x| x.1 == Sex::Female).count();
+    let share = |num: usize, den: usize| {
+        if den == 0 {
+            f64::NAN
+        } else {
+            num as f64 / den as f64
+        }
+    };
+    let correct = |p: f64, s: Sex| (s == Sex::Female && p > 0.5) || (s == Sex::Male && p < 0.5);
+    let right_f = v
+        .iter()
+        .filter(|x| x.1 == Sex::Female && correct(x.0, x.1))
+        .count();
+    let right_m = v
+        .iter()
+        .filter(|x| x.1 == Sex::Male && correct(x.0, x.1))
+        .count();
+    let determinate: Vec<&(f64, Sex)> = v
+        .iter()
+        .filter(|x| x.0 >= t.probable_female || x.0 <= t.probable_male)
+        .collect();
+    let right_det = determinate.iter().filter(|x| correct(x.0, x.1)).count();
+    let brier = v
+        .iter()
+        .map(|&(p, s)| (p - f64::from(u8::from(s == Sex::Female))).powi(2))
+        .sum::<f64>()
+        / n.max(1) as f64;
+    let log_loss = -v
+        .iter()
+        .map(|&(p, s)| {
+            let q = if s == Sex::Female { p } else { 1.0 - p };
+            q.max(1e-15).ln()
+        })
+        .sum::<f64>()
+        / n.max(1) as f64;
+    let accuracy_female = share(right_f, females);
+    let accuracy_male = share(right_m, n - females);
+    Scores {
+        n,
+        n_female: females,
+        n_male: n - females,
+        accuracy: share(right_f + right_m, n),
+        accuracy_female,
+        accuracy_male,
+        sex_bias: accuracy_female - accuracy_male,
+        share_indeterminate: share(n - determinate.len(), n),
+        accuracy_determinate: share(right_det, determinate.len()),
+        brier: if n == 0 { f64::NAN } else { brier },
+        log_loss: if n == 0 { f64::NAN } else { log_loss },
+    }
+}
+
+/// Ten equal bins of P(F) (the last closed at 1).
+pub fn reliability(v: &[(f64, Sex)]) -> Vec<ReliabilityBin> {
+    (0..10)
+        .map(|b| {
+            let low = b as f64 / 10.0;
+            let high = (b + 1) as f64 / 10.0;
+            let inside: Vec<&(f64, Sex)> = v
+                .iter()
+                .filter(|x| x.0 >= low && (x.0 < high || (b == 9 && x.0 <= high)))
+                .collect();
+            let n = inside.len();
+            let mean = inside.iter().map(|x| x.0).sum::<f64>() / n.max(1) as f64;
+            let fem = inside.iter().filter(|x| x.1 == Sex::Female).count();
+            ReliabilityBin {
+                low,
+                high,
+                n,
+                mean_p_female: if n == 0 { f64::NAN } else { mean },
+                share_female: if n == 0 {
+                    f64::NAN
+                } else {
+                    fem as f64 / n as f64
+                },
+            }
+        })
+        .collect()
+}
+
+#[cfg(test)]
+#[path = "tests/validate.rs"]
+mod tests;

@@ -1,0 +1,51 @@
+use super::*;
+
+#[test]
+fn scores_of_a_hand_worked_example() {
+    // Four individuals: F at 0.9 (right), F at 0.3 (wrong, indeterminate),
+    // M at 0.1 (right), M at 0.6 (wrong, indeterminate).
+    let v = [
+        (0.9, Sex::Female),
+        (0.3, Sex::Female),
+        (0.1, Sex::Male),
+        (0.6, Sex::Male),
+    ];
+    let s = scores(&v, &Thresholds::default());
+    assert_eq!(s.n, 4);
+    assert_eq!(s.accuracy, 0.5);
+    assert_eq!(s.accuracy_female, 0.5);
+    assert_eq!(s.sex_bias, 0.0);
+    assert_eq!(s.share_indeterminate, 0.5);
+    assert_eq!(s.accuracy_determinate, 1.0);
+    // Brier: (0.1² + 0.7² + 0.1² + 0.6²) / 4 = 0.8 / 4 = 0.215
+    assert!((s.brier - 0.215).abs() < 1e-15, "{}", s.brier);
+    // Log loss: −(ln 0.9 + ln 0.3 + ln 0.9 + ln 0.4) / 4
+    let ll = -(0.9f64.ln() + 0.3f64.ln() + 0.9f64.ln() + 0.4f64.ln()) / 4.0;
+    assert!((s.log_loss - ll).abs() < 1e-15);
+    let r = reliability(&v);
+    assert_eq!(r.iter().map(|b| b.n).sum::<usize>(), 4);
+    assert_eq!(r[9].n, 1);
+    assert_eq!(r[9].share_female, 1.0);
+}
+
+#[test]
+fn folds_are_stratified_and_seeded() {
+    let sexes: Vec<Sex> = (0..53)
+        .map(|i| if i % 3 == 0 { Sex::Male } else { Sex::Female })
+        .collect();
+    let a = assign_folds(&sexes, Folds::K(5), 9);
+    assert_eq!(a, assign_folds(&sexes, Folds::K(5), 9));
+    assert_ne!(a, assign_folds(&sexes, Folds::K(5), 10));
+    for f in 0..5 {
+        let males = (0..53)
+            .filter(|&i| a[i] == f && sexes[i] == Sex::Male)
+            .count();
+        let size = a.iter().filter(|&&g| g == f).count();
+        assert!((3..=4).contains(&males), "fold {f}: {males} males");
+        assert!((10..=11).contains(&size), "fold {f}: {size}");
+    }
+    assert_eq!(
+        assign_folds(&sexes, Folds::LeaveOneOut, 1),
+        (0..53).collect::<Vec<_>>()
+    );
+}

@@ -1,0 +1,228 @@
+//! `dimorph fit` and `dimorph validate` as a user runs them, and the promise behind them: a
+//! model fitted to a reference sample classifies as well as the model that made the sample.
+
+mod common;
+use common::{dimorph, fixture, stderr, stdout};
+use dimorph::data::Sex;
+use dimorph::fit::{fit, FitSpec, ReferenceInfo};
+use dimorph::model::{Block, Context, Model};
+use dimorph::sim::{simulate, GroupSpec, MissingSpec};
+
+fn one_group(n: usize) -> Vec<GroupSpec> {
+    vec![GroupSpec {
+        name: String::new(),
+        n,
+        pi: 0.5,
+    }]
+}
+
+/// Share of individuals with usable evidence whose P(F) at prior ½ is on the right side.
+fn accuracy(model: &Model, sim: &dimorph::sim::Simulated) -> (f64, usize) {
+    let ctx = Context::new(3);
+    let cache = dimorph::model::EvidenceCache::default();
+    let (mut right, mut n) = (0, 0);
+    for (ind, sex) in sim.individuals.iter().zip(&sim.true_sex) {
+        let e = model.evaluate_cached(ind, &ctx, &cache);
+        if !e.estimable || e.ln_lr == 0.0 {
+            continue;
+        }
+        n += 1;
+        if (e.ln_lr > 0.0) == (*sex == Sex::Female) {
+            right += 1;
+        }
+    }
+    (right as f64 / n as f64, n)
+}
+
+#[test]
+fn a_model_fitted_to_a_simulated_reference_classifies_as_well_as_the_true_model() {
+    let truth = Model::default_model().unwrap();
+    // The default model without its DNA and dental blocks: the blocks the spec refits.
+    let spec =
+        FitSpec::from_yaml(&std::fs::read_to_string(fixture("fit/spec.yaml")).unwrap()).unwrap();
+    let reference = simulate(
+        &truth,
+        &one_group(600),
+        &MissingSpec::parse("trait=0.15,range=0.03").unwrap(),
+        101,
+    )
+    .unwrap();
+    let refs: Vec<_> = reference
+        .individuals
+        .iter()
+        .zip(reference.true_sex.iter().copied())
+        .collect();
+    let info = ReferenceInfo {
+        file: "simulated reference".into(),
+        sha256: String::new(),
+        command: "test".into(),
+    };
+    let fitted = fit(&spec, &truth.catalogue, &refs, &info).unwrap();
+    let fitted = Model::from_yaml("fitted", &fitted.to_yaml().unwrap()).unwrap();
+    // The true model restricted to the same blocks, for a fair comparison.
+    let mut same_blocks = truth.clone();
+    same_blocks
+        .blocks
+        .retain(|b| matches!(b, Block::Latent(l) if l.id != "dental"));
+    let cemetery = simulate(&truth, &one_group(3000), &MissingSpec::fragmentary(), 202).unwrap();
+    let (a_true, n) = accuracy(&same_blocks, &cemetery);
+    let (a_fit, n2) = accuracy(&fitted, &cemetery);
+    println!("accuracy on {n} individuals: true model {a_true:.4}, fitted {a_fit:.4}");
+    assert_eq!(n, n2);
+    assert!(n > 2000);
+    assert!(
+        (a_true - a_fit).abs() < 0.01,
+        "true {a_true:.4} vs fitted {a_fit:.4}"
+    );
+}
+
+#[test]
+fn fit_and_validate_from_the_command_line() {
+    let dir = tempfile::tempdir().unwrap();
+    let p = |n: &str| dir.path().join(n).to_str().unwrap().to_string();
+    let o = dimorph(&[
+        "simulate",
+        "--n",
+        "300",
+        "--missing",
+        "trait=0.15,cranium=0.2,pelvis=0.3,range=0.03",
+        "--as-reference",
+        "--seed",
+        "9",
+        "--out",
+        &p("ref.csv"),
+    ]);
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    let spec = fixture("fit/spec.yaml");
+    let spec = spec.to_str().unwrap();
+    let o = dimorph(&[
+        "fit",
+        &p("ref.csv"),
+        "--traits",
+        spec,
+        "--out",
+        &p("m.yaml"),
+    ]);
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    assert!(stdout(&o).contains("females and"));
+    let model = std::fs::read_to_string(p("m.yaml")).unwrap();
+    assert!(model.contains("FITTED by dimorph"));
+    assert!(model.contains("SHA-256"));
+    let est = std::fs::read_to_string(p("m.estimates.csv")).unwrap();
+    assert!(est.starts_with("block,trait,parameter,scale,estimate,se,lower_95,upper_95,n\n"));
+    // The fitted model is a normal model file.
+    let o = dimorph(&[
+        "evidence",
+        &p("ref.csv"),
+        "--model",
+        &p("m.yaml"),
+        "--out",
+        &p("l.csv"),
+    ]);
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    // Cross-validation with a report folder; same seed, same bytes.
+    for out in ["v1", "v2"] {
+        let o = dimorph(&[
+            "validate",
+            &p("ref.csv"),
+            "--traits",
+            spec,
+            "--folds",
+            "5",
+            "--out",
+            &p(out),
+        ]);
+        assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+        assert!(stdout(&o).contains("5-fold cross-validation"));
+    }
+    for f in [
+        "predictions.csv",
+        "scores.csv",
+        "scores_by_block.csv",
+        "scores_by_traits.csv",
+        "reliability.csv",
+        "calibration.svg",
+        "report.md",
+    ] {
+        let a = std::fs::read_to_string(dir.path().join("v1").join(f)).unwrap();
+        let b = std::fs::read_to_string(dir.path().join("v2").join(f)).unwrap();
+        // The report quotes the command, whose output folder differs.
+        let b = b.replace(&p("v2"), &p("v1"));
+        assert!(a == b, "{f} differs between two runs with the same seed");
+    }
+    let report = std::fs::read_to_string(dir.path().join("v1/report.md")).unwrap();
+    assert!(report.contains("not identifications"));
+    // A fixed model is checked as it stands.
+    let o = dimorph(&["validate", &p("ref.csv"), "--model", &p("m.yaml")]);
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    assert!(stdout(&o).contains("fixed model (not cross-validated)"));
+    // Neither a spec nor a model: a usage error.
+    assert_eq!(dimorph(&["validate", &p("ref.csv")]).status.code(), Some(2));
+}
+
+#[test]
+fn a_bad_spec_lists_every_problem_and_writes_nothing() {
+    let dir = tempfile::tempdir().unwrap();
+    let spec = dir.path().join("bad.yaml");
+    std::fs::write(
+        &spec,
+        "name: bad\nblocks:\n  - {id: a, traits: [glabella, nosuch]}\n  - {id: b, traits: [glabella, dna_y_reads]}\n",
+    )
+    .unwrap();
+    let out = dir.path().join("m.yaml");
+    let o = dimorph(&[
+        "fit",
+        fixture("good/tabs.tsv").to_str().unwrap(),
+        "--traits",
+        spec.to_str().unwrap(),
+        "--out",
+        out.to_str().unwrap(),
+    ]);
+    assert_eq!(o.status.code(), Some(4), "{}", stderr(&o));
+    let e = stderr(&o);
+    assert!(
+        e.contains("`nosuch`") && e.contains("listed twice") && e.contains("count"),
+        "{e}"
+    );
+    assert!(!out.exists());
+}
+
+#[test]
+fn a_reference_that_cannot_support_a_threshold_says_which_grade() {
+    let dir = tempfile::tempdir().unwrap();
+    let f = dir.path().join("ref.csv");
+    // Nobody is scored 5 on the glabella.
+    let mut t = String::from("id,known_sex,glabella,mastoid\n");
+    for i in 0..40 {
+        let male = i % 2 == 1;
+        let g = if male { 2 + i % 3 } else { 1 + i % 3 };
+        t.push_str(&format!(
+            "R{i},{},{g},{}\n",
+            if male { "M" } else { "F" },
+            1 + i % 5
+        ));
+    }
+    std::fs::write(&f, t).unwrap();
+    let spec = dir.path().join("s.yaml");
+    std::fs::write(
+        &spec,
+        "name: t\nblocks:\n  - {id: c, traits: [glabella, mastoid]}\n",
+    )
+    .unwrap();
+    let out = dir.path().join("m.yaml");
+    let o = dimorph(&[
+        "fit",
+        f.to_str().unwrap(),
+        "--traits",
+        spec.to_str().unwrap(),
+        "--out",
+        out.to_str().unwrap(),
+    ]);
+    assert_eq!(o.status.code(), Some(3), "{}", stdout(&o));
+    assert!(
+        stderr(&o).contains("grade 5 is never recorded"),
+        "{}",
+        stderr(&o)
+    );
+    assert!(!out.exists());
+}
