@@ -20,6 +20,7 @@ SCRIPTS = {
     "pi_posterior.py": ("pi_posterior.csv", "expected", "abs", 1e-9),
     "by_sex.py": ("by_sex_expected.csv", "expected", "abs", 1e-12),
     "agreement.py": ("agreement_expected.csv", "expected", "abs", 1e-12),
+    "ordered_probit.py": ("ordered_probit_expected.csv", "expected", "abs", 1e-8),
 }
 
 
