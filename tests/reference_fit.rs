@@ -37,9 +37,18 @@ fn thresholds_and_shift_equal_statsmodels_ordered_probit() {
             q => fit.thresholds[q.trim_start_matches("threshold_").parse::<usize>().unwrap() - 1],
         };
         // statsmodels' standard errors come from a numerical Hessian: relative 1e-3.
-        let tol = if &row[1] == "shift_se" { 1e-3 * expected } else { TOL };
+        let tol = if &row[1] == "shift_se" {
+            1e-3 * expected
+        } else {
+            TOL
+        };
         let d = (got - expected).abs();
-        assert!(d < tol, "{} {}: dimorph {got} statsmodels {expected}", &row[0], &row[1]);
+        assert!(
+            d < tol,
+            "{} {}: dimorph {got} statsmodels {expected}",
+            &row[0],
+            &row[1]
+        );
         if &row[1] != "shift_se" {
             worst = worst.max(d);
         }

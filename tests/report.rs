@@ -136,3 +136,27 @@ fn outcome_columns_must_be_zero_or_one_and_never_traits() {
     ]);
     assert_eq!(o.status.code(), Some(4));
 }
+
+#[test]
+fn the_validation_report_of_the_demo_reference_renders() {
+    let dir = tempfile::tempdir().unwrap();
+    let root = env!("CARGO_MANIFEST_DIR");
+    let out = dir.path().join("v");
+    let o = dimorph(&[
+        "validate",
+        &format!("{root}/examples/saltmarsh-reference.csv"),
+        "--traits",
+        &format!("{root}/examples/saltmarsh-spec.yaml"),
+        "--folds",
+        "5",
+        "--out",
+        out.to_str().unwrap(),
+    ]);
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    let svg = std::fs::read_to_string(out.join("calibration.svg")).unwrap();
+    let png = std::env::var_os("DIMORPH_FIGURES").map(|d| Path::new(&d).join("calibration.png"));
+    render(&svg, png.as_deref());
+    let report = std::fs::read_to_string(out.join("report.md")).unwrap();
+    assert!(report.contains("5-fold cross-validation"));
+    assert!(report.contains("Biological sex is not gender"));
+}
