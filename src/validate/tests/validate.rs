@@ -17,8 +17,8 @@ fn scores_of_a_hand_worked_example() {
     assert_eq!(s.sex_bias, 0.0);
     assert_eq!(s.share_indeterminate, 0.5);
     assert_eq!(s.accuracy_determinate, 1.0);
-    // Brier: (0.1² + 0.7² + 0.1² + 0.6²) / 4 = 0.8 / 4 = 0.215
-    assert!((s.brier - 0.215).abs() < 1e-15, "{}", s.brier);
+    // Brier: (0.1² + 0.7² + 0.1² + 0.6²) / 4 = 0.87 / 4 = 0.2175
+    assert!((s.brier - 0.2175).abs() < 1e-15, "{}", s.brier);
     // Log loss: −(ln 0.9 + ln 0.3 + ln 0.9 + ln 0.4) / 4
     let ll = -(0.9f64.ln() + 0.3f64.ln() + 0.9f64.ln() + 0.4f64.ln()) / 4.0;
     assert!((s.log_loss - ll).abs() < 1e-15);
