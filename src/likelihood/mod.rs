@@ -6,21 +6,41 @@ pub mod ledger;
 pub use ledger::{ledger_csv, LedgerRow};
 
 use crate::data::Assemblage;
-use crate::model::{Context, IndividualEvidence, Model};
+use crate::model::{Context, EvidenceCache, IndividualEvidence, Model};
+use rayon::prelude::*;
 
 /// Evaluate the model for every individual of an assemblage, in file order.
 ///
-/// Each individual's random streams are seeded from the run seed, its id and the block, so
-/// the result does not depend on row order.
+/// Individuals are evaluated in parallel (rayon) and each latent block's observation pattern
+/// is computed once per run (a shared [`EvidenceCache`]); a pattern's random streams are
+/// seeded from the run seed, the block and the pattern itself, so the result is the same
+/// whatever the row order or the number of threads.
 pub fn evaluate_assemblage(
     model: &Model,
     assemblage: &Assemblage,
     ctx: &Context,
 ) -> Vec<IndividualEvidence> {
+    evaluate_with_progress(model, assemblage, ctx, None)
+}
+
+/// As [`evaluate_assemblage`], advancing `progress` by one per individual.
+pub fn evaluate_with_progress(
+    model: &Model,
+    assemblage: &Assemblage,
+    ctx: &Context,
+    progress: Option<&indicatif::ProgressBar>,
+) -> Vec<IndividualEvidence> {
+    let cache = EvidenceCache::default();
     assemblage
         .individuals
-        .iter()
-        .map(|ind| model.evaluate(ind, ctx))
+        .par_iter()
+        .map(|ind| {
+            let e = model.evaluate_cached(ind, ctx, &cache);
+            if let Some(p) = progress {
+                p.inc(1);
+            }
+            e
+        })
         .collect()
 }
 
