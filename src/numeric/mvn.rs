@@ -311,15 +311,27 @@ pub fn genz_sov(
     let generators: Vec<f64> = primes.iter().map(|&p| (p as f64).sqrt().fract()).collect();
     let mut rng = ChaCha8Rng::seed_from_u64(seed);
     let mut y = vec![0.0; n];
+    // Φ at an infinite bound is exactly 0 or 1: no special function needed.
+    let phi = |x: f64| -> f64 {
+        if x == f64::NEG_INFINITY {
+            0.0
+        } else if x == f64::INFINITY {
+            1.0
+        } else {
+            cdf(x)
+        }
+    };
+    // The first factor does not depend on the point.
+    let (d0, e0) = (phi(a[0] / c[(0, 0)]), phi(b[0] / c[(0, 0)]));
     let mut integrand = |w: &[f64]| -> f64 {
-        let (mut d, mut e) = (cdf(a[0] / c[(0, 0)]), cdf(b[0] / c[(0, 0)]));
+        let (mut d, mut e) = (d0, e0);
         let mut f = e - d;
         for i in 1..n {
             let u = (d + w[i - 1] * (e - d)).clamp(1e-300, 1.0 - 1e-16);
             y[i - 1] = inverse_cdf_fast(u);
             let s: f64 = (0..i).map(|j| c[(i, j)] * y[j]).sum();
-            d = cdf((a[i] - s) / c[(i, i)]);
-            e = cdf((b[i] - s) / c[(i, i)]);
+            d = phi((a[i] - s) / c[(i, i)]);
+            e = phi((b[i] - s) / c[(i, i)]);
             if e <= d {
                 return 0.0;
             }
@@ -327,22 +339,27 @@ pub fn genz_sov(
         }
         f
     };
+    // The shifts are drawn once; when the points are doubled, the lattice of 2N points
+    // contains the first N, so each shift's running sum is extended rather than recomputed.
+    let shifts: Vec<Vec<f64>> = (0..qmc.shifts)
+        .map(|_| (0..n - 1).map(|_| rng.random::<f64>()).collect())
+        .collect();
+    let mut sums = vec![0.0; qmc.shifts];
+    let mut done_points = 0usize;
     let mut points = qmc.min_points.max(8);
     let mut w = vec![0.0; n - 1];
     loop {
-        let mut means = Vec::with_capacity(qmc.shifts);
-        for _ in 0..qmc.shifts {
-            let shift: Vec<f64> = (0..n - 1).map(|_| rng.random::<f64>()).collect();
-            let mut sum = 0.0;
-            for k in 1..=points {
+        for (shift, sum) in shifts.iter().zip(sums.iter_mut()) {
+            for k in done_points + 1..=points {
                 for j in 0..n - 1 {
                     let x = (k as f64 * generators[j] + shift[j]).fract();
                     w[j] = (2.0 * x - 1.0).abs(); // baker's transform
                 }
-                sum += integrand(&w);
+                *sum += integrand(&w);
             }
-            means.push(sum / points as f64);
         }
+        done_points = points;
+        let means: Vec<f64> = sums.iter().map(|s| s / points as f64).collect();
         let m = means.len() as f64;
         let p = means.iter().sum::<f64>() / m;
         let var = means.iter().map(|x| (x - p) * (x - p)).sum::<f64>() / (m * (m - 1.0));
