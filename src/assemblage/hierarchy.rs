@@ -18,7 +18,7 @@
 //! p(μ, κ | D) ∝ p(μ) p(κ) ∏g mg(μ, κ); group and individual posteriors are mixtures over the
 //! hyper-grid.
 
-use super::posterior::{ln_mixture, locate_region, p_female_given, PiSummary};
+use super::posterior::{locate_region, p_female_on_grid, MixtureSum, PiSummary};
 use crate::numeric::normal::ln_add_exp;
 use crate::prior::{Prior, PriorShape};
 use serde::Serialize;
@@ -76,15 +76,8 @@ pub struct GroupGrid {
 impl GroupGrid {
     /// Build the grid from the group's ln LRs (0 for individuals without evidence).
     pub fn new(ln_lrs: &[f64]) -> GroupGrid {
-        let l: Vec<f64> = ln_lrs
-            .iter()
-            .copied()
-            .filter(|x| *x != 0.0 && x.is_finite())
-            .collect();
-        let ell = |pi: f64| {
-            let (lp, lq) = (pi.ln(), (1.0 - pi).ln());
-            l.iter().map(|&x| ln_mixture(lp, lq, x)).sum::<f64>()
-        };
+        let data = MixtureSum::new(ln_lrs);
+        let ell = |pi: f64| data.ln_sum(pi);
         let (lo, hi) = locate_region(|t| ell(pi_of(t)), COARSE_CELLS, LN_CUTOFF);
         let h = (hi - lo) / GROUP_CELLS as f64;
         let edges: Vec<f64> = (0..=GROUP_CELLS)
@@ -331,16 +324,14 @@ impl Hierarchy {
             }
         }
         // Shared π: every group's π equals μ.
-        let all: Vec<f64> = ln_lrs
-            .iter()
-            .copied()
-            .filter(|x| *x != 0.0 && x.is_finite())
-            .collect();
-        let ln_evidence_shared =
-            ln_sum_exp(hyper.mu.iter().zip(&hyper.ln_w_mu).map(|(&mu, &lw)| {
-                let (lp, lq) = (mu.ln(), (1.0 - mu).ln());
-                lw + all.iter().map(|&x| ln_mixture(lp, lq, x)).sum::<f64>()
-            }));
+        let all = MixtureSum::new(ln_lrs);
+        let ln_evidence_shared = ln_sum_exp(
+            hyper
+                .mu
+                .iter()
+                .zip(&hyper.ln_w_mu)
+                .map(|(&mu, &lw)| lw + all.ln_sum(mu)),
+        );
         Hierarchy {
             groups: names,
             membership,
@@ -355,12 +346,7 @@ impl Hierarchy {
 
     /// P(F | D) of an individual of group `g` with ln LR `l`.
     pub fn p_female(&self, g: usize, l: f64) -> f64 {
-        self.grids[g]
-            .pi
-            .iter()
-            .zip(&self.group_mass[g])
-            .map(|(&p, &m)| m * p_female_given(p, l))
-            .sum()
+        p_female_on_grid(&self.grids[g].pi, &self.group_mass[g], l)
     }
 
     /// Summary of πg.

@@ -100,6 +100,105 @@ pub fn p_female_given(pi: f64, l: f64) -> f64 {
     }
 }
 
+/// |ln LR| up to which the fast forms below are used (e^40 ≈ 2.4e17: a chunk of
+/// [`CHUNK`] factors stays far inside the range of doubles).
+const MODERATE: f64 = 40.0;
+/// Factors multiplied before one logarithm is taken.
+const CHUNK: usize = 16;
+
+/// Σᵢ ln(π e^{lᵢ} + 1 − π), the data log-likelihood of π up to the constant ∏ᵢ P(Dᵢ | M),
+/// evaluated at many π for the same individuals.
+///
+/// # Formula
+/// Each factor is written without cancellation: 1 + π (e^l − 1) for l > 0 (a sum of
+/// positives, with e^l − 1 from `exp_m1`) and (1 − π) + π e^l for l < 0. For |l| ≤ 40 the
+/// factors are multiplied in chunks of 16 and one logarithm is taken per chunk (a chunk
+/// outside [1e-300, 1e300] is summed term by term instead); beyond that each term is the
+/// log-sum-exp [`ln_mixture`]. The result equals the term-by-term sum to rounding (relative
+/// 1e-15 per chunk), at about a tenth of the cost.
+#[derive(Debug, Clone, PartialEq)]
+pub struct MixtureSum {
+    /// e^l − 1 of individuals with 0 < l ≤ 40.
+    above: Vec<f64>,
+    /// e^l of individuals with −40 ≤ l < 0.
+    below: Vec<f64>,
+    /// l of the others (|l| > 40).
+    extreme: Vec<f64>,
+}
+
+impl MixtureSum {
+    /// From the individuals' ln LR(F:M); zeros and non-finite values contribute nothing.
+    pub fn new(ln_lrs: &[f64]) -> MixtureSum {
+        let mut m = MixtureSum {
+            above: Vec::new(),
+            below: Vec::new(),
+            extreme: Vec::new(),
+        };
+        for &l in ln_lrs.iter().filter(|l| **l != 0.0 && l.is_finite()) {
+            if l > 0.0 && l <= MODERATE {
+                m.above.push(l.exp_m1());
+            } else if l < 0.0 && l >= -MODERATE {
+                m.below.push(l.exp());
+            } else {
+                m.extreme.push(l);
+            }
+        }
+        m
+    }
+
+    /// Σᵢ ln(π e^{lᵢ} + 1 − π) at one π in (0, 1).
+    pub fn ln_sum(&self, pi: f64) -> f64 {
+        let q = 1.0 - pi;
+        let mut total = chunked(&self.above, |c| 1.0 + pi * c);
+        total += chunked(&self.below, |e| q + pi * e);
+        if !self.extreme.is_empty() {
+            let (lp, lq) = (pi.ln(), q.ln());
+            total += self
+                .extreme
+                .iter()
+                .map(|&l| ln_mixture(lp, lq, l))
+                .sum::<f64>();
+        }
+        total
+    }
+}
+
+fn chunked(values: &[f64], factor: impl Fn(f64) -> f64) -> f64 {
+    let mut total = 0.0;
+    for chunk in values.chunks(CHUNK) {
+        let prod: f64 = chunk.iter().map(|&v| factor(v)).product();
+        if prod > 1e-300 && prod < 1e300 {
+            total += prod.ln();
+        } else {
+            total += chunk.iter().map(|&v| factor(v).ln()).sum::<f64>();
+        }
+    }
+    total
+}
+
+/// Σ_c mass_c · P(F | π_c, l) over a grid: an individual's posterior P(female).
+///
+/// # Formula
+/// P(F | π, l) = π e^l / (π e^l + 1 − π), both terms of the denominator positive; for
+/// |l| > 40 the logistic form of [`p_female_given`].
+pub fn p_female_on_grid(grid: &[f64], mass: &[f64], l: f64) -> f64 {
+    if l.abs() <= MODERATE {
+        let e = l.exp();
+        grid.iter()
+            .zip(mass)
+            .map(|(&p, &m)| {
+                let f = p * e;
+                m * (f / (f + (1.0 - p)))
+            })
+            .sum()
+    } else {
+        grid.iter()
+            .zip(mass)
+            .map(|(&p, &m)| m * p_female_given(p, l))
+            .sum()
+    }
+}
+
 impl PiPosterior {
     /// The posterior of π given the individuals' ln LR(F:M) (individuals without evidence
     /// may be left out or given 0: they contribute nothing).
@@ -120,19 +219,11 @@ impl PiPosterior {
             }
             PriorShape::Beta { a, b } => (a, b),
         };
-        let informative: Vec<f64> = ln_lrs
-            .iter()
-            .copied()
-            .filter(|l| *l != 0.0 && l.is_finite())
-            .collect();
+        let data = MixtureSum::new(ln_lrs);
+        let ln_b = ln_beta(a, b);
         let ln_density = |pi: f64| {
             let (lp, lq) = (pi.ln(), (1.0 - pi).ln());
-            let prior = (a - 1.0) * lp + (b - 1.0) * lq - ln_beta(a, b);
-            prior
-                + informative
-                    .iter()
-                    .map(|&l| ln_mixture(lp, lq, l))
-                    .sum::<f64>()
+            (a - 1.0) * lp + (b - 1.0) * lq - ln_b + data.ln_sum(pi)
         };
         let ln_weight = |t: f64| ln_density(pi_of(t)) + ln_jacobian(t);
         let (lo, hi) = locate_region(ln_weight, COARSE_CELLS, LN_CUTOFF);
@@ -166,7 +257,7 @@ impl PiPosterior {
 
     /// P(sᵢ = F | D) for an individual with ln LR `l`.
     pub fn p_female(&self, l: f64) -> f64 {
-        self.expect(|pi| p_female_given(pi, l)).clamp(0.0, 1.0)
+        p_female_on_grid(&self.grid, &self.mass, l).clamp(0.0, 1.0)
     }
 
     /// The q-quantile (linear within cells).
