@@ -137,7 +137,7 @@ impl MixtureSum {
         for &l in ln_lrs.iter().filter(|l| **l != 0.0 && l.is_finite()) {
             if l > 0.0 && l <= MODERATE {
                 m.above.push(l.exp_m1());
-            } else if l < 0.0 && l >= -MODERATE {
+            } else if (-MODERATE..0.0).contains(&l) {
                 m.below.push(l.exp());
             } else {
                 m.extreme.push(l);
