@@ -6,7 +6,7 @@ use crate::assemblage::draws::Draws;
 use crate::assemblage::recalibration::{recalibrate, RecalibrationSettings};
 use crate::assemblage::{analyse, Thresholds};
 use crate::data::read_assemblage;
-use crate::likelihood::evaluate_assemblage;
+use crate::likelihood::evaluate_with_progress;
 use crate::model::Context;
 use crate::output::write_atomic;
 use crate::prior::{parse_prior_set, PriorError};
@@ -116,7 +116,9 @@ pub fn run(args: Args) -> Result<i32, Error> {
             ),
         });
     }
-    let evidence = evaluate_assemblage(&model, &a, &Context::new(args.seed));
+    let bar = super::progress_bar(a.individuals.len(), "weighing the evidence");
+    let evidence = evaluate_with_progress(&model, &a, &Context::new(args.seed), Some(&bar));
+    bar.finish_and_clear();
     let groups: Option<Vec<String>> = a.individuals.iter().any(|i| i.group.is_some()).then(|| {
         a.individuals
             .iter()
@@ -226,13 +228,7 @@ pub fn run(args: Args) -> Result<i32, Error> {
             ..RecalibrationSettings::default()
         };
         // A progress bar on the terminal (drawn only when standard error is a terminal).
-        let bar = indicatif::ProgressBar::new((st.chains * st.iterations) as u64);
-        bar.set_style(
-            indicatif::ProgressStyle::with_template(
-                "recalibrating measurements [{bar:40}] {pos}/{len} iterations ({eta} left)",
-            )
-            .unwrap_or_else(|_| indicatif::ProgressStyle::default_bar()),
-        );
+        let bar = super::progress_bar(st.chains * st.iterations, "recalibrating measurements");
         let r = recalibrate(&model, &a.individuals, &evidence, prior, &st, Some(&bar));
         bar.finish_and_clear();
         files.files.extend(recalibration_files(&a, &analysis, &r));

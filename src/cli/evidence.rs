@@ -3,7 +3,7 @@
 
 use super::input::InputArgs;
 use crate::data::{read_assemblage, Assemblage};
-use crate::likelihood::{evaluate_assemblage, ledger_csv};
+use crate::likelihood::{evaluate_with_progress, ledger_csv};
 use crate::model::{BlockStatus, Context, IndividualEvidence, Model};
 use crate::output::write_atomic;
 use crate::Error;
@@ -69,7 +69,9 @@ pub fn run(args: Args) -> Result<i32, Error> {
         }
     };
     let ctx = Context::new(args.seed);
-    let evidence = evaluate_assemblage(&model, &a, &ctx);
+    let bar = super::progress_bar(a.individuals.len(), "weighing the evidence");
+    let evidence = evaluate_with_progress(&model, &a, &ctx, Some(&bar));
+    bar.finish_and_clear();
     let csv = ledger_csv(&model, &a, &evidence).map_err(|e| Error::Io {
         path: args.out.clone(),
         source: std::io::Error::other(e.to_string()),

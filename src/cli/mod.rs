@@ -83,3 +83,16 @@ pub(crate) fn settings_error(option: &str, message: String) -> crate::Error {
         message,
     }
 }
+
+/// A progress bar on standard error, drawn only when standard error is a terminal (indicatif
+/// hides it otherwise), so files and pipes receive no bar.
+pub(crate) fn progress_bar(len: usize, what: &str) -> indicatif::ProgressBar {
+    let bar = indicatif::ProgressBar::new(len as u64);
+    bar.set_style(
+        indicatif::ProgressStyle::with_template(&format!(
+            "{what} [{{bar:40}}] {{pos}}/{{len}} ({{eta}} left)"
+        ))
+        .unwrap_or_else(|_| indicatif::ProgressStyle::default_bar()),
+    );
+    bar
+}

@@ -3,7 +3,7 @@
 use crate::assemblage::{Category, Thresholds};
 use crate::output::write_atomic;
 use crate::prior::parse_prior_set;
-use crate::sim::plan::{plan, PlanSettings};
+use crate::sim::plan::{plan_with_progress, PlanSettings};
 use crate::sim::MissingSpec;
 use crate::Error;
 use std::fmt::Write as _;
@@ -76,7 +76,13 @@ pub fn run(args: Args) -> Result<i32, Error> {
         replicates: args.reps,
         seed: args.seed,
     };
-    let rows = plan(&model, &settings).map_err(|e| settings_error("--model", e.to_string()))?;
+    let bar = super::progress_bar(
+        settings.sizes.len() * settings.replicates,
+        "simulating excavations",
+    );
+    let rows = plan_with_progress(&model, &settings, Some(&bar))
+        .map_err(|e| settings_error("--model", e.to_string()))?;
+    bar.finish_and_clear();
     let mut t = String::new();
     let _ = writeln!(
         t,

@@ -9,7 +9,9 @@ use crate::fit::ReferenceInfo;
 use crate::model::Model;
 use crate::output::write_atomic;
 use crate::report::validation::{headline, validation_files};
-use crate::validate::{validate, Folds, Subject, ValidationError, ValidationSettings};
+use crate::validate::{
+    validate_with_progress, Folds, Subject, ValidationError, ValidationSettings,
+};
 use crate::Error;
 use std::path::{Path, PathBuf};
 
@@ -109,7 +111,10 @@ pub fn run(args: Args) -> Result<i32, Error> {
         (None, Some(m)) => (Subject::Fixed(m), format!("the model `{}`", m.name)),
         (None, None) => unreachable_settings()?,
     };
-    let v = match validate(subject, &known, &info, &vs) {
+    let bar = super::progress_bar(known.len(), "classifying held-out individuals");
+    let result = validate_with_progress(subject, &known, &info, &vs, Some(&bar));
+    bar.finish_and_clear();
+    let v = match result {
         Ok(v) => v,
         Err(ValidationError::Fit {
             fold,

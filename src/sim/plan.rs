@@ -56,6 +56,18 @@ type Excavation = (f64, bool, [usize; 6], usize, usize);
 /// # Errors
 /// [`SimError`] when the model cannot be simulated.
 pub fn plan(model: &Model, settings: &PlanSettings) -> Result<Vec<PlanRow>, SimError> {
+    plan_with_progress(model, settings, None)
+}
+
+/// As [`plan`], advancing `progress` by one per simulated excavation.
+///
+/// # Errors
+/// As [`plan`].
+pub fn plan_with_progress(
+    model: &Model,
+    settings: &PlanSettings,
+    progress: Option<&indicatif::ProgressBar>,
+) -> Result<Vec<PlanRow>, SimError> {
     let PlanSettings {
         sizes,
         pi,
@@ -74,6 +86,9 @@ pub fn plan(model: &Model, settings: &PlanSettings) -> Result<Vec<PlanRow>, SimE
         let results: Vec<Result<Excavation, SimError>> = (0..replicates)
             .into_par_iter()
             .map(|r| {
+                if let Some(p) = progress {
+                    p.inc(1);
+                }
                 let s = seed
                     .wrapping_mul(1_000_003)
                     .wrapping_add((n as u64) << 20)

@@ -209,6 +209,20 @@ pub fn validate(
     info: &ReferenceInfo,
     settings: &ValidationSettings,
 ) -> Result<Validation, ValidationError> {
+    validate_with_progress(subject, reference, info, settings, None)
+}
+
+/// As [`validate`], advancing `progress` by one per individual classified.
+///
+/// # Errors
+/// As [`validate`].
+pub fn validate_with_progress(
+    subject: Subject,
+    reference: &[(&Individual, Sex)],
+    info: &ReferenceInfo,
+    settings: &ValidationSettings,
+    progress: Option<&indicatif::ProgressBar>,
+) -> Result<Validation, ValidationError> {
     let p0 = settings.prior_female;
     if !(p0 > 0.0 && p0 < 1.0) {
         return Err(ValidationError::Settings(format!(
@@ -284,6 +298,9 @@ pub fn validate(
         .enumerate()
         .map(|(i, (ind, _))| {
             let f = fold_of[i];
+            if let Some(p) = progress {
+                p.inc(1);
+            }
             (i, models[f].evaluate_cached(ind, &ctx, &caches[f]))
         })
         .collect();
