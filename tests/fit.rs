@@ -135,7 +135,11 @@ fn fit_and_validate_from_the_command_line() {
         assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
         assert!(stdout(&o).contains("5-fold cross-validation"));
         // Standard error is not a terminal here: no progress bar is drawn into it.
-        assert!(!stderr(&o).contains("classifying held-out"), "{}", stderr(&o));
+        assert!(
+            !stderr(&o).contains("classifying held-out"),
+            "{}",
+            stderr(&o)
+        );
     }
     for f in [
         "predictions.csv",

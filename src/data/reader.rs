@@ -13,6 +13,10 @@ use sha2::{Digest, Sha256};
 use std::collections::HashMap;
 use std::path::Path;
 
+/// Largest input file read (512 MB): the whole table is held in memory while it is checked,
+/// at several times its size on disk. A choice of ours, far above any cemetery.
+pub const MAX_INPUT_BYTES: u64 = 512 << 20;
+
 /// Which side an observation of a bilateral trait came from.
 #[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize)]
 #[serde(rename_all = "snake_case")]
@@ -109,6 +113,21 @@ pub fn read_assemblage(
         problems,
         warnings: Vec::new(),
     };
+    if let Ok(meta) = std::fs::metadata(path) {
+        if meta.len() > MAX_INPUT_BYTES {
+            return Err(fail(vec![Problem {
+                file: name.clone(),
+                row: None,
+                column: None,
+                value: Some(format!("{} MB", meta.len() >> 20)),
+                kind: ProblemKind::Unreadable,
+                expected: format!(
+                    "a table of at most {} MB (about three million individuals); split larger files by site, phase or zone and analyse them as groups of one study",
+                    MAX_INPUT_BYTES >> 20
+                ),
+            }]));
+        }
+    }
     let bytes = std::fs::read(path).map_err(|e| {
         fail(vec![Problem {
             file: name.clone(),
