@@ -404,6 +404,8 @@ pub fn summarise(pi: &[f64], edges: &[f64], mass: &[f64]) -> PiSummary {
     let post = super::posterior::PiPosterior {
         grid: pi.to_vec(),
         mass: mass.to_vec(),
+        nodes: pi.to_vec(),
+        node_mass: mass.to_vec(),
         edges: edges.to_vec(),
         ln_evidence: f64::NAN,
     };

@@ -95,3 +95,84 @@ fn hdi_is_no_wider_than_the_equal_tailed_interval() {
     let s = post.summary();
     assert!(s.hdi_hi - s.hdi_lo <= s.hi - s.lo + 1e-3);
 }
+
+#[test]
+fn gauss_legendre_rule_is_exact_for_polynomials_up_to_degree_15() {
+    // ∫₀¹ x^k dx = 1/(k+1); the composite rule of 8-point panels is exact to degree 15.
+    let rule = composite_gauss_legendre(0.0, 1.0);
+    assert_eq!(rule.len(), 128);
+    for k in 0..=15 {
+        let v: f64 = rule.iter().map(|&(x, w)| w * x.powi(k)).sum();
+        assert!(
+            (v - 1.0 / (k as f64 + 1.0)).abs() < 1e-14,
+            "degree {k}: {v}"
+        );
+    }
+}
+
+#[test]
+fn p_female_by_the_node_rule_equals_the_fine_grid() {
+    // Assemblages large enough for a narrow posterior, with ordinary and extreme LRs.
+    let mut worst: f64 = 0.0;
+    let mut used_nodes = 0;
+    for (n, a, b, shift) in [
+        (400usize, 1.0, 1.0, 0.0),
+        (2000, 0.5, 0.5, 1.5),
+        (5000, 48.78, 51.22, -2.0),
+        (300, 1.0, 1.0, -3.0),
+    ] {
+        let l: Vec<f64> = (0..n)
+            .map(|i| match i % 13 {
+                0 => 60.0,
+                1 => -55.0,
+                k => ((i * 37 % 23) as f64 - 11.0) * 0.7 + shift + k as f64 * 0.01,
+            })
+            .collect();
+        let prior = Prior {
+            shape: crate::prior::PriorShape::Beta { a, b },
+            ..flat()
+        };
+        let post = PiPosterior::compute(&l, &prior);
+        if post.nodes.len() != post.grid.len() {
+            used_nodes += 1;
+        }
+        for x in [-50.0, -8.0, -1.0, 0.0, 0.4, 3.0, 12.0, 60.0] {
+            let grid = p_female_on_grid(&post.grid, &post.mass, x);
+            worst = worst.max((post.p_female(x) - grid).abs());
+        }
+    }
+    assert!(used_nodes >= 2, "node rule used in {used_nodes} cases");
+    assert!(worst < 1e-9, "largest difference {worst:e}");
+    // A small assemblage has a wide region: the grid itself serves.
+    let post = PiPosterior::compute(&[2.0, -1.0, 0.3], &flat());
+    assert_eq!(post.nodes, post.grid);
+}
+
+#[test]
+fn the_fast_path_equals_direct_evaluation_on_large_assemblages() {
+    // Interpolated data log-likelihood and node rule against every cell evaluated directly.
+    for (n, a, b) in [(3000usize, 1.0, 1.0), (20_000, 48.78, 51.22), (8000, 0.5, 0.5)] {
+        let l: Vec<f64> = (0..n)
+            .map(|i| match i % 17 {
+                0 => 70.0,
+                1 => -65.0,
+                k => ((i * 53 % 29) as f64 - 13.0) * 0.8 + k as f64 * 0.02,
+            })
+            .collect();
+        let prior = Prior {
+            shape: crate::prior::PriorShape::Beta { a, b },
+            ..flat()
+        };
+        let fast = PiPosterior::compute(&l, &prior);
+        let direct = PiPosterior::compute_with(&l, &prior, false);
+        assert_ne!(fast.nodes.len(), fast.grid.len(), "n = {n}: the fast path was not taken");
+        let (x, y) = (fast.summary(), direct.summary());
+        for (u, v) in [(x.mean, y.mean), (x.lo, y.lo), (x.hi, y.hi), (x.median, y.median)] {
+            assert!((u - v).abs() < 1e-10, "n = {n}: {u} vs {v}");
+        }
+        for q in [-60.0, -5.0, -0.3, 0.0, 2.0, 9.0, 45.0] {
+            let (u, v) = (fast.p_female(q), direct.p_female(q));
+            assert!((u - v).abs() < 1e-9, "n = {n}, l = {q}: {u} vs {v}");
+        }
+    }
+}
