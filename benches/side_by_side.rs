@@ -245,7 +245,7 @@ fn main() {
     match status {
         Ok(s) if s.success() => {}
         other => {
-            eprintln!("the Python reference did not run ({other:?}); dimorph alone: posterior {t_post:.4} s, likelihoods {t_lik:.4} s");
+            eprintln!("the Python reference did not run ({other:?}); dimorph alone: posterior {t_post:.4} s, likelihoods {t_lik:.4} s, hierarchy {t_hier:.4} s");
             return;
         }
     }

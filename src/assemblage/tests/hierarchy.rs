@@ -88,3 +88,26 @@ fn different_groups_are_told_apart() {
     assert!(h.group_pi(0).mean > 0.75 && h.group_pi(1).mean < 0.25);
     assert!(h.ln_bf_groups_differ() > 5.0, "{}", h.ln_bf_groups_differ());
 }
+
+#[test]
+fn midpoint_prior_masses_away_from_the_ends_equal_the_exact_ones() {
+    // A large group: its grid lies well inside (0, 1), so even Beta priors with α, β < ½ use
+    // the midpoint form; it must equal the exact incomplete-beta masses.
+    let l: Vec<f64> = (0..3000)
+        .map(|i| ((i * 31 % 19) as f64 - 9.0) * 0.6)
+        .collect();
+    let g = GroupGrid::new(&l);
+    for (a, b) in [(0.2, 0.3), (0.05, 0.9), (0.45, 0.02)] {
+        let fast = g.ln_prior_mass(a, b);
+        let exact: Vec<f64> = (0..g.pi.len())
+            .map(|j| (beta_reg(a, b, g.edges[j + 1]) - beta_reg(a, b, g.edges[j])).ln())
+            .collect();
+        let mut largest: f64 = 0.0;
+        for (u, v) in fast.iter().zip(&exact) {
+            assert!((u - v).abs() < 1e-6, "α {a} β {b}: {u} vs {v}");
+            largest = largest.max((u - v).abs());
+        }
+        // The midpoint form was taken (it is not bit-equal to the exact masses).
+        assert!(largest > 0.0, "α {a} β {b}: the exact form was used");
+    }
+}

@@ -151,7 +151,11 @@ fn p_female_by_the_node_rule_equals_the_fine_grid() {
 #[test]
 fn the_fast_path_equals_direct_evaluation_on_large_assemblages() {
     // Interpolated data log-likelihood and node rule against every cell evaluated directly.
-    for (n, a, b) in [(3000usize, 1.0, 1.0), (20_000, 48.78, 51.22), (8000, 0.5, 0.5)] {
+    for (n, a, b) in [
+        (3000usize, 1.0, 1.0),
+        (20_000, 48.78, 51.22),
+        (8000, 0.5, 0.5),
+    ] {
         let l: Vec<f64> = (0..n)
             .map(|i| match i % 17 {
                 0 => 70.0,
@@ -165,9 +169,18 @@ fn the_fast_path_equals_direct_evaluation_on_large_assemblages() {
         };
         let fast = PiPosterior::compute(&l, &prior);
         let direct = PiPosterior::compute_with(&l, &prior, false);
-        assert_ne!(fast.nodes.len(), fast.grid.len(), "n = {n}: the fast path was not taken");
+        assert_ne!(
+            fast.nodes.len(),
+            fast.grid.len(),
+            "n = {n}: the fast path was not taken"
+        );
         let (x, y) = (fast.summary(), direct.summary());
-        for (u, v) in [(x.mean, y.mean), (x.lo, y.lo), (x.hi, y.hi), (x.median, y.median)] {
+        for (u, v) in [
+            (x.mean, y.mean),
+            (x.lo, y.lo),
+            (x.hi, y.hi),
+            (x.median, y.median),
+        ] {
             assert!((u - v).abs() < 1e-10, "n = {n}: {u} vs {v}");
         }
         for q in [-60.0, -5.0, -0.3, 0.0, 2.0, 9.0, 45.0] {
