@@ -111,7 +111,7 @@ impl GroupGrid {
         // Away from the unbounded end the midpoint form stays accurate: its relative error
         // per cell is about h² g''/(24 g) ≤ h²/(12 d²) in t, for a cell width h and a
         // distance d from the end (g ∝ t^(2α−1) there); accepted below 1e-6.
-        let t_of = |p: f64| p.max(0.0).min(1.0).sqrt().asin() / FRAC_PI_2;
+        let t_of = |p: f64| p.clamp(0.0, 1.0).sqrt().asin() / FRAC_PI_2;
         let (t_lo, t_hi) = (t_of(self.edges[0]), t_of(self.edges[self.edges.len() - 1]));
         let h = (t_hi - t_lo) / self.pi.len() as f64;
         let smooth_near = |d: f64| d > 0.0 && h * h / (12.0 * d * d) < 1e-6;
