@@ -225,14 +225,14 @@ impl LatentBlock {
     }
 
     /// A key naming exactly what this individual has observed in the block (traits and
-    /// values): equal keys give equal evidence. `None` when nothing is observed.
+    /// grades): equal keys give equal evidence. `None` when nothing is observed, and when a
+    /// measurement is: continuous values practically never repeat, so keeping their results
+    /// would only cost memory (about 1 KB per individual).
     pub fn pattern(&self, ind: &Individual) -> Option<String> {
         let mut key = String::new();
         for (j, t) in self.traits.iter().enumerate() {
             match ind.observations[t.catalogue_index] {
-                Some(Observation::Measurement { value }) => {
-                    key.push_str(&format!("m{j}:{:x};", value.to_bits()))
-                }
+                Some(Observation::Measurement { .. }) => return None,
                 Some(Observation::Grade { low, high }) => {
                     key.push_str(&format!("o{j}:{low}-{high};"))
                 }
