@@ -64,6 +64,11 @@ impl Draws {
         let flat_w: Vec<f64> = hier
             .map(|h| h.w.iter().flatten().copied().collect())
             .unwrap_or_default();
+        // LR of each individual where it is moderate (|ln LR| ≤ 40); the logistic form beyond.
+        let lr: Vec<Option<f64>> = ln_lrs
+            .iter()
+            .map(|&l| (l.abs() <= 40.0).then(|| l.exp()))
+            .collect();
         for _ in 0..n {
             let (mu, kappa, pis) = match hier {
                 None => {
@@ -98,10 +103,19 @@ impl Draws {
             };
             let sexes = ln_lrs
                 .iter()
+                .zip(&lr)
                 .enumerate()
-                .map(|(i, &l)| {
+                .map(|(i, (&l, &e))| {
                     let g = hier.map(|h| h.membership[i]).unwrap_or(0);
-                    rng.random::<f64>() < p_female_given(pis[g], l)
+                    let p = match e {
+                        // π LR / (π LR + 1 − π), both terms positive: no logarithm per draw.
+                        Some(e) => {
+                            let f = pis[g] * e;
+                            f / (f + (1.0 - pis[g]))
+                        }
+                        None => p_female_given(pis[g], l),
+                    };
+                    rng.random::<f64>() < p
                 })
                 .collect();
             d.mu.push(mu);
