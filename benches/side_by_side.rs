@@ -199,19 +199,10 @@ fn main() {
                 (LatentKind::Metric, Some(Observation::Measurement { value })) => {
                     let _ = writeln!(cases, "{k},{j},m,{value:?},,");
                 }
-                (
-                    LatentKind::Ordinal { thresholds, lowest },
-                    Some(Observation::Grade { low, high }),
-                ) => {
-                    let lo = (low - lowest) as usize;
-                    let hi = (high - lowest) as usize;
-                    let a = if lo == 0 {
-                        f64::NEG_INFINITY
-                    } else {
-                        thresholds[lo - 1]
-                    };
-                    let b = thresholds.get(hi).copied().unwrap_or(f64::INFINITY);
-                    let _ = writeln!(cases, "{k},{j},o,,{a:?},{b:?}");
+                (kind, Some(Observation::Grade { low, high })) => {
+                    if let Some((a, b)) = kind.bounds(low, high) {
+                        let _ = writeln!(cases, "{k},{j},o,,{a:?},{b:?}");
+                    }
                 }
                 _ => {}
             }

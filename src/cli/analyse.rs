@@ -5,7 +5,6 @@ use super::input::InputArgs;
 use crate::assemblage::draws::Draws;
 use crate::assemblage::recalibration::{recalibrate, RecalibrationSettings};
 use crate::assemblage::{analyse, Thresholds};
-use crate::data::read_assemblage;
 use crate::likelihood::evaluate_with_progress;
 use crate::model::Context;
 use crate::output::write_atomic;
@@ -96,12 +95,8 @@ pub fn run(args: Args) -> Result<i32, Error> {
         message,
     })?;
     let settings = args.input.settings(&model.catalogue)?;
-    let a = match read_assemblage(&args.file, &model.catalogue, &settings) {
-        Ok(a) => a,
-        Err(e) => {
-            eprint!("{}", super::check::render_problems(&e));
-            return Ok(3);
-        }
+    let Some(a) = super::input::read_or_report(&args.file, &model.catalogue, &settings) else {
+        return Ok(3);
     };
     for w in &a.warnings {
         eprintln!("warning: {w}");

@@ -2,7 +2,7 @@
 //! without any prior.
 
 use super::input::InputArgs;
-use crate::data::{read_assemblage, Assemblage};
+use crate::data::Assemblage;
 use crate::likelihood::{evaluate_with_progress, ledger_csv};
 use crate::model::{BlockStatus, Context, IndividualEvidence, Model};
 use crate::output::write_atomic;
@@ -61,12 +61,8 @@ struct RunRecord<'a> {
 pub fn run(args: Args) -> Result<i32, Error> {
     let model = load_model(args.model.as_deref())?;
     let settings = args.input.settings(&model.catalogue)?;
-    let a = match read_assemblage(&args.file, &model.catalogue, &settings) {
-        Ok(a) => a,
-        Err(e) => {
-            eprint!("{}", super::check::render_problems(&e));
-            return Ok(3);
-        }
+    let Some(a) = super::input::read_or_report(&args.file, &model.catalogue, &settings) else {
+        return Ok(3);
     };
     let ctx = Context::new(args.seed);
     let bar = super::progress_bar(a.individuals.len(), "weighing the evidence");

@@ -3,7 +3,7 @@
 
 use super::input::InputArgs;
 use crate::catalogue::Catalogue;
-use crate::data::{read_assemblage, Assemblage, Individual, Sex};
+use crate::data::{Assemblage, Individual, Sex};
 use crate::fit::{check_spec, fit, FitSpec, Fitted, ReferenceInfo};
 use crate::output::write_atomic;
 use crate::Error;
@@ -88,12 +88,8 @@ pub fn estimates_path(model: &Path) -> PathBuf {
 pub fn run(args: Args) -> Result<i32, Error> {
     let (spec, catalogue) = load_spec(&args.traits)?;
     let settings = args.input.settings(&catalogue)?;
-    let a = match read_assemblage(&args.reference, &catalogue, &settings) {
-        Ok(a) => a,
-        Err(e) => {
-            eprint!("{}", super::check::render_problems(&e));
-            return Ok(3);
-        }
+    let Some(a) = super::input::read_or_report(&args.reference, &catalogue, &settings) else {
+        return Ok(3);
     };
     let (known, unknown) = documented(&a);
     let info = ReferenceInfo {

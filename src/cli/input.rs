@@ -2,6 +2,7 @@
 
 use crate::catalogue::Catalogue;
 use crate::data::settings::parse_scale_maps;
+use crate::data::{read_assemblage, Assemblage};
 use crate::data::{ReadSettings, SidePolicy, SideTolerance};
 use crate::Error;
 use clap::ValueEnum;
@@ -87,5 +88,21 @@ impl InputArgs {
             sheet: self.sheet.clone(),
             group_column: self.group_by.clone(),
         })
+    }
+}
+
+/// Read a table; on problems, print every one of them and return `None` (the caller exits
+/// with code 3).
+pub(crate) fn read_or_report(
+    path: &std::path::Path,
+    catalogue: &Catalogue,
+    settings: &ReadSettings,
+) -> Option<Assemblage> {
+    match read_assemblage(path, catalogue, settings) {
+        Ok(a) => Some(a),
+        Err(e) => {
+            eprint!("{}", super::check::render_problems(&e));
+            None
+        }
     }
 }

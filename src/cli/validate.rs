@@ -4,7 +4,6 @@
 use super::fit::{documented, load_spec, render_fit_problems};
 use super::input::InputArgs;
 use crate::assemblage::category::Thresholds;
-use crate::data::read_assemblage;
 use crate::fit::ReferenceInfo;
 use crate::model::Model;
 use crate::output::write_atomic;
@@ -79,12 +78,8 @@ pub fn run(args: Args) -> Result<i32, Error> {
         }
     };
     let settings = args.input.settings(&catalogue)?;
-    let a = match read_assemblage(&args.reference, &catalogue, &settings) {
-        Ok(a) => a,
-        Err(e) => {
-            eprint!("{}", super::check::render_problems(&e));
-            return Ok(3);
-        }
+    let Some(a) = super::input::read_or_report(&args.reference, &catalogue, &settings) else {
+        return Ok(3);
     };
     let (known, unknown) = documented(&a);
     let command = super::command_line().join(" ");

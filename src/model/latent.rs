@@ -35,6 +35,28 @@ pub enum LatentKind {
     Metric,
 }
 
+impl LatentKind {
+    /// The latent interval (τ below the lowest grade allowed, τ above the highest) of a score
+    /// "between grades `low` and `high`"; `None` for a metric trait or a grade off the scale.
+    pub fn bounds(&self, low: i32, high: i32) -> Option<(f64, f64)> {
+        let LatentKind::Ordinal { thresholds, lowest } = self else {
+            return None;
+        };
+        let lo = usize::try_from(low - lowest).ok()?;
+        let hi = usize::try_from(high - lowest).ok()?;
+        if hi > thresholds.len() || lo > hi {
+            return None;
+        }
+        let lower = if lo == 0 {
+            f64::NEG_INFINITY
+        } else {
+            thresholds[lo - 1]
+        };
+        let upper = thresholds.get(hi).copied().unwrap_or(f64::INFINITY);
+        Some((lower, upper))
+    }
+}
+
 /// One trait of a latent block.
 #[derive(Debug, Clone, PartialEq)]
 pub struct LatentTrait {
@@ -253,15 +275,10 @@ impl LatentBlock {
             };
             match (&t.kind, obs) {
                 (LatentKind::Metric, Observation::Measurement { value }) => metric.push((j, value)),
-                (LatentKind::Ordinal { thresholds, lowest }, Observation::Grade { low, high }) => {
-                    let lo_idx = (low - lowest) as usize;
-                    let hi_idx = (high - lowest) as usize;
-                    let lower = if lo_idx == 0 {
-                        f64::NEG_INFINITY
-                    } else {
-                        thresholds[lo_idx - 1]
+                (kind @ LatentKind::Ordinal { .. }, Observation::Grade { low, high }) => {
+                    let Some((lower, upper)) = kind.bounds(low, high) else {
+                        continue;
                     };
-                    let upper = thresholds.get(hi_idx).copied().unwrap_or(f64::INFINITY);
                     ordinal.push((j, lower, upper));
                 }
                 _ => continue,
