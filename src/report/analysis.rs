@@ -83,7 +83,7 @@ fn f4(x: f64) -> String {
     format!("{x:.4}")
 }
 
-use super::{csv_bytes, header};
+use super::{csv_bytes, header, CsvText};
 
 /// Render the four files.
 ///
@@ -251,23 +251,20 @@ pub fn render_files(
     }
     let assemblage = csv_bytes(rows);
     // sensitivity.csv
-    let mut rows = vec![vec![
-        "id".to_string(),
-        "prior".into(),
-        "p_female".into(),
-        "category".into(),
-    ]];
+    let mut text = CsvText::default();
+    text.row(["id", "prior", "p_female", "category"]);
     for (i, ind) in a.individuals.iter().enumerate() {
         for r in &all {
-            rows.push(vec![
-                ind.id.clone(),
-                r.prior.name.clone(),
-                r.p_female[i].map(prob).unwrap_or_default(),
-                r.categories[i].as_str().to_string(),
+            let p = r.p_female[i].map(prob).unwrap_or_default();
+            text.row([
+                ind.id.as_str(),
+                r.prior.name.as_str(),
+                p.as_str(),
+                r.categories[i].as_str(),
             ]);
         }
     }
-    let sensitivity = csv_bytes(rows);
+    let sensitivity = text.finish();
     // run.json
     #[derive(Serialize)]
     struct PriorRef<'a> {
@@ -329,17 +326,15 @@ pub fn render_files(
         files.push(("groups.csv".into(), csv_bytes(rows)));
     }
     if write_draws {
-        let mut rows = vec![vec!["draw".to_string(), "id".into(), "sex".into()]];
+        let mut text = CsvText::default();
+        text.row(["draw", "id", "sex"]);
         for (d, sexes) in draws.female.iter().enumerate() {
+            let draw = (d + 1).to_string();
             for (ind, &f) in a.individuals.iter().zip(sexes) {
-                rows.push(vec![
-                    (d + 1).to_string(),
-                    ind.id.clone(),
-                    if f { "F" } else { "M" }.into(),
-                ]);
+                text.row([draw.as_str(), ind.id.as_str(), if f { "F" } else { "M" }]);
             }
         }
-        files.push(("draws.csv".into(), csv_bytes(rows)));
+        files.push(("draws.csv".into(), text.finish()));
         let mut head = vec!["draw".to_string(), "mu".into(), "kappa".into()];
         if main.groups.is_empty() {
             head.push("pi".into());
