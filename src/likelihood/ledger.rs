@@ -15,7 +15,7 @@
 //! | `note` | equation used, reason not used, age note |
 //! | then | every input column the model does not use, unchanged |
 
-use crate::data::Assemblage;
+use crate::data::{Assemblage, Individual};
 use crate::model::{BlockStatus, IndividualEvidence, Model};
 use std::f64::consts::LN_10;
 
@@ -66,52 +66,54 @@ pub fn ledger_rows(
     a: &Assemblage,
     evidence: &[IndividualEvidence],
 ) -> Vec<(usize, LedgerRow)> {
-    let mut rows = Vec::new();
-    for (i, (ind, ev)) in a.individuals.iter().zip(evidence).enumerate() {
-        for (b, e) in model.blocks.iter().zip(&ev.blocks) {
-            rows.push((
-                i,
-                LedgerRow {
-                    id: ind.id.clone(),
-                    block: b.id().to_string(),
-                    block_type: b.kind().to_string(),
-                    status: e.status.as_str().to_string(),
-                    traits_used: e.traits_used.clone(),
-                    ln_l_female: e.ln_l_female,
-                    ln_l_male: e.ln_l_male,
-                    ln_lr: e.ln_lr,
-                    error: e.error,
-                    note: e.note.clone(),
-                },
-            ));
-        }
-        let used: Vec<String> = ev
-            .blocks
-            .iter()
-            .filter(|e| e.status == BlockStatus::Used)
-            .flat_map(|e| e.traits_used.clone())
-            .collect();
-        rows.push((
-            i,
-            LedgerRow {
-                id: ind.id.clone(),
-                block: "total".into(),
-                block_type: String::new(),
-                status: if ev.estimable {
-                    "estimated"
-                } else {
-                    "not_estimable"
-                }
-                .into(),
-                traits_used: used,
-                ln_l_female: None,
-                ln_l_male: None,
-                ln_lr: ev.ln_lr,
-                error: ev.error,
-                note: ev.note.clone(),
-            },
-        ));
+    a.individuals
+        .iter()
+        .zip(evidence)
+        .enumerate()
+        .flat_map(|(i, (ind, ev))| rows_of(model, ind, ev).into_iter().map(move |r| (i, r)))
+        .collect()
+}
+
+/// One individual's ledger rows: one per block, then the total.
+fn rows_of(model: &Model, ind: &Individual, ev: &IndividualEvidence) -> Vec<LedgerRow> {
+    let mut rows = Vec::with_capacity(model.blocks.len() + 1);
+    for (b, e) in model.blocks.iter().zip(&ev.blocks) {
+        rows.push(LedgerRow {
+            id: ind.id.clone(),
+            block: b.id().to_string(),
+            block_type: b.kind().to_string(),
+            status: e.status.as_str().to_string(),
+            traits_used: e.traits_used.clone(),
+            ln_l_female: e.ln_l_female,
+            ln_l_male: e.ln_l_male,
+            ln_lr: e.ln_lr,
+            error: e.error,
+            note: e.note.clone(),
+        });
     }
+    let used: Vec<String> = ev
+        .blocks
+        .iter()
+        .filter(|e| e.status == BlockStatus::Used)
+        .flat_map(|e| e.traits_used.clone())
+        .collect();
+    rows.push(LedgerRow {
+        id: ind.id.clone(),
+        block: "total".into(),
+        block_type: String::new(),
+        status: if ev.estimable {
+            "estimated"
+        } else {
+            "not_estimable"
+        }
+        .into(),
+        traits_used: used,
+        ln_l_female: None,
+        ln_l_male: None,
+        ln_lr: ev.ln_lr,
+        error: ev.error,
+        note: ev.note.clone(),
+    });
     rows
 }
 
@@ -134,23 +136,26 @@ pub fn ledger_csv(
     let mut header: Vec<&str> = LEDGER_COLUMNS.to_vec();
     header.extend(a.carried_columns.iter().map(String::as_str));
     w.write_record(&header)?;
-    for (i, r) in ledger_rows(model, a, evidence) {
-        let mut rec = vec![
-            r.id,
-            r.block,
-            r.block_type,
-            r.status,
-            r.traits_used.join(";"),
-            r.traits_used.len().to_string(),
-            r.ln_l_female.map(num).unwrap_or_default(),
-            r.ln_l_male.map(num).unwrap_or_default(),
-            num(r.ln_lr),
-            num(r.ln_lr / LN_10),
-            format!("{:.2e}", r.error),
-            r.note,
-        ];
-        rec.extend(a.individuals[i].carried.iter().cloned());
-        w.write_record(&rec)?;
+    // Row by row: the ledger of a large assemblage is never held as strings in full.
+    for (i, (ind, ev)) in a.individuals.iter().zip(evidence).enumerate() {
+        for r in rows_of(model, ind, ev) {
+            let mut rec = vec![
+                r.id,
+                r.block,
+                r.block_type,
+                r.status,
+                r.traits_used.join(";"),
+                r.traits_used.len().to_string(),
+                r.ln_l_female.map(num).unwrap_or_default(),
+                r.ln_l_male.map(num).unwrap_or_default(),
+                num(r.ln_lr),
+                num(r.ln_lr / LN_10),
+                format!("{:.2e}", r.error),
+                r.note,
+            ];
+            rec.extend(a.individuals[i].carried.iter().cloned());
+            w.write_record(&rec)?;
+        }
     }
     w.into_inner()
         .map_err(|e| csv::Error::from(std::io::Error::other(e.to_string())))
