@@ -120,6 +120,25 @@ fn fit_and_validate_from_the_command_line() {
         &p("l.csv"),
     ]);
     assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    // The methods paragraph of an analysis with the fitted model says how it was fitted.
+    let o = dimorph(&[
+        "analyse",
+        &p("ref.csv"),
+        "--model",
+        &p("m.yaml"),
+        "--out",
+        &p("a"),
+        "--priors",
+        "flat",
+    ]);
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    let methods = std::fs::read_to_string(dir.path().join("a/methods.md")).unwrap();
+    assert!(
+        methods.contains("from a documented reference collection (file `ref.csv`, SHA-256"),
+        "{methods}"
+    );
+    assert!(methods.contains("McCullagh, P. (1980)") && methods.contains("Olsson, U. (1979)"));
+    assert!(!methods.contains("Noussios"));
     // Cross-validation with a report folder; same seed, same bytes.
     for out in ["v1", "v2"] {
         let o = dimorph(&[

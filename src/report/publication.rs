@@ -293,8 +293,16 @@ pub fn references_used(
     {
         refs.push("Buikstra, J. E., & Ubelaker, D. H. (Eds.). (1994). Standards for data collection from human skeletal remains. Arkansas Archeological Survey Research Series 44.");
     }
-    if used_traits.contains("femur_head_diameter")
-        || used_traits.contains("femur_midshaft_circumference")
+    let fitted = is_fitted(model);
+    if fitted && used_latent {
+        refs.push("McCullagh, P. (1980). Journal of the Royal Statistical Society, Series B, 42, 109–142.");
+        refs.push("Olsson, U. (1979). Psychometrika, 44, 443–460.");
+        refs.push("Olsson, U., Drasgow, F., & Dorans, N. J. (1982). Psychometrika, 47, 337–347.");
+    }
+    // The default model's femoral means come from Noussios et al.; a fitted model's do not.
+    if !fitted
+        && (used_traits.contains("femur_head_diameter")
+            || used_traits.contains("femur_midshaft_circumference"))
     {
         refs.push(
             "Noussios, G., et al. (2019). Journal of Clinical Medicine Research, 11, 740–744.",
@@ -313,6 +321,29 @@ pub fn references_used(
         );
     }
     refs
+}
+
+/// Whether the model was written by `dimorph fit` (its provenance says so in its first words).
+fn is_fitted(model: &Model) -> bool {
+    model.provenance.starts_with("FITTED by dimorph")
+}
+
+/// "file `x.csv`, SHA-256 `…`; 116 females and 124 males", read back from the provenance that
+/// `dimorph fit` writes; a pointer to the provenance where it cannot be read.
+fn fitted_reference(provenance: &str) -> String {
+    let first = provenance.lines().next().unwrap_or_default();
+    let parsed = (|| {
+        let rest = first.split_once(" to the reference file ")?.1;
+        let (file, rest) = rest.split_once(" (SHA-256 ")?;
+        let (sha, rest) = rest.split_once("), ")?;
+        let (counts, _) = rest.split_once(" of documented sex")?;
+        let name = std::path::Path::new(file)
+            .file_name()
+            .map(|n| n.to_string_lossy().into_owned())
+            .unwrap_or_else(|| file.to_string());
+        Some(format!("file `{name}`, SHA-256 `{sha}`; {counts}"))
+    })();
+    parsed.unwrap_or_else(|| "see the model's provenance".to_string())
 }
 
 /// The methods paragraph and its reference list.
@@ -369,6 +400,9 @@ pub fn methods_md(
     );
     if has_latent {
         let _ = write!(s, "Ordinal trait scores and measurements were modelled jointly by a multivariate cumulative probit with correlated latent traits (Konigsberg & Hens, 1998), extended to measurements; unobserved traits were integrated out, and probabilities of ordinal score combinations were computed exactly in one and two dimensions (Genz, 2004) and by Genz's separation-of-variables method with randomised quasi-Monte Carlo in three or more (Genz, 1992). ");
+        if is_fitted(model) {
+            let _ = write!(s, "The model's parameters were estimated with dimorph from a documented reference collection ({}) by two-step maximum likelihood: cumulative probit margins for the ordinal traits (McCullagh, 1980), per-sex means and standard deviations of the measurements, and polychoric, polyserial or Pearson within-sex correlations given the margins (Olsson, 1979; Olsson, Drasgow & Dorans, 1982). ", fitted_reference(&model.provenance));
+        }
     }
     let _ = write!(
         s,
