@@ -119,7 +119,12 @@ pub fn run(args: Args) -> Result<i32, Error> {
         spec.name, fitted.n_female, fitted.n_male, a.file
     );
     for b in &spec.blocks {
-        println!("  block {:<14} {} traits", b.id, b.traits.len());
+        let n = b.traits.len();
+        println!(
+            "  block {:<14} {n} trait{}",
+            b.id,
+            if n == 1 { "" } else { "s" }
+        );
     }
     let mut warnings: Vec<String> = a.warnings.iter().map(|w| w.to_string()).collect();
     warnings.extend(unknown);
