@@ -250,10 +250,23 @@ pub struct Hierarchy {
     pub ln_evidence_shared: f64,
 }
 
-impl Hierarchy {
-    /// Fit the hierarchy. `ln_lrs[i]` is 0 for individuals without evidence; `groups[i]` is
-    /// the individual's group name.
-    pub fn fit(ln_lrs: &[f64], groups: &[String], prior: &Prior) -> Hierarchy {
+/// What the hierarchy needs of the data, whatever the prior: the groups, each individual's
+/// group, each group's likelihood grid, and the data term of the shared-π alternative.
+#[derive(Debug, Clone)]
+pub struct GroupData {
+    /// Group names in order of first appearance.
+    pub names: Vec<String>,
+    /// Each individual's group index.
+    pub membership: Vec<usize>,
+    /// Each group's likelihood grid.
+    pub grids: Vec<GroupGrid>,
+    /// Every individual's data term, for the shared-π alternative.
+    pub all: MixtureSum,
+}
+
+impl GroupData {
+    /// Prepare the groups. `ln_lrs[i]` is 0 for individuals without evidence.
+    pub fn new(ln_lrs: &[f64], groups: &[String]) -> GroupData {
         let mut names: Vec<String> = Vec::new();
         let membership: Vec<usize> = groups
             .iter()
@@ -276,6 +289,28 @@ impl Hierarchy {
                 GroupGrid::new(&l)
             })
             .collect();
+        GroupData {
+            names,
+            membership,
+            grids,
+            all: MixtureSum::new(ln_lrs),
+        }
+    }
+}
+
+impl Hierarchy {
+    /// Fit the hierarchy. `ln_lrs[i]` is 0 for individuals without evidence; `groups[i]` is
+    /// the individual's group name.
+    pub fn fit(ln_lrs: &[f64], groups: &[String], prior: &Prior) -> Hierarchy {
+        Hierarchy::fit_on(&GroupData::new(ln_lrs, groups), prior)
+    }
+
+    /// Fit the hierarchy on groups prepared once (the groups' likelihood grids do not depend
+    /// on the prior, so a sensitivity analysis prepares them once for all its priors).
+    pub fn fit_on(data: &GroupData, prior: &Prior) -> Hierarchy {
+        let names = data.names.clone();
+        let membership = data.membership.clone();
+        let grids = data.grids.clone();
         let hyper = HyperGrid::new(prior);
         let (nm, nk) = (hyper.mu.len(), hyper.kappa.len());
         // One pass over the hyper-grid: each group's cell posteriors and marginal for (μ, κ),
@@ -331,7 +366,7 @@ impl Hierarchy {
             }
         }
         // Shared π: every group's π equals μ.
-        let all = MixtureSum::new(ln_lrs);
+        let all = &data.all;
         let ln_evidence_shared = ln_sum_exp(
             hyper
                 .mu

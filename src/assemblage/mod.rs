@@ -80,6 +80,18 @@ pub fn under_prior(
     prior: &Prior,
     thresholds: &Thresholds,
 ) -> (PriorResult, Fitted) {
+    under_prior_on(evidence, groups, None, prior, thresholds)
+}
+
+/// As [`under_prior`], with the groups already prepared (`prepared`, built from the same
+/// evidence and groups) so that several priors share them.
+pub fn under_prior_on(
+    evidence: &[IndividualEvidence],
+    groups: Option<&[String]>,
+    prepared: Option<&hierarchy::GroupData>,
+    prior: &Prior,
+    thresholds: &Thresholds,
+) -> (PriorResult, Fitted) {
     let ln_lrs: Vec<f64> = evidence
         .iter()
         .map(|e| if e.estimable { e.ln_lr } else { 0.0 })
@@ -98,9 +110,10 @@ pub fn under_prior(
         v.len()
     });
     let hier = match (groups, distinct) {
-        (Some(g), Some(k)) if k >= 2 && g.len() == evidence.len() => {
-            Some(hierarchy::Hierarchy::fit(&ln_lrs, g, prior))
-        }
+        (Some(g), Some(k)) if k >= 2 && g.len() == evidence.len() => Some(match prepared {
+            Some(d) => hierarchy::Hierarchy::fit_on(d, prior),
+            None => hierarchy::Hierarchy::fit(&ln_lrs, g, prior),
+        }),
         _ => None,
     };
     let p_female: Vec<Option<f64>> = evidence
@@ -231,14 +244,22 @@ pub fn analyse(
     set: &[Prior],
     thresholds: &Thresholds,
 ) -> Analysis {
-    let (main, fitted) = under_prior(evidence, groups, prior, thresholds);
+    // The groups' likelihood grids do not depend on the prior: prepared once for all.
+    let prepared = groups.map(|g| {
+        let ln_lrs: Vec<f64> = evidence
+            .iter()
+            .map(|e| if e.estimable { e.ln_lr } else { 0.0 })
+            .collect();
+        hierarchy::GroupData::new(&ln_lrs, g)
+    });
+    let (main, fitted) = under_prior_on(evidence, groups, prepared.as_ref(), prior, thresholds);
     // Priors are independent: computed in parallel, collected in the set's order, so the
     // result does not depend on the number of threads.
     let (sensitivity, posteriors): (Vec<PriorResult>, Vec<PiPosterior>) = {
         use rayon::prelude::*;
         set.par_iter()
             .map(|p| {
-                let (r, f) = under_prior(evidence, groups, p, thresholds);
+                let (r, f) = under_prior_on(evidence, groups, prepared.as_ref(), p, thresholds);
                 (r, f.posterior)
             })
             .unzip()
