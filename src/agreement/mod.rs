@@ -93,6 +93,61 @@ pub struct TraitAgreement {
     pub third: f64,
     /// `ordinal` or `metric`.
     pub kind: &'static str,
+    /// Ordinal: the polychoric correlation r of the two observers' scores (thresholds from
+    /// each observer's own marginal shares) and the observer-error SD as a share of the
+    /// scored latent SD, √(1 − r) (see [`observer_error`]).
+    pub observer_error: Option<(f64, f64)>,
+}
+
+/// The latent noise of scoring, from two observers' scores of the same individuals.
+///
+/// # Model
+/// Each observer records x + e with x the individual's latent trait value and e ~ N(0, σ²)
+/// independent noise of the same size for both observers; the polychoric correlation of the
+/// two scorings (Olsson 1979; thresholds from each observer's cumulative marginal shares) is
+/// then r = V / (V + σ²), V the variance of x, and √(1 − r) = σ / √(V + σ²) is the share of
+/// the scored latent SD that is observer noise. `None` with fewer than 10 pairs or r ≤ 0.
+pub fn observer_error(pairs: &[(i32, i32)], lowest: i32, highest: i32) -> Option<(f64, f64)> {
+    use crate::fit::correlation::{estimate, Margin, PairCase, Value};
+    use crate::numeric::normal::inverse_cdf_fast;
+    if pairs.len() < 10 {
+        return None;
+    }
+    let k = (highest - lowest + 1) as usize;
+    let n = pairs.len() as f64;
+    let margin = |pick: fn(&(i32, i32)) -> i32| {
+        let mut counts = vec![0.0; k];
+        for p in pairs {
+            counts[(pick(p) - lowest) as usize] += 1.0;
+        }
+        let mut acc = 0.0;
+        let thresholds: Vec<f64> = counts[..k - 1]
+            .iter()
+            .map(|c| {
+                acc += c;
+                // Shares of 0 or 1 (grades nobody used at an end) kept just inside (0, 1).
+                inverse_cdf_fast((acc / n).clamp(0.5 / n, 1.0 - 0.5 / n))
+            })
+            .collect();
+        Margin::Ordinal {
+            thresholds,
+            mean: [0.0, 0.0],
+        }
+    };
+    let (ma, mb) = (margin(|p| p.0), margin(|p| p.1));
+    let cases: Vec<PairCase> = pairs
+        .iter()
+        .map(|&(x, y)| {
+            let (gx, gy) = ((x - lowest) as usize, (y - lowest) as usize);
+            PairCase {
+                sex: 0,
+                first: Value::Grade(gx, gx),
+                second: Value::Grade(gy, gy),
+            }
+        })
+        .collect();
+    let r = estimate(&ma, &mb, &cases).rho;
+    (r > 0.0).then(|| (r, (1.0 - r).sqrt()))
 }
 
 /// One disagreement between the observers.
@@ -230,6 +285,7 @@ pub fn compare(a: &Assemblage, b: &Assemblage, seed: u64) -> Agreement {
                     second: (quad, bq.0, bq.1),
                     third: pairs.iter().filter(|(x, y)| x == y).count() as f64 / pairs.len() as f64,
                     kind: "ordinal",
+                    observer_error: observer_error(&pairs, lo, hi),
                 });
             }
             TraitKind::Metric { .. } => {
@@ -273,6 +329,7 @@ pub fn compare(a: &Assemblage, b: &Assemblage, seed: u64) -> Agreement {
                     second: (icc_2_1(&pairs), bi.0, bi.1),
                     third: 100.0 * e / mean,
                     kind: "metric",
+                    observer_error: None,
                 });
             }
             TraitKind::Count => {}

@@ -83,11 +83,11 @@ pub fn run(args: Args) -> Result<i32, Error> {
         s,
         "Scores (weighted kappa, Cohen 1968; 95% bootstrap intervals)"
     );
-    let _ = writeln!(s, "trait                      pairs   linear (95%)            quadratic (95%)         exact agreement");
+    let _ = writeln!(s, "trait                      pairs   linear (95%)            quadratic (95%)         exact agreement   latent r   noise share");
     for t in r.traits.iter().filter(|t| t.kind == "ordinal") {
         let _ = writeln!(
             s,
-            "{:<26} {:>5}   {:.2} ({:.2} to {:.2})      {:.2} ({:.2} to {:.2})      {:.0}%{}",
+            "{:<26} {:>5}   {:.2} ({:.2} to {:.2})      {:.2} ({:.2} to {:.2})      {:>4.0}%            {}{}",
             t.trait_id,
             t.n,
             t.first.0,
@@ -97,6 +97,10 @@ pub fn run(args: Args) -> Result<i32, Error> {
             t.second.1,
             t.second.2,
             100.0 * t.third,
+            match t.observer_error {
+                Some((r, share)) => format!("{r:.2}       {share:.2}"),
+                None => "–          –".to_string(),
+            },
             if t.ranges_left_out > 0 {
                 format!("  ({} ranges left out)", t.ranges_left_out)
             } else {
@@ -151,6 +155,8 @@ pub fn run(args: Args) -> Result<i32, Error> {
             "lo",
             "hi",
             "exact_agreement_or_relative_tem",
+            "polychoric_r",
+            "observer_error_sd_share",
         ])];
         for t in &r.traits {
             rows.push(vec![
@@ -165,6 +171,12 @@ pub fn run(args: Args) -> Result<i32, Error> {
                 format!("{:.4}", t.second.1),
                 format!("{:.4}", t.second.2),
                 format!("{:.4}", t.third),
+                t.observer_error
+                    .map(|(r, _)| format!("{r:.4}"))
+                    .unwrap_or_default(),
+                t.observer_error
+                    .map(|(_, e)| format!("{e:.4}"))
+                    .unwrap_or_default(),
             ]);
         }
         let protected: Vec<&Path> = vec![args.first.as_path(), args.second.as_path()];

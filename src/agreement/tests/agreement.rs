@@ -25,3 +25,34 @@ fn tem_and_icc_closed_forms() {
     // Identical scores: ICC 1.
     assert!((icc_2_1(&[(1.0, 1.0), (2.0, 2.0), (5.0, 5.0)]) - 1.0).abs() < 1e-12);
 }
+
+#[test]
+fn observer_error_recovers_the_simulated_noise() {
+    use rand::{RngExt, SeedableRng};
+    let mut rng = rand_chacha::ChaCha8Rng::seed_from_u64(12);
+    let normal = statrs::distribution::Normal::standard();
+    let grade = |v: f64| 1 + [-1.2, -0.4, 0.4, 1.2].iter().filter(|&&t| v > t).count() as i32;
+    for sigma in [0.3f64, 0.5, 0.8] {
+        let pairs: Vec<(i32, i32)> = (0..4000)
+            .map(|_| {
+                let x: f64 = rng.sample(normal);
+                let ea: f64 = rng.sample(normal);
+                let eb: f64 = rng.sample(normal);
+                (grade(x + sigma * ea), grade(x + sigma * eb))
+            })
+            .collect();
+        let (r, share) = observer_error(&pairs, 1, 5).unwrap();
+        // r = 1 / (1 + σ²); the share of the scored SD that is noise is σ / √(1 + σ²).
+        let (r0, s0) = (
+            1.0 / (1.0 + sigma * sigma),
+            sigma / (1.0 + sigma * sigma).sqrt(),
+        );
+        assert!((r - r0).abs() < 0.03, "σ {sigma}: r {r} vs {r0}");
+        assert!(
+            (share - s0).abs() < 0.04,
+            "σ {sigma}: share {share} vs {s0}"
+        );
+    }
+    // Too few pairs: no estimate.
+    assert_eq!(observer_error(&[(1, 1); 9], 1, 5), None);
+}
