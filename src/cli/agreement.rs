@@ -3,7 +3,7 @@
 use super::input::InputArgs;
 use crate::agreement::compare;
 use crate::data::read_assemblage;
-use crate::output::write_atomic;
+use crate::output::write_all_atomic;
 use crate::report::csv_bytes;
 use crate::report::header;
 use crate::Error;
@@ -180,7 +180,7 @@ pub fn run(args: Args) -> Result<i32, Error> {
             ]);
         }
         let protected: Vec<&Path> = vec![args.first.as_path(), args.second.as_path()];
-        write_atomic(&out.join("agreement.csv"), &csv_bytes(rows), &protected)?;
+        let table = csv_bytes(rows);
         let mut d = vec![vec![
             "id".to_string(),
             "trait".into(),
@@ -192,7 +192,14 @@ pub fn run(args: Args) -> Result<i32, Error> {
                 .iter()
                 .map(|x| vec![x.id.clone(), x.trait_id.clone(), x.a.clone(), x.b.clone()]),
         );
-        write_atomic(&out.join("disagreements.csv"), &csv_bytes(d), &protected)?;
+        let listed = csv_bytes(d);
+        write_all_atomic(
+            &[
+                (out.join("agreement.csv"), table.as_slice()),
+                (out.join("disagreements.csv"), listed.as_slice()),
+            ],
+            &protected,
+        )?;
     }
     Ok(0)
 }

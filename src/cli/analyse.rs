@@ -7,7 +7,7 @@ use crate::assemblage::recalibration::{recalibrate, RecalibrationSettings};
 use crate::assemblage::{analyse, Thresholds};
 use crate::likelihood::evaluate_with_progress;
 use crate::model::Context;
-use crate::output::write_atomic;
+use crate::output::write_all_atomic;
 use crate::prior::{parse_prior_set, PriorError};
 use crate::report::analysis::recalibration_files;
 use crate::report::analysis::{render_files, terminal_summary};
@@ -274,9 +274,13 @@ pub fn run(args: Args) -> Result<i32, Error> {
     if let Some(m) = &args.model {
         protected.push(m.as_path());
     }
-    for (name, bytes) in &files.files {
-        write_atomic(&args.out.join(name), bytes, &protected)?;
-    }
+    // All files or none: a full disk half-way leaves the folder as it was.
+    let all: Vec<(std::path::PathBuf, &[u8])> = files
+        .files
+        .iter()
+        .map(|(name, bytes)| (args.out.join(name), bytes.as_slice()))
+        .collect();
+    write_all_atomic(&all, &protected)?;
     print!("{}", terminal_summary(&model, &a, &analysis, &draws));
     for f in crate::likelihood::flagged(&model, &a, &evidence) {
         println!("Flagged for a person to look at: {f}");

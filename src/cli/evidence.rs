@@ -5,7 +5,7 @@ use super::input::InputArgs;
 use crate::data::Assemblage;
 use crate::likelihood::{evaluate_with_progress, ledger_csv};
 use crate::model::{BlockStatus, Context, IndividualEvidence, Model};
-use crate::output::write_atomic;
+use crate::output::write_all_atomic;
 use crate::Error;
 use serde::Serialize;
 use std::path::{Path, PathBuf};
@@ -97,8 +97,13 @@ pub fn run(args: Args) -> Result<i32, Error> {
         path: record_path.clone(),
         source: std::io::Error::other(e.to_string()),
     })?;
-    write_atomic(&args.out, &csv, &protected)?;
-    write_atomic(&record_path, &json, &protected)?;
+    write_all_atomic(
+        &[
+            (args.out.clone(), csv.as_slice()),
+            (record_path.clone(), json.as_slice()),
+        ],
+        &protected,
+    )?;
     print!(
         "{}",
         summary(&model, &a, &evidence, &args.out, &record_path)

@@ -5,7 +5,7 @@ use super::input::InputArgs;
 use crate::catalogue::Catalogue;
 use crate::data::{Assemblage, Individual, Sex};
 use crate::fit::{check_spec, fit, FitSpec, Fitted, ReferenceInfo};
-use crate::output::write_atomic;
+use crate::output::write_all_atomic;
 use crate::Error;
 use std::path::{Path, PathBuf};
 
@@ -112,8 +112,14 @@ pub fn run(args: Args) -> Result<i32, Error> {
     crate::model::Model::from_yaml(&args.out.display().to_string(), &yaml)?;
     let protected: Vec<&Path> = vec![args.reference.as_path(), args.traits.as_path()];
     let estimates = estimates_path(&args.out);
-    write_atomic(&estimates, &fitted.estimates_csv(), &protected)?;
-    write_atomic(&args.out, yaml.as_bytes(), &protected)?;
+    let table = fitted.estimates_csv();
+    write_all_atomic(
+        &[
+            (estimates.clone(), table.as_slice()),
+            (args.out.clone(), yaml.as_bytes()),
+        ],
+        &protected,
+    )?;
     println!(
         "Fitted `{}` to {} females and {} males of documented sex from {}.",
         spec.name, fitted.n_female, fitted.n_male, a.file

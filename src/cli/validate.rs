@@ -6,7 +6,7 @@ use super::input::InputArgs;
 use crate::assemblage::category::Thresholds;
 use crate::fit::ReferenceInfo;
 use crate::model::Model;
-use crate::output::write_atomic;
+use crate::output::write_all_atomic;
 use crate::report::validation::{headline, validation_files};
 use crate::validate::{
     validate_with_progress, Folds, Subject, ValidationError, ValidationSettings,
@@ -152,9 +152,11 @@ pub fn run(args: Args) -> Result<i32, Error> {
         if let Some(m) = &args.model {
             protected.push(m.as_path());
         }
-        for (file, bytes) in &files {
-            write_atomic(&out.join(file), bytes, &protected)?;
-        }
+        let all: Vec<(PathBuf, &[u8])> = files
+            .iter()
+            .map(|(file, bytes)| (out.join(file), bytes.as_slice()))
+            .collect();
+        write_all_atomic(&all, &protected)?;
         println!(
             "Wrote the report to {}/ (report.md and {} more files).",
             out.display(),

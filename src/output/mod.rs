@@ -26,43 +26,76 @@ pub fn remove_partial_files() {
 /// # Errors
 /// [`Error::Io`] when the folder or file cannot be written, or `path` is an input.
 pub fn write_atomic(path: &Path, bytes: &[u8], protected: &[&Path]) -> Result<(), Error> {
-    let io = |source| Error::Io {
+    write_all_atomic(&[(path.to_path_buf(), bytes)], protected)
+}
+
+/// Write several files all or nothing: every file goes to a temporary file beside its target
+/// first (written and synced); only when all of them are written are they renamed into place.
+/// If any cannot be written (a full disk, a missing folder, an input named as output), every
+/// temporary file is removed and no target is touched.
+///
+/// # Errors
+/// [`Error::Io`] naming the first file that could not be written.
+pub fn write_all_atomic(files: &[(PathBuf, &[u8])], protected: &[&Path]) -> Result<(), Error> {
+    let io = |path: &Path, source| Error::Io {
         path: path.to_path_buf(),
         source,
     };
-    let target = absolute(path);
-    for p in protected {
-        if absolute(p) == target {
-            return Err(io(std::io::Error::new(
-                std::io::ErrorKind::AlreadyExists,
-                "this is an input of the run; choose another output name (inputs are never overwritten)",
-            )));
+    for (path, _) in files {
+        let target = absolute(path);
+        for p in protected {
+            if absolute(p) == target {
+                return Err(io(
+                    path,
+                    std::io::Error::new(
+                        std::io::ErrorKind::AlreadyExists,
+                        "this is an input of the run; choose another output name (inputs are never overwritten)",
+                    ),
+                ));
+            }
         }
     }
-    let dir = path
-        .parent()
-        .filter(|d| !d.as_os_str().is_empty())
-        .unwrap_or(Path::new("."));
-    let name = path
-        .file_name()
-        .map(|n| n.to_string_lossy().into_owned())
-        .unwrap_or_default();
-    let tmp = dir.join(format!(".{name}.{}.partial", std::process::id()));
-    if let Ok(mut v) = PARTIAL.lock() {
-        v.push(tmp.clone());
+    let mut temps: Vec<PathBuf> = Vec::with_capacity(files.len());
+    let cleanup = |temps: &[PathBuf]| {
+        for t in temps {
+            let _ = std::fs::remove_file(t);
+        }
+        if let Ok(mut v) = PARTIAL.lock() {
+            v.retain(|p| !temps.contains(p));
+        }
+    };
+    for (path, bytes) in files {
+        let dir = path
+            .parent()
+            .filter(|d| !d.as_os_str().is_empty())
+            .unwrap_or(Path::new("."));
+        let name = path
+            .file_name()
+            .map(|n| n.to_string_lossy().into_owned())
+            .unwrap_or_default();
+        let tmp = dir.join(format!(".{name}.{}.partial", std::process::id()));
+        if let Ok(mut v) = PARTIAL.lock() {
+            v.push(tmp.clone());
+        }
+        temps.push(tmp.clone());
+        let written = (|| {
+            let mut f = std::fs::File::create(&tmp)?;
+            f.write_all(bytes)?;
+            f.sync_all()
+        })();
+        if let Err(e) = written {
+            cleanup(&temps);
+            return Err(io(path, e));
+        }
     }
-    let result = (|| {
-        let mut f = std::fs::File::create(&tmp)?;
-        f.write_all(bytes)?;
-        f.sync_all()?;
-        std::fs::rename(&tmp, path)
-    })();
-    if let Ok(mut v) = PARTIAL.lock() {
-        v.retain(|p| p != &tmp);
+    for (k, ((path, _), tmp)) in files.iter().zip(&temps).enumerate() {
+        if let Err(e) = std::fs::rename(tmp, path) {
+            cleanup(&temps[k..]);
+            return Err(io(path, e));
+        }
     }
-    if let Err(e) = result {
-        let _ = std::fs::remove_file(&tmp);
-        return Err(io(e));
+    if let Ok(mut v) = PARTIAL.lock() {
+        v.retain(|p| !temps.contains(p));
     }
     Ok(())
 }
