@@ -103,12 +103,16 @@ pub fn under_prior_on(
         .collect();
     let post = PiPosterior::compute(&informative, prior);
     let pi = post.summary();
-    let distinct = groups.map(|g| {
-        let mut v: Vec<&String> = g.iter().collect();
-        v.sort();
-        v.dedup();
-        v.len()
-    });
+    // Distinct groups: known from the prepared groups, counted here only without them.
+    let distinct = match prepared {
+        Some(d) => Some(d.names.len()),
+        None => groups.map(|g| {
+            let mut v: Vec<&String> = g.iter().collect();
+            v.sort();
+            v.dedup();
+            v.len()
+        }),
+    };
     let hier = match (groups, distinct) {
         (Some(g), Some(k)) if k >= 2 && g.len() == evidence.len() => Some(match prepared {
             Some(d) => hierarchy::Hierarchy::fit_on(d, prior),
