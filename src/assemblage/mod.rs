@@ -239,6 +239,18 @@ pub struct Analysis {
     pub posteriors: Vec<PiPosterior>,
 }
 
+impl Analysis {
+    /// The results under the chosen prior, then under each prior of the sensitivity set that
+    /// is not the chosen one (the order of every table and figure of priors).
+    pub fn results(&self) -> impl Iterator<Item = &PriorResult> {
+        std::iter::once(&self.main).chain(
+            self.sensitivity
+                .iter()
+                .filter(move |r| r.prior.name != self.main.prior.name),
+        )
+    }
+}
+
 /// Analyse an assemblage's evidence under a chosen prior and a sensitivity set, with groups
 /// when given.
 pub fn analyse(

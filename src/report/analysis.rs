@@ -154,14 +154,7 @@ pub fn render_files(
     }
     let individuals = csv_bytes(rows);
     // assemblage.csv
-    let all: Vec<&PriorResult> = std::iter::once(main)
-        .chain(
-            analysis
-                .sensitivity
-                .iter()
-                .filter(|r| r.prior.name != main.prior.name),
-        )
-        .collect();
+    let all: Vec<&PriorResult> = analysis.results().collect();
     let mut rows = vec![header(&[
         "prior",
         "pi_mean",
@@ -458,12 +451,7 @@ pub fn terminal_summary(
         s,
         "Proportion female under each prior of the sensitivity set:"
     );
-    for r in std::iter::once(main).chain(
-        analysis
-            .sensitivity
-            .iter()
-            .filter(|r| r.prior.name != main.prior.name),
-    ) {
+    for r in analysis.results() {
         let _ = writeln!(
             s,
             "  {:<16} {:.3}  ({:.3} to {:.3})",

@@ -521,12 +521,7 @@ pub fn report_md_and_tex(
         run.version
     );
     let _ = writeln!(t, "\\begin{{table}}\n\\centering\n\\caption{{Posterior of the proportion female under each prior.}}\n\\begin{{tabular}}{{lrrrr}}\n\\toprule\nPrior & Mean & 2.5\\% & 97.5\\% & Expected females \\\\\n\\midrule");
-    for r in std::iter::once(main).chain(
-        analysis
-            .sensitivity
-            .iter()
-            .filter(|r| r.prior.name != main.prior.name),
-    ) {
+    for r in analysis.results() {
         let _ = writeln!(
             m,
             "| {} | {:.3} | {:.3} | {:.3}–{:.3} | {:.3}–{:.3} | {:.3} | {:.1} |",
