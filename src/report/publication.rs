@@ -40,6 +40,11 @@ fn f1(x: f64) -> String {
     }
 }
 
+/// "estimate (low–high)": `dash` is "–" in Markdown and "--" in LaTeX.
+fn ci(v: (f64, f64, f64), f: fn(f64) -> String, dash: &str) -> String {
+    format!("{} ({}{dash}{})", f(v.0), f(v.1), f(v.2))
+}
+
 use super::{csv_bytes, header};
 
 fn tex(s: &str) -> String {
@@ -633,25 +638,17 @@ pub fn report_md_and_tex(
         for c in &age.classes {
             let _ = writeln!(
                 m,
-                "| {} | {} ({}–{}) | {} ({}–{}) |",
+                "| {} | {} | {} |",
                 c.class,
-                f1(c.female.0),
-                f1(c.female.1),
-                f1(c.female.2),
-                f1(c.male.0),
-                f1(c.male.1),
-                f1(c.male.2)
+                ci(c.female, f1, "–"),
+                ci(c.male, f1, "–")
             );
             let _ = writeln!(
                 t,
-                "{} & {} ({}--{}) & {} ({}--{}) \\\\",
+                "{} & {} & {} \\\\",
                 tex(&c.class),
-                f1(c.female.0),
-                f1(c.female.1),
-                f1(c.female.2),
-                f1(c.male.0),
-                f1(c.male.1),
-                f1(c.male.2)
+                ci(c.female, f1, "--"),
+                ci(c.male, f1, "--")
             );
         }
         let _ = writeln!(t, "\\bottomrule\n\\end{{tabular}}\n\\end{{table}}\n");
@@ -662,41 +659,17 @@ pub fn report_md_and_tex(
         let _ = writeln!(m, "| condition | recorded | females | males | difference | odds ratio F:M |\n|---|---|---|---|---|---|");
         let _ = writeln!(t, "\\begin{{table}}\n\\centering\n\\caption{{Prevalence by sex (pooled over joint posterior draws, 95\\% intervals).}}\n\\begin{{tabular}}{{lrrrr}}\n\\toprule\nCondition & Females & Males & Difference & Odds ratio \\\\\n\\midrule");
         for p in &by_sex.prevalence {
+            let cells = |dash: &str| {
+                [p.female, p.male, p.difference, p.odds_ratio].map(|v| ci(v, f3, dash))
+            };
+            let [f, ml, d, or] = cells("–");
             let _ = writeln!(
                 m,
-                "| {} | {} | {} ({}–{}) | {} ({}–{}) | {} ({}–{}) | {} ({}–{}) |",
-                p.column,
-                p.n_recorded,
-                f3(p.female.0),
-                f3(p.female.1),
-                f3(p.female.2),
-                f3(p.male.0),
-                f3(p.male.1),
-                f3(p.male.2),
-                f3(p.difference.0),
-                f3(p.difference.1),
-                f3(p.difference.2),
-                f3(p.odds_ratio.0),
-                f3(p.odds_ratio.1),
-                f3(p.odds_ratio.2)
+                "| {} | {} | {f} | {ml} | {d} | {or} |",
+                p.column, p.n_recorded
             );
-            let _ = writeln!(
-                t,
-                "{} & {} ({}--{}) & {} ({}--{}) & {} ({}--{}) & {} ({}--{}) \\\\",
-                tex(&p.column),
-                f3(p.female.0),
-                f3(p.female.1),
-                f3(p.female.2),
-                f3(p.male.0),
-                f3(p.male.1),
-                f3(p.male.2),
-                f3(p.difference.0),
-                f3(p.difference.1),
-                f3(p.difference.2),
-                f3(p.odds_ratio.0),
-                f3(p.odds_ratio.1),
-                f3(p.odds_ratio.2)
-            );
+            let [f, ml, d, or] = cells("--");
+            let _ = writeln!(t, "{} & {f} & {ml} & {d} & {or} \\\\", tex(&p.column));
         }
         let _ = writeln!(t, "\\bottomrule\n\\end{{tabular}}\n\\end{{table}}\n");
         let _ = writeln!(
