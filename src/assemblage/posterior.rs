@@ -48,7 +48,8 @@ const EDGE: f64 = 0.05;
 /// Panels of the composite Gauss–Legendre rule used for individuals' P(female).
 const PANELS: usize = 16;
 /// Nodes and weights of the 8-point Gauss–Legendre rule on [−1, 1] (Abramowitz & Stegun
-/// 1964, Table 25.4; checked in the tests against exact integrals of polynomials of degree 15).
+/// 1964, Table 25.4; from memory, checked in the tests against exact integrals of polynomials
+/// up to degree 15).
 const GL8: [(f64, f64); 4] = [
     (0.183_434_642_495_649_8, 0.362_683_783_378_362),
     (0.525_532_409_916_329, 0.313_706_645_877_887_3),
@@ -227,7 +228,8 @@ fn softplus(x: f64) -> f64 {
     }
 }
 
-/// Neumaier's compensated sum (Neumaier 1974, Z Angew Math Mech 54:39–51).
+/// Neumaier's compensated sum (Neumaier 1974, Z Angew Math Mech 54:39–51; reference details
+/// from memory).
 fn compensated_sum(values: impl Iterator<Item = f64>) -> f64 {
     let (mut sum, mut c) = (0.0f64, 0.0f64);
     for v in values {
@@ -287,7 +289,7 @@ const CHEB_TOLERANCE: f64 = 1e-9;
 const CHEB_TOLERANCE_PER_TERM: f64 = 1e-12;
 
 /// Barycentric interpolation at Chebyshev points of the second kind (Berrut & Trefethen
-/// 2004, SIAM Rev 46:501–517): spectrally accurate for the smooth data log-likelihood, so the
+/// 2004, SIAM Rev 46:501–517; reference details from memory): spectrally accurate for the smooth data log-likelihood, so the
 /// fine grid costs O(points × cells) instead of O(individuals × cells).
 struct Chebyshev {
     t: Vec<f64>,

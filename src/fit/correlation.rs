@@ -1,7 +1,7 @@
 //! Within-sex correlations of one pair of traits, given the fitted margins (the two-step
 //! estimators): polychoric for two ordinal traits (Olsson 1979, Psychometrika 44:443–460),
 //! polyserial for an ordinal trait and a measurement (Olsson, Drasgow & Dorans 1982,
-//! Psychometrika 47:337–347), Pearson for two measurements. Each uses the individuals who have
+//! Psychometrika 47:337–347; reference details from memory), Pearson for two measurements. Each uses the individuals who have
 //! both traits recorded (pairwise), so a missing cell costs only the pairs it belongs to.
 //!
 //! With one correlation shared by the sexes the likelihoods of the two sexes are added, each

@@ -10,7 +10,8 @@
 //! # Algorithm
 //! Newton–Raphson on (τ₀ … τ_{K−2}, δ) with the analytic gradient and Hessian, halving the
 //! step until the log-likelihood rises and the thresholds stay ordered; the log-likelihood is
-//! concave in these parameters for the probit link (Pratt 1981, J Am Stat Assoc 76:103–106),
+//! concave in these parameters for the probit link (Pratt 1981, J Am Stat Assoc 76:103–106;
+//! reference details here and above from memory),
 //! so Newton converges from the start at the pooled cumulative proportions. Standard errors
 //! from the inverse observed information.
 

@@ -10,7 +10,7 @@
 //! (default ½, as in the validation studies of the trade). Scores:
 //! accuracy at P = ½; per sex, and the sex bias (female accuracy − male accuracy); the share
 //! left indeterminate between the probable-male and probable-female thresholds and the
-//! accuracy of the others; the Brier score, mean (P(F) − [female])² (Brier 1950, Mon Weather
+//! accuracy of the others; the Brier score, mean (P(F) − [female])² (Brier 1950, reference details from memory: Mon Weather
 //! Rev 78:1–3); log loss, −mean ln P(documented sex); a reliability table in ten bins of P(F).
 
 use crate::assemblage::category::Thresholds;
