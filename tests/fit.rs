@@ -9,11 +9,7 @@ use dimorph::model::{Block, Context, Model};
 use dimorph::sim::{simulate, GroupSpec, MissingSpec};
 
 fn one_group(n: usize) -> Vec<GroupSpec> {
-    vec![GroupSpec {
-        name: String::new(),
-        n,
-        pi: 0.5,
-    }]
+    vec![GroupSpec::single(n, 0.5)]
 }
 
 /// Share of individuals with usable evidence whose P(F) at prior ½ is on the right side.

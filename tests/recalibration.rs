@@ -120,17 +120,7 @@ fn one_cemetery(
     let truth = shifted(&reference, by_sd);
     let missing =
         MissingSpec::parse("cranium=0.5,pelvis=0.4,postcranial=0.1,dental=0.6,trait=0.1").unwrap();
-    let sim = simulate(
-        &truth,
-        &[GroupSpec {
-            name: String::new(),
-            n,
-            pi: 0.5,
-        }],
-        &missing,
-        seed,
-    )
-    .unwrap();
+    let sim = simulate(&truth, &[GroupSpec::single(n, 0.5)], &missing, seed).unwrap();
     let a = dimorph::data::Assemblage {
         file: "sim".into(),
         format: dimorph::data::TableFormat::Text,

@@ -59,11 +59,7 @@ pub fn run(args: Args) -> Result<i32, Error> {
                     format!("{}: a proportion from 0 to 1", args.pi),
                 ));
             }
-            vec![GroupSpec {
-                name: String::new(),
-                n,
-                pi: args.pi,
-            }]
+            vec![GroupSpec::single(n, args.pi)]
         }
         (None, None) => return Err(settings_error("--n", "give --n or --groups".into())),
     };

@@ -91,11 +91,7 @@ pub fn calibrate(
             };
             let (sim, ev, post) = super::simulate_and_evaluate(
                 model,
-                super::GroupSpec {
-                    name: String::new(),
-                    n,
-                    pi,
-                },
+                super::GroupSpec::single(n, pi),
                 missing,
                 s,
                 &Context::new(seed),

@@ -95,11 +95,7 @@ pub fn plan_with_progress(
                     .wrapping_add(r as u64);
                 let (sim, ev, post) = super::simulate_and_evaluate(
                     model,
-                    super::GroupSpec {
-                        name: String::new(),
-                        n,
-                        pi,
-                    },
+                    super::GroupSpec::single(n, pi),
                     missing,
                     s,
                     &Context::new(seed),

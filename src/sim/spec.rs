@@ -15,6 +15,17 @@ pub struct GroupSpec {
     pub pi: f64,
 }
 
+impl GroupSpec {
+    /// One unnamed population of `n` individuals with proportion female `pi`.
+    pub fn single(n: usize, pi: f64) -> GroupSpec {
+        GroupSpec {
+            name: String::new(),
+            n,
+            pi,
+        }
+    }
+}
+
 /// Parse `name:count:pi,name:count:pi,…`, e.g. `north:40:0.5,chapel:15:0.2`.
 ///
 /// # Errors

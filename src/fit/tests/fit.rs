@@ -19,11 +19,7 @@ fn info() -> ReferenceInfo {
 
 fn reference(n: usize, missing: &str, seed: u64) -> (Model, crate::sim::Simulated) {
     let model = Model::default_model().unwrap();
-    let groups = vec![GroupSpec {
-        name: String::new(),
-        n,
-        pi: 0.5,
-    }];
+    let groups = vec![GroupSpec::single(n, 0.5)];
     let sim = simulate(&model, &groups, &MissingSpec::parse(missing).unwrap(), seed).unwrap();
     (model, sim)
 }

@@ -40,11 +40,7 @@ fn simulated_tables_pass_the_reader_and_keep_the_truth_out_of_the_evidence() {
 #[test]
 fn preservation_rates_are_honoured() {
     let m = Model::default_model().unwrap();
-    let g = [GroupSpec {
-        name: String::new(),
-        n: 4000,
-        pi: 0.5,
-    }];
+    let g = [GroupSpec::single(4000, 0.5)];
     let spec = MissingSpec::parse("pelvis=0.5,subadult=0.1,range=1,dna=0.2").unwrap();
     let s = simulate(&m, &g, &spec, 1).unwrap();
     let va = m.catalogue.position("ventral_arc").unwrap();
