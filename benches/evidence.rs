@@ -4,12 +4,12 @@
 //! Data are drawn outside the timed closure with a fixed seed.
 
 use criterion::{criterion_group, criterion_main, Criterion};
-use dimorph::data::{Observation, Sex};
-use dimorph::model::Context;
-use dimorph::sim::{draw_observations, individual};
 use rand::SeedableRng;
 use rand_chacha::ChaCha8Rng;
 use std::hint::black_box;
+use tessera::data::{Observation, Sex};
+use tessera::model::Context;
+use tessera::sim::{draw_observations, individual};
 
 #[path = "support.rs"]
 mod support;

@@ -1,11 +1,11 @@
 #!/usr/bin/env bash
-# Time the whole `dimorph analyse` as a process on simulated assemblages of several sizes
+# Time the whole `tessera analyse` as a process on simulated assemblages of several sizes
 # (default model, typical fragmentation, three groups, default sensitivity set), recording wall
 # time and peak memory with /usr/bin/time. Usage: bash benches/process.sh [SIZES...]
 set -euo pipefail
 cd "$(dirname "$0")/.."
 cargo build --release --quiet
-bin=target/release/dimorph
+bin=target/release/tessera
 work=$(mktemp -d)
 trap 'rm -rf "$work"' EXIT
 sizes=("$@")

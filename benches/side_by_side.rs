@@ -1,19 +1,19 @@
-//! dimorph beside a reference implementation in Python (numpy and scipy) on the same inputs:
+//! tessera beside a reference implementation in Python (numpy and scipy) on the same inputs:
 //! `cargo bench --bench side_by_side` (needs `target/reference-venv`, see DEVELOPERS.md, or
-//! DIMORPH_PYTHON pointing at a Python with the pinned packages).
+//! TESSERA_PYTHON pointing at a Python with the pinned packages).
 //!
 //! 1. The single-assemblage posterior of π under the default sensitivity set (6 shipped priors
 //!    and 9 fixed values, plus the chosen flat prior) with every individual's P(female), from
-//!    the ln LRs of 10⁴ simulated individuals: dimorph's `assemblage::analyse` against
+//!    the ln LRs of 10⁴ simulated individuals: tessera's `assemblage::analyse` against
 //!    `benches/reference/side_by_side.py`, which does the same computation vectorised in numpy.
 //! 2. The latent-block likelihood (ten traits: six ordinal, four measurements) of 100
 //!    simulated individuals with about 30% of traits missing, both sexes, no pattern cache:
-//!    dimorph's `LatentBlock::evaluate` against scipy's `multivariate_normal` (logpdf for the
+//!    tessera's `LatentBlock::evaluate` against scipy's `multivariate_normal` (logpdf for the
 //!    measurements, Genz's MVNDST `cdf` with releps = 1e-3 for the conditional ordinal box).
 //!
 //! 3. The group hierarchy (3 groups, flat prior on μ, log-uniform κ) against PyMC's NUTS on the
 //!    same model with sex marginalised (`benches/reference/hierarchy_pymc.py`), when
-//!    DIMORPH_PYMC_PYTHON names a Python with pymc installed.
+//!    TESSERA_PYMC_PYTHON names a Python with pymc installed.
 //!
 //! Prints a Markdown table: time of each, the ratio, and the largest difference in results.
 //! Inputs are written to a temporary folder outside the timed parts; times are medians.
@@ -21,18 +21,18 @@
 #[path = "support.rs"]
 mod support;
 
-use dimorph::assemblage::hierarchy::Hierarchy;
-use dimorph::assemblage::{analyse, Thresholds};
-use dimorph::data::{Observation, Sex};
-use dimorph::likelihood::evaluate_assemblage;
-use dimorph::model::latent::LatentKind;
-use dimorph::model::{Block, Context, Model};
-use dimorph::prior::{parse_prior_set, PriorShape};
-use dimorph::sim::{draw_observations, individual, simulate, GroupSpec, MissingSpec};
 use rand::{RngExt, SeedableRng};
 use rand_chacha::ChaCha8Rng;
 use std::fmt::Write as _;
 use std::time::Instant;
+use tessera::assemblage::hierarchy::Hierarchy;
+use tessera::assemblage::{analyse, Thresholds};
+use tessera::data::{Observation, Sex};
+use tessera::likelihood::evaluate_assemblage;
+use tessera::model::latent::LatentKind;
+use tessera::model::{Block, Context, Model};
+use tessera::prior::{parse_prior_set, PriorShape};
+use tessera::sim::{draw_observations, individual, simulate, GroupSpec, MissingSpec};
 
 fn median(mut v: Vec<f64>) -> f64 {
     v.sort_by(f64::total_cmp);
@@ -40,7 +40,7 @@ fn median(mut v: Vec<f64>) -> f64 {
 }
 
 fn python() -> String {
-    std::env::var("DIMORPH_PYTHON").unwrap_or_else(|_| {
+    std::env::var("TESSERA_PYTHON").unwrap_or_else(|_| {
         concat!(
             env!("CARGO_MANIFEST_DIR"),
             "/target/reference-venv/bin/python"
@@ -51,8 +51,8 @@ fn python() -> String {
 
 fn main() {
     let dir = tempfile::tempdir().expect("a temporary folder");
-    // DIMORPH_KEEP=FOLDER keeps the inputs and the reference's outputs there.
-    let kept = std::env::var_os("DIMORPH_KEEP").map(std::path::PathBuf::from);
+    // TESSERA_KEEP=FOLDER keeps the inputs and the reference's outputs there.
+    let kept = std::env::var_os("TESSERA_KEEP").map(std::path::PathBuf::from);
     let d = kept.as_deref().unwrap_or(dir.path());
     std::fs::create_dir_all(d).expect("the folder");
     // ---------------------------------------------------------------- posterior inputs
@@ -75,9 +75,9 @@ fn main() {
         },
     ];
     let sim = simulate(&model, &groups, &MissingSpec::fragmentary(), 7).expect("simulate");
-    let a = dimorph::data::Assemblage {
+    let a = tessera::data::Assemblage {
         file: "simulated".into(),
-        format: dimorph::data::TableFormat::Text,
+        format: tessera::data::TableFormat::Text,
         delimiter: Some(','),
         sha256: String::new(),
         catalogue: model.catalogue.clone(),
@@ -127,14 +127,14 @@ fn main() {
             pr.prior.name, pr.pi.mean, pr.pi.lo, pr.pi.hi
         );
     }
-    std::fs::write(d.join("dimorph_posterior.csv"), out).expect("write");
+    std::fs::write(d.join("tessera_posterior.csv"), out).expect("write");
     let pf: String = r
         .main
         .p_female
         .iter()
         .map(|p| format!("{:?}\n", p.unwrap_or(f64::NAN)))
         .collect();
-    std::fs::write(d.join("dimorph_p_female.txt"), pf).expect("write");
+    std::fs::write(d.join("tessera_p_female.txt"), pf).expect("write");
 
     // ---------------------------------------------------------------- group hierarchy
     let group_of: Vec<String> = sim
@@ -222,7 +222,7 @@ fn main() {
         .iter()
         .map(|e| format!("{:?},{:?}\n", e.ln_lr, e.error))
         .collect();
-    std::fs::write(d.join("dimorph_latent.csv"), lr).expect("write");
+    std::fs::write(d.join("tessera_latent.csv"), lr).expect("write");
 
     // ---------------------------------------------------------------- the reference
     let script = concat!(
@@ -236,7 +236,7 @@ fn main() {
     match status {
         Ok(s) if s.success() => {}
         other => {
-            eprintln!("the Python reference did not run ({other:?}); dimorph alone: posterior {t_post:.4} s, likelihoods {t_lik:.4} s, hierarchy {t_hier:.4} s");
+            eprintln!("the Python reference did not run ({other:?}); tessera alone: posterior {t_post:.4} s, likelihoods {t_lik:.4} s, hierarchy {t_hier:.4} s");
             return;
         }
     }
@@ -247,26 +247,26 @@ fn main() {
         .collect();
     // Largest differences.
     let theirs = read("reference_posterior.csv");
-    let ours = std::fs::read_to_string(d.join("dimorph_posterior.csv")).expect("ours");
+    let ours = std::fs::read_to_string(d.join("tessera_posterior.csv")).expect("ours");
     let mut d_post: f64 = 0.0;
     for (a, b) in ours.lines().skip(1).zip(theirs.lines().skip(1)) {
         let x: Vec<&str> = a.split(',').collect();
         let y: Vec<&str> = b.split(',').collect();
         assert_eq!(x[0], y[0], "prior order");
         for k in 1..4 {
-            let u: f64 = x[k].parse().expect("dimorph's number");
+            let u: f64 = x[k].parse().expect("tessera's number");
             let v: f64 = y[k].parse().expect("the reference's number");
             d_post = d_post.max((u - v).abs());
         }
     }
     let mut d_pf: f64 = 0.0;
     for (a, b) in read("reference_p_female.txt").lines().zip(
-        std::fs::read_to_string(d.join("dimorph_p_female.txt"))
+        std::fs::read_to_string(d.join("tessera_p_female.txt"))
             .expect("ours")
             .lines(),
     ) {
         let u: f64 = a.parse().expect("the reference's number");
-        let v: f64 = b.parse().expect("dimorph's number");
+        let v: f64 = b.parse().expect("tessera's number");
         if u.is_finite() && v.is_finite() {
             d_pf = d_pf.max((u - v).abs());
         }
@@ -287,7 +287,7 @@ fn main() {
         }
     }
     // PyMC, when a Python with pymc is named.
-    let pymc_row = std::env::var("DIMORPH_PYMC_PYTHON").ok().and_then(|py| {
+    let pymc_row = std::env::var("TESSERA_PYMC_PYTHON").ok().and_then(|py| {
         let script = concat!(env!("CARGO_MANIFEST_DIR"), "/benches/reference/hierarchy_pymc.py");
         let ok = std::process::Command::new(py)
             .arg(script)
@@ -314,7 +314,7 @@ fn main() {
             secs / t_hier
         ))
     });
-    println!("| computation | dimorph (s) | reference (s) | ratio | largest difference |");
+    println!("| computation | tessera (s) | reference (s) | ratio | largest difference |");
     println!("|---|---|---|---|---|");
     println!(
         "| posterior of π, 16 priors + P(female) of 10⁴ individuals | {t_post:.4} | {:.3} | {:.0}× | π mean/quantiles {d_post:.1e}; P(female) {d_pf:.1e} |",
@@ -328,6 +328,6 @@ fn main() {
     );
     match pymc_row {
         Some(r) => println!("{r}"),
-        None => println!("| group hierarchy, 3 groups of 10⁴ individuals | {t_hier:.4} | (PyMC not run: set DIMORPH_PYMC_PYTHON) | | |"),
+        None => println!("| group hierarchy, 3 groups of 10⁴ individuals | {t_hier:.4} | (PyMC not run: set TESSERA_PYMC_PYTHON) | | |"),
     }
 }

@@ -1,22 +1,22 @@
 //! Each stage of an analysis at 10², 10³, 10⁴ and 10⁵ individuals (criterion,
-//! `cargo bench --bench stages`; DIMORPH_BENCH_SIZES=100,1000 to choose sizes): the evidence
+//! `cargo bench --bench stages`; TESSERA_BENCH_SIZES=100,1000 to choose sizes): the evidence
 //! ledger, the single-assemblage posterior under the default sensitivity set, the same with
 //! three groups, and 1000 joint draws. Assemblages are simulated from the default model with
 //! typical fragmentation and a fixed seed outside the timed closures.
 
 use criterion::{criterion_group, criterion_main, BenchmarkId, Criterion};
-use dimorph::assemblage::draws::Draws;
-use dimorph::assemblage::{analyse, Thresholds};
-use dimorph::data::{Assemblage, TableFormat};
-use dimorph::likelihood::evaluate_assemblage;
-use dimorph::model::{Context, Model};
-use dimorph::prior::parse_prior_set;
-use dimorph::sim::{simulate, GroupSpec, MissingSpec};
 use std::hint::black_box;
 use std::time::Duration;
+use tessera::assemblage::draws::Draws;
+use tessera::assemblage::{analyse, Thresholds};
+use tessera::data::{Assemblage, TableFormat};
+use tessera::likelihood::evaluate_assemblage;
+use tessera::model::{Context, Model};
+use tessera::prior::parse_prior_set;
+use tessera::sim::{simulate, GroupSpec, MissingSpec};
 
 fn sizes() -> Vec<usize> {
-    std::env::var("DIMORPH_BENCH_SIZES")
+    std::env::var("TESSERA_BENCH_SIZES")
         .ok()
         .map(|s| s.split(',').filter_map(|x| x.trim().parse().ok()).collect())
         .unwrap_or_else(|| vec![100, 1_000, 10_000, 100_000])

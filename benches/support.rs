@@ -2,7 +2,7 @@
 //! measurements, within-sex correlation 0.3; invented parameters for benchmarking only).
 #![allow(dead_code)]
 
-use dimorph::model::Model;
+use tessera::model::Model;
 
 /// The ten-trait model.
 pub fn ten_trait_model() -> Model {

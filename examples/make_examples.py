@@ -1,4 +1,4 @@
-"""Rebuild the invented demo assemblages from `dimorph simulate`, then apply the hand edits
+"""Rebuild the invented demo assemblages from `tessera simulate`, then apply the hand edits
 that the story needs. Everything here is invented (see examples/README.md).
 
 Run from the repository root after `cargo build --release`:
@@ -8,7 +8,7 @@ import csv
 import random
 import subprocess
 
-BIN = "target/release/dimorph"
+BIN = "target/release/tessera"
 MISSING = "cranium=0.35,pelvis=0.45,postcranial=0.3,dental=0.4,trait=0.15,range=0.06,subadult=0.07,dna=0.12"
 
 
@@ -86,7 +86,7 @@ def brackenmere():
 
 def saltmarsh():
     """The Saltmarsh Lane documented collection: an invented reference sample of documented
-    sex (burial registers of an imagined town cemetery), for `dimorph fit` and `validate`."""
+    sex (burial registers of an imagined town cemetery), for `tessera fit` and `validate`."""
     out = "/tmp/saltmarsh-sim.csv"
     subprocess.run([BIN, "simulate", "--n", "240", "--pi", "0.5", "--as-reference",
                     "--missing", "cranium=0.12,pelvis=0.2,postcranial=0.15,dental=0.3,trait=0.1,range=0.03",

@@ -6,7 +6,7 @@ use crate::fit::FitError;
 use crate::model::ModelError;
 use std::path::PathBuf;
 
-/// Anything that stops a dimorph run.
+/// Anything that stops a tessera run.
 #[derive(Debug, thiserror::Error)]
 #[non_exhaustive]
 pub enum Error {

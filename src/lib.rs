@@ -1,4 +1,4 @@
-//! # dimorph
+//! # tessera
 //!
 //! Bayesian estimation of biological sex from skeletal evidence for bioarchaeologists and
 //! forensic anthropologists: every surviving piece of evidence of every individual (cranial
@@ -12,8 +12,8 @@
 //! ## Reading an assemblage
 //!
 //! ```
-//! use dimorph::catalogue::Catalogue;
-//! use dimorph::data::{read_assemblage_text, ReadSettings, Observation};
+//! use tessera::catalogue::Catalogue;
+//! use tessera::data::{read_assemblage_text, ReadSettings, Observation};
 //!
 //! let table = "id,glabella,mastoid_l,femur_head_diameter_r,grave_goods\n\
 //!              T-01,4,3-4,46.5,knife\n\

@@ -1,4 +1,4 @@
-//! The `dimorph` command: parses arguments, calls the library, maps errors to exit codes.
+//! The `tessera` command: parses arguments, calls the library, maps errors to exit codes.
 #![forbid(unsafe_code)]
 
 use clap::Parser;
@@ -6,10 +6,10 @@ use clap::Parser;
 fn main() {
     // Interrupted (Ctrl-C, SIGTERM): remove any output file still being written, then stop.
     let _ = ctrlc::set_handler(|| {
-        dimorph::output::remove_partial_files();
-        eprintln!("dimorph: interrupted; no partial output was left");
+        tessera::output::remove_partial_files();
+        eprintln!("tessera: interrupted; no partial output was left");
         std::process::exit(130);
     });
-    let cli = dimorph::cli::Cli::parse();
-    std::process::exit(dimorph::cli::run(cli));
+    let cli = tessera::cli::Cli::parse();
+    std::process::exit(tessera::cli::run(cli));
 }

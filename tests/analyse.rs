@@ -1,14 +1,14 @@
-//! `dimorph analyse` as a user runs it, and the checks of the analysis that need a whole
+//! `tessera analyse` as a user runs it, and the checks of the analysis that need a whole
 //! assemblage.
 
 mod common;
-use common::{dimorph, stderr, stdout};
-use dimorph::assemblage::{analyse, Thresholds};
-use dimorph::data::{read_assemblage, ReadSettings};
-use dimorph::likelihood::evaluate_assemblage;
-use dimorph::model::{Context, Model};
-use dimorph::prior::parse_prior_set;
+use common::{stderr, stdout, tessera};
 use std::path::Path;
+use tessera::assemblage::{analyse, Thresholds};
+use tessera::data::{read_assemblage, ReadSettings};
+use tessera::likelihood::evaluate_assemblage;
+use tessera::model::{Context, Model};
+use tessera::prior::parse_prior_set;
 
 fn demo() -> String {
     Path::new(env!("CARGO_MANIFEST_DIR"))
@@ -26,7 +26,7 @@ fn header(p: &Path) -> Vec<String> {
 fn the_demo_gives_four_files_with_the_documented_columns() {
     let dir = tempfile::tempdir().unwrap();
     let out = dir.path().join("results");
-    let o = dimorph(&[
+    let o = tessera(&[
         "analyse",
         &demo(),
         "--out",
@@ -112,7 +112,7 @@ fn same_seed_same_bytes() {
     let dir = tempfile::tempdir().unwrap();
     let out = dir.path().join("r");
     let run = || {
-        let o = dimorph(&[
+        let o = tessera(&[
             "analyse",
             &demo(),
             "--out",
@@ -145,7 +145,7 @@ fn options_are_checked_before_anything_is_written() {
         let d = demo();
         let mut args = vec!["analyse", &d, "--out", out.to_str().unwrap()];
         args.extend(bad.iter().copied());
-        let o = dimorph(&args);
+        let o = tessera(&args);
         assert_eq!(o.status.code(), Some(4), "{bad:?}: {}", stderr(&o));
         assert!(!out.exists(), "{bad:?} wrote output");
     }
@@ -184,7 +184,7 @@ fn swapping_the_sexes_mirrors_every_result() {
 fn groups_and_draws_are_written_in_tidy_form() {
     let dir = tempfile::tempdir().unwrap();
     let out = dir.path().join("g");
-    let o = dimorph(&[
+    let o = tessera(&[
         "analyse",
         &demo(),
         "--out",
@@ -248,7 +248,7 @@ fn groups_and_draws_are_written_in_tidy_form() {
 fn without_groups_the_single_posterior_is_used_and_no_group_files_are_written() {
     let dir = tempfile::tempdir().unwrap();
     let out = dir.path().join("n");
-    let o = dimorph(&[
+    let o = tessera(&[
         "analyse",
         &demo(),
         "--out",
@@ -268,7 +268,7 @@ fn without_groups_the_single_posterior_is_used_and_no_group_files_are_written() 
     let one = dir.path().join("one.csv");
     std::fs::write(&one, text).unwrap();
     let out2 = dir.path().join("o");
-    let o = dimorph(&[
+    let o = tessera(&[
         "analyse",
         one.to_str().unwrap(),
         "--out",
@@ -293,7 +293,7 @@ fn without_groups_the_single_posterior_is_used_and_no_group_files_are_written() 
 fn recalibration_writes_its_tables() {
     let dir = tempfile::tempdir().unwrap();
     let out = dir.path().join("rc");
-    let o = dimorph(&[
+    let o = tessera(&[
         "analyse",
         &demo(),
         "--out",
@@ -337,7 +337,7 @@ fn the_same_bytes_with_one_thread_or_several() {
     let mut outputs = Vec::new();
     for threads in ["1", "2"] {
         let out = dir.path().join(format!("t{threads}"));
-        let o = std::process::Command::new(env!("CARGO_BIN_EXE_dimorph"))
+        let o = std::process::Command::new(env!("CARGO_BIN_EXE_tessera"))
             .args([
                 "analyse",
                 &demo(),

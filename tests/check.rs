@@ -1,7 +1,7 @@
-//! `dimorph check` as a user runs it: good files, every bad fixture, JSON, workbooks.
+//! `tessera check` as a user runs it: good files, every bad fixture, JSON, workbooks.
 
 mod common;
-use common::{dimorph, fixture, stderr, stdout};
+use common::{fixture, stderr, stdout, tessera};
 use std::collections::BTreeMap;
 
 /// Every bad fixture reports exactly the problems listed in tests/fixtures/bad/expected.tsv
@@ -33,7 +33,7 @@ fn every_bad_fixture_reports_every_problem_with_row_and_column() {
     }
     for (file, want) in &expected {
         let path = fixture(&format!("bad/{file}"));
-        let out = dimorph(&["check", path.to_str().unwrap(), "--format", "json"]);
+        let out = tessera(&["check", path.to_str().unwrap(), "--format", "json"]);
         assert_eq!(out.status.code(), Some(3), "{file}: {}", stderr(&out));
         let v: serde_json::Value = serde_json::from_str(&stdout(&out)).unwrap();
         assert_eq!(v["status"], "problems");
@@ -58,7 +58,7 @@ fn every_bad_fixture_reports_every_problem_with_row_and_column() {
             );
         }
         // Text mode: problems on stderr with the file named, nothing on stdout.
-        let text = dimorph(&["check", path.to_str().unwrap()]);
+        let text = tessera(&["check", path.to_str().unwrap()]);
         assert_eq!(text.status.code(), Some(3));
         assert!(stdout(&text).is_empty());
         assert!(
@@ -71,7 +71,7 @@ fn every_bad_fixture_reports_every_problem_with_row_and_column() {
 
 #[test]
 fn centimetre_and_decimal_comma_hints_reach_the_user() {
-    let out = dimorph(&[
+    let out = tessera(&[
         "check",
         fixture("bad/implausible_measurement.csv").to_str().unwrap(),
     ]);
@@ -81,27 +81,27 @@ fn centimetre_and_decimal_comma_hints_reach_the_user() {
         "{err}"
     );
     assert!(err.contains("centimetres"), "{err}");
-    let out = dimorph(&[
+    let out = tessera(&[
         "check",
         fixture("bad/decimal_comma_in_comma_file.csv")
             .to_str()
             .unwrap(),
     ]);
     assert!(stderr(&out).contains("decimal comma"));
-    let out = dimorph(&["check", fixture("bad/latin1.csv").to_str().unwrap()]);
+    let out = tessera(&["check", fixture("bad/latin1.csv").to_str().unwrap()]);
     assert!(stderr(&out).contains("offset"), "{}", stderr(&out));
 }
 
 #[test]
 fn semicolons_bom_crlf_decimal_commas_and_declared_missing_words() {
     let f = fixture("good/semicolon_bom_crlf.csv");
-    let out = dimorph(&["check", f.to_str().unwrap()]);
+    let out = tessera(&["check", f.to_str().unwrap()]);
     assert_eq!(
         out.status.code(),
         Some(3),
         "`nr` is not a missing code until declared"
     );
-    let out = dimorph(&[
+    let out = tessera(&[
         "check",
         f.to_str().unwrap(),
         "--missing",
@@ -140,7 +140,7 @@ fn semicolons_bom_crlf_decimal_commas_and_declared_missing_words() {
 
 #[test]
 fn tabs_and_groups() {
-    let out = dimorph(&["check", fixture("good/tabs.tsv").to_str().unwrap()]);
+    let out = tessera(&["check", fixture("good/tabs.tsv").to_str().unwrap()]);
     assert_eq!(out.status.code(), Some(0), "{}", stderr(&out));
     let text = stdout(&out);
     assert!(text.contains("tab-separated"));
@@ -150,10 +150,10 @@ fn tabs_and_groups() {
 #[test]
 fn a_scale_map_brings_other_scales_onto_the_grades() {
     let f = fixture("good/other_scale.csv");
-    let out = dimorph(&["check", f.to_str().unwrap()]);
+    let out = tessera(&["check", f.to_str().unwrap()]);
     assert_eq!(out.status.code(), Some(3));
     let map = fixture("good/other_scale.yaml");
-    let out = dimorph(&[
+    let out = tessera(&[
         "check",
         f.to_str().unwrap(),
         "--scale-map",
@@ -165,7 +165,7 @@ fn a_scale_map_brings_other_scales_onto_the_grades() {
 #[test]
 fn the_demo_file_checks_clean_and_groups_by_phase() {
     let demo = std::path::Path::new(env!("CARGO_MANIFEST_DIR")).join("examples/mirefold.csv");
-    let out = dimorph(&["check", demo.to_str().unwrap(), "--group-by", "phase"]);
+    let out = tessera(&["check", demo.to_str().unwrap(), "--group-by", "phase"]);
     assert_eq!(out.status.code(), Some(0), "{}", stderr(&out));
     let text = stdout(&out);
     assert!(text.contains("Groups       early"), "{text}");
@@ -174,18 +174,18 @@ fn the_demo_file_checks_clean_and_groups_by_phase() {
 
 #[test]
 fn usage_errors_and_missing_files_have_their_own_exit_codes() {
-    assert_eq!(dimorph(&["check"]).status.code(), Some(2));
-    let out = dimorph(&["check", "no/such/file.csv"]);
+    assert_eq!(tessera(&["check"]).status.code(), Some(2));
+    let out = tessera(&["check", "no/such/file.csv"]);
     assert_eq!(out.status.code(), Some(3));
     assert!(stderr(&out).contains("no/such/file.csv"));
-    let out = dimorph(&[
+    let out = tessera(&[
         "check",
         fixture("good/tabs.tsv").to_str().unwrap(),
         "--scale-map",
         "nope.yaml",
     ]);
     assert_eq!(out.status.code(), Some(5));
-    let out = dimorph(&[
+    let out = tessera(&[
         "check",
         fixture("good/tabs.tsv").to_str().unwrap(),
         "--group-by",
@@ -223,8 +223,8 @@ fn workbooks_read_the_first_or_the_named_sheet() {
     wb.save(&path).unwrap();
     let p = path.to_str().unwrap();
     // The first sheet has no id column.
-    assert_eq!(dimorph(&["check", p]).status.code(), Some(3));
-    let out = dimorph(&["check", p, "--sheet", "scores", "--format", "json"]);
+    assert_eq!(tessera(&["check", p]).status.code(), Some(3));
+    let out = tessera(&["check", p, "--sheet", "scores", "--format", "json"]);
     assert_eq!(out.status.code(), Some(3));
     let v: serde_json::Value = serde_json::from_str(&stdout(&out)).unwrap();
     let probs = v["problems"]["problems"].as_array().unwrap();
@@ -233,7 +233,7 @@ fn workbooks_read_the_first_or_the_named_sheet() {
         (probs[0]["row"].as_u64(), probs[0]["column"].as_str()),
         (Some(3), Some("glabella"))
     );
-    let out = dimorph(&["check", p, "--sheet", "nosuch"]);
+    let out = tessera(&["check", p, "--sheet", "nosuch"]);
     assert!(stderr(&out).contains("notes, scores"), "{}", stderr(&out));
 }
 
@@ -241,7 +241,7 @@ fn workbooks_read_the_first_or_the_named_sheet() {
 fn two_observers_are_compared() {
     let root = std::path::Path::new(env!("CARGO_MANIFEST_DIR"));
     let dir = tempfile::tempdir().unwrap();
-    let out = dimorph(&[
+    let out = tessera(&[
         "agreement",
         root.join("examples/mirefold.csv").to_str().unwrap(),
         root.join("examples/mirefold-second-observer.csv")

@@ -1,7 +1,7 @@
-//! `dimorph evidence` as a user runs it.
+//! `tessera evidence` as a user runs it.
 
 mod common;
-use common::{dimorph, fixture, stderr, stdout};
+use common::{fixture, stderr, stdout, tessera};
 use std::path::Path;
 
 fn demo() -> String {
@@ -25,7 +25,7 @@ fn read_csv(p: &Path) -> (Vec<String>, Vec<Vec<String>>) {
 fn the_ledger_of_the_demo_has_the_documented_columns() {
     let dir = tempfile::tempdir().unwrap();
     let out = dir.path().join("ledger.csv");
-    let o = dimorph(&["evidence", &demo(), "--out", out.to_str().unwrap()]);
+    let o = tessera(&["evidence", &demo(), "--out", out.to_str().unwrap()]);
     assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
     assert!(stdout(&o).contains("not identifications"));
     let (h, rows) = read_csv(&out);
@@ -81,7 +81,7 @@ fn same_seed_same_bytes_and_row_order_does_not_matter() {
     let b = dir.path().join("b.csv");
     for p in [&a, &b] {
         assert_eq!(
-            dimorph(&[
+            tessera(&[
                 "evidence",
                 &demo(),
                 "--out",
@@ -103,7 +103,7 @@ fn same_seed_same_bytes_and_row_order_does_not_matter() {
     std::fs::write(&rev, lines.join("\n") + "\n").unwrap();
     let c = dir.path().join("c.csv");
     assert_eq!(
-        dimorph(&[
+        tessera(&[
             "evidence",
             rev.to_str().unwrap(),
             "--out",
@@ -129,7 +129,7 @@ fn published_equations_give_the_worked_example() {
     std::fs::write(&input, "id,ventral_arc_l,ischiopubic_ramus_l,subpubic_concavity_l,glabella,mastoid_l\nP1,1,1,1,,\nP2,5,5,5,2,\n").unwrap();
     let out = dir.path().join("l.csv");
     let model = Path::new(env!("CARGO_MANIFEST_DIR")).join("models/published-equations.yaml");
-    let o = dimorph(&[
+    let o = tessera(&[
         "evidence",
         input.to_str().unwrap(),
         "--out",
@@ -157,7 +157,7 @@ fn inputs_are_never_overwritten_and_bad_models_list_every_problem() {
     let dir = tempfile::tempdir().unwrap();
     let input = dir.path().join("in.csv");
     std::fs::write(&input, "id,glabella\nA,3\n").unwrap();
-    let o = dimorph(&[
+    let o = tessera(&[
         "evidence",
         input.to_str().unwrap(),
         "--out",
@@ -171,7 +171,7 @@ fn inputs_are_never_overwritten_and_bad_models_list_every_problem() {
     let model = dir.path().join("m.yaml");
     std::fs::write(&model, "name: m\nprovenance: x\nblocks:\n  - {id: a, type: latent, traits: [{id: glabella, thresholds: [1, 0, 2, 3], mean: {female: 0, male: 1}}]}\n").unwrap();
     let out = dir.path().join("o.csv");
-    let o = dimorph(&[
+    let o = tessera(&[
         "evidence",
         input.to_str().unwrap(),
         "--out",
@@ -187,7 +187,7 @@ fn inputs_are_never_overwritten_and_bad_models_list_every_problem() {
     );
     assert!(!out.exists());
     // Bad input: problems listed, nothing written.
-    let o = dimorph(&[
+    let o = tessera(&[
         "evidence",
         fixture("bad/grade_out_of_range.csv").to_str().unwrap(),
         "--out",

@@ -1,21 +1,21 @@
-//! `dimorph fit` and `dimorph validate` as a user runs them, and the promise behind them: a
+//! `tessera fit` and `tessera validate` as a user runs them, and the promise behind them: a
 //! model fitted to a reference sample classifies as well as the model that made the sample.
 
 mod common;
-use common::{dimorph, fixture, stderr, stdout};
-use dimorph::data::Sex;
-use dimorph::fit::{fit, FitSpec, ReferenceInfo};
-use dimorph::model::{Block, Context, Model};
-use dimorph::sim::{simulate, GroupSpec, MissingSpec};
+use common::{fixture, stderr, stdout, tessera};
+use tessera::data::Sex;
+use tessera::fit::{fit, FitSpec, ReferenceInfo};
+use tessera::model::{Block, Context, Model};
+use tessera::sim::{simulate, GroupSpec, MissingSpec};
 
 fn one_group(n: usize) -> Vec<GroupSpec> {
     vec![GroupSpec::single(n, 0.5)]
 }
 
 /// Share of individuals with usable evidence whose P(F) at prior ½ is on the right side.
-fn accuracy(model: &Model, sim: &dimorph::sim::Simulated) -> (f64, usize) {
+fn accuracy(model: &Model, sim: &tessera::sim::Simulated) -> (f64, usize) {
     let ctx = Context::new(3);
-    let cache = dimorph::model::EvidenceCache::default();
+    let cache = tessera::model::EvidenceCache::default();
     let (mut right, mut n) = (0, 0);
     for (ind, sex) in sim.individuals.iter().zip(&sim.true_sex) {
         let e = model.evaluate_cached(ind, &ctx, &cache);
@@ -76,7 +76,7 @@ fn a_model_fitted_to_a_simulated_reference_classifies_as_well_as_the_true_model(
 fn fit_and_validate_from_the_command_line() {
     let dir = tempfile::tempdir().unwrap();
     let p = |n: &str| dir.path().join(n).to_str().unwrap().to_string();
-    let o = dimorph(&[
+    let o = tessera(&[
         "simulate",
         "--n",
         "300",
@@ -91,7 +91,7 @@ fn fit_and_validate_from_the_command_line() {
     assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
     let spec = fixture("fit/spec.yaml");
     let spec = spec.to_str().unwrap();
-    let o = dimorph(&[
+    let o = tessera(&[
         "fit",
         &p("ref.csv"),
         "--traits",
@@ -102,12 +102,12 @@ fn fit_and_validate_from_the_command_line() {
     assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
     assert!(stdout(&o).contains("females and"));
     let model = std::fs::read_to_string(p("m.yaml")).unwrap();
-    assert!(model.contains("FITTED by dimorph"));
+    assert!(model.contains("FITTED by tessera"));
     assert!(model.contains("SHA-256"));
     let est = std::fs::read_to_string(p("m.estimates.csv")).unwrap();
     assert!(est.starts_with("block,trait,parameter,scale,estimate,se,lower_95,upper_95,n\n"));
     // The fitted model is a normal model file.
-    let o = dimorph(&[
+    let o = tessera(&[
         "evidence",
         &p("ref.csv"),
         "--model",
@@ -117,7 +117,7 @@ fn fit_and_validate_from_the_command_line() {
     ]);
     assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
     // The methods paragraph of an analysis with the fitted model says how it was fitted.
-    let o = dimorph(&[
+    let o = tessera(&[
         "analyse",
         &p("ref.csv"),
         "--model",
@@ -135,9 +135,30 @@ fn fit_and_validate_from_the_command_line() {
     );
     assert!(methods.contains("McCullagh, P. (1980)") && methods.contains("Olsson, U. (1979)"));
     assert!(!methods.contains("Noussios"));
+    // The program's name and version in a model's provenance are informational: a model
+    // fitted by an earlier build (another name, another version) loads and reads the same.
+    let renamed = model.replacen("FITTED by tessera", "FITTED by an-earlier-build", 1);
+    assert_ne!(renamed, model);
+    std::fs::write(p("old.yaml"), renamed).unwrap();
+    let o = tessera(&[
+        "analyse",
+        &p("ref.csv"),
+        "--model",
+        &p("old.yaml"),
+        "--out",
+        &p("a-old"),
+        "--priors",
+        "flat",
+    ]);
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    let old = std::fs::read_to_string(dir.path().join("a-old/methods.md")).unwrap();
+    assert!(
+        old.contains("from a documented reference collection (file `ref.csv`, SHA-256"),
+        "{old}"
+    );
     // Cross-validation with a report folder; same seed, same bytes.
     for out in ["v1", "v2"] {
-        let o = dimorph(&[
+        let o = tessera(&[
             "validate",
             &p("ref.csv"),
             "--traits",
@@ -174,11 +195,11 @@ fn fit_and_validate_from_the_command_line() {
     let report = std::fs::read_to_string(dir.path().join("v1/report.md")).unwrap();
     assert!(report.contains("not identifications"));
     // A fixed model is checked as it stands.
-    let o = dimorph(&["validate", &p("ref.csv"), "--model", &p("m.yaml")]);
+    let o = tessera(&["validate", &p("ref.csv"), "--model", &p("m.yaml")]);
     assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
     assert!(stdout(&o).contains("fixed model (not cross-validated)"));
     // Neither a spec nor a model: a usage error.
-    assert_eq!(dimorph(&["validate", &p("ref.csv")]).status.code(), Some(2));
+    assert_eq!(tessera(&["validate", &p("ref.csv")]).status.code(), Some(2));
 }
 
 #[test]
@@ -191,7 +212,7 @@ fn a_bad_spec_lists_every_problem_and_writes_nothing() {
     )
     .unwrap();
     let out = dir.path().join("m.yaml");
-    let o = dimorph(&[
+    let o = tessera(&[
         "fit",
         fixture("good/tabs.tsv").to_str().unwrap(),
         "--traits",
@@ -231,7 +252,7 @@ fn a_reference_that_cannot_support_a_threshold_says_which_grade() {
     )
     .unwrap();
     let out = dir.path().join("m.yaml");
-    let o = dimorph(&[
+    let o = tessera(&[
         "fit",
         f.to_str().unwrap(),
         "--traits",

@@ -1,18 +1,18 @@
 //! Long property runs over everything that reads outside input: the table reader, the model
 //! and prior loaders, scale maps and the specification parsers. No input may panic.
-//! Run: `DIMORPH_FUZZ_CASES=1000000 cargo test --release --test fuzz -- --ignored --nocapture`
+//! Run: `TESSERA_FUZZ_CASES=1000000 cargo test --release --test fuzz -- --ignored --nocapture`
 //! (default 100 000 cases per property).
 
-use dimorph::catalogue::Catalogue;
-use dimorph::data::{read_assemblage_text, settings::parse_scale_maps, ReadSettings};
-use dimorph::model::Model;
-use dimorph::prior::{parse_prior_set, Prior};
-use dimorph::sim::{parse_groups, MissingSpec};
 use proptest::prelude::*;
 use proptest::test_runner::{Config, TestRunner};
+use tessera::catalogue::Catalogue;
+use tessera::data::{read_assemblage_text, settings::parse_scale_maps, ReadSettings};
+use tessera::model::Model;
+use tessera::prior::{parse_prior_set, Prior};
+use tessera::sim::{parse_groups, MissingSpec};
 
 fn cases() -> u32 {
-    std::env::var("DIMORPH_FUZZ_CASES")
+    std::env::var("TESSERA_FUZZ_CASES")
         .ok()
         .and_then(|v| v.parse().ok())
         .unwrap_or(100_000)
@@ -76,7 +76,7 @@ fn nothing_read_from_outside_panics() {
         })
         .unwrap();
     TestRunner::new(config.clone())
-        .run(&mutated(dimorph::model::DEFAULT_MODEL_YAML), |t| {
+        .run(&mutated(tessera::model::DEFAULT_MODEL_YAML), |t| {
             let _ = Model::from_yaml("m.yaml", &t);
             Ok(())
         })
@@ -104,7 +104,7 @@ fn nothing_read_from_outside_panics() {
             let _ = parse_groups(&t);
             let _ = MissingSpec::parse(&t);
             let _ = parse_prior_set(&t);
-            let _ = dimorph::assemblage::Thresholds::parse(&t);
+            let _ = tessera::assemblage::Thresholds::parse(&t);
             Ok(())
         })
         .unwrap();

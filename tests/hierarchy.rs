@@ -2,14 +2,14 @@
 //! calibration (Talts et al. 2018) and by interval coverage. Light versions run in the
 //! suite; the heavy ones with `cargo test --release --test hierarchy -- --ignored --nocapture`.
 
-use dimorph::assemblage::gibbs::gibbs_means;
-use dimorph::assemblage::hierarchy::{Hierarchy, KAPPA_MAX, KAPPA_MIN};
-use dimorph::assemblage::PiPosterior;
-use dimorph::prior::{shipped_priors, Prior};
 use rand::distr::Distribution;
 use rand::{RngExt, SeedableRng};
 use rand_chacha::ChaCha8Rng;
 use statrs::distribution::{Beta, Normal};
+use tessera::assemblage::gibbs::gibbs_means;
+use tessera::assemblage::hierarchy::{Hierarchy, KAPPA_MAX, KAPPA_MIN};
+use tessera::assemblage::PiPosterior;
+use tessera::prior::{shipped_priors, Prior};
 
 fn flat() -> Prior {
     shipped_priors().unwrap()[0].clone()

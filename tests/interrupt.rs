@@ -9,7 +9,7 @@ use std::time::{Duration, Instant};
 fn sigint_during_a_write_leaves_no_partial_file() {
     let dir = tempfile::tempdir().unwrap();
     let out = dir.path().join("big.csv");
-    let mut child = Command::new(env!("CARGO_BIN_EXE_dimorph"))
+    let mut child = Command::new(env!("CARGO_BIN_EXE_tessera"))
         .args([
             "simulate",
             "--n",

@@ -1,8 +1,8 @@
 //! Property tests: no input, however broken, panics the reader.
 
-use dimorph::catalogue::Catalogue;
-use dimorph::data::{read_assemblage_text, ReadSettings, SidePolicy};
 use proptest::prelude::*;
+use tessera::catalogue::Catalogue;
+use tessera::data::{read_assemblage_text, ReadSettings, SidePolicy};
 
 fn column_name() -> impl Strategy<Value = String> {
     prop_oneof![

@@ -1,13 +1,13 @@
 //! Metric recalibration checked against exact enumeration and by simulation.
 //! Heavy version: `cargo test --release --test recalibration -- --ignored --nocapture`.
 
-use dimorph::assemblage::recalibration::{recalibrate, RecalibrationSettings};
-use dimorph::data::{Observation, Sex};
-use dimorph::likelihood::evaluate_assemblage;
-use dimorph::model::{Block, Context, Model};
-use dimorph::prior::{shipped_priors, Prior};
-use dimorph::sim::{simulate, GroupSpec, MissingSpec};
 use statrs::distribution::{Continuous, MultivariateNormal};
+use tessera::assemblage::recalibration::{recalibrate, RecalibrationSettings};
+use tessera::data::{Observation, Sex};
+use tessera::likelihood::evaluate_assemblage;
+use tessera::model::{Block, Context, Model};
+use tessera::prior::{shipped_priors, Prior};
+use tessera::sim::{simulate, GroupSpec, MissingSpec};
 
 const ONE_TRAIT: &str = "name: toy\nprovenance: invented numbers for a unit test of recalibration\nblocks:\n  - {id: femur, type: latent, traits: [{id: femur_head_diameter, mean: {female: 42.0, male: 47.5}, sd: {female: 2.4, male: 2.8}}]}\n";
 
@@ -25,12 +25,12 @@ fn gibbs_agrees_with_exact_enumeration_for_two_individuals() {
         .map(|(i, &v)| {
             let mut o = vec![None; model.catalogue.len()];
             o[fh] = Some(Observation::Measurement { value: v });
-            dimorph::sim::individual(format!("T{i}"), o)
+            tessera::sim::individual(format!("T{i}"), o)
         })
         .collect();
-    let a = dimorph::data::Assemblage {
+    let a = tessera::data::Assemblage {
         file: "toy".into(),
-        format: dimorph::data::TableFormat::Text,
+        format: tessera::data::TableFormat::Text,
         delimiter: Some(','),
         sha256: String::new(),
         catalogue: model.catalogue.clone(),
@@ -121,9 +121,9 @@ fn one_cemetery(
     let missing =
         MissingSpec::parse("cranium=0.5,pelvis=0.4,postcranial=0.1,dental=0.6,trait=0.1").unwrap();
     let sim = simulate(&truth, &[GroupSpec::single(n, 0.5)], &missing, seed).unwrap();
-    let a = dimorph::data::Assemblage {
+    let a = tessera::data::Assemblage {
         file: "sim".into(),
-        format: dimorph::data::TableFormat::Text,
+        format: tessera::data::TableFormat::Text,
         delimiter: Some(','),
         sha256: String::new(),
         catalogue: reference.catalogue.clone(),
@@ -135,9 +135,9 @@ fn one_cemetery(
     };
     let ev = evaluate_assemblage(&reference, &a, &Context::new(seed));
     let flat = shipped_priors().unwrap()[0].clone();
-    let before = dimorph::assemblage::under_prior(&ev, None, &flat, &Default::default()).0;
+    let before = tessera::assemblage::under_prior(&ev, None, &flat, &Default::default()).0;
     let ev_true = evaluate_assemblage(&truth, &a, &Context::new(seed));
-    let oracle = dimorph::assemblage::under_prior(&ev_true, None, &flat, &Default::default()).0;
+    let oracle = tessera::assemblage::under_prior(&ev_true, None, &flat, &Default::default()).0;
     let r = recalibrate(
         &reference,
         &sim.individuals,
@@ -172,7 +172,7 @@ fn one_cemetery(
             .blocks
             .iter()
             .zip(&e.blocks)
-            .filter(|(_, b)| b.status == dimorph::model::BlockStatus::Used)
+            .filter(|(_, b)| b.status == tessera::model::BlockStatus::Used)
             .map(|(bl, _)| bl.id())
             .collect();
         if used.is_empty() || used.iter().any(|u| !matches!(*u, "postcranial" | "dental")) {

@@ -1,8 +1,8 @@
 //! Observer agreement against scikit-learn 1.7.2 (`cohen_kappa_score`, linear and quadratic
 //! weights) and numpy (TEM, ICC(2,1) by Shrout & Fleiss 1979): tests/reference/agreement.py.
 
-use dimorph::agreement::{icc_2_1, tem, weighted_kappa};
 use std::collections::HashMap;
+use tessera::agreement::{icc_2_1, tem, weighted_kappa};
 
 /// Largest absolute deviation accepted.
 const TOL: f64 = 1e-12;
@@ -39,6 +39,6 @@ fn kappa_tem_and_icc_agree_with_the_reference_libraries() {
     ];
     for (k, v) in got {
         assert!((v - e[k]).abs() < TOL, "{k}: {v} vs reference {}", e[k]);
-        println!("{k}: dimorph {v:.15} reference {:.15}", e[k]);
+        println!("{k}: tessera {v:.15} reference {:.15}", e[k]);
     }
 }

@@ -1,8 +1,8 @@
 //! Analyses by sex against an independent numpy computation over the same joint draws
 //! (tests/reference/by_sex.py, numpy 2.3.5), committed in tests/reference/fixtures/.
 
-use dimorph::summary::{age_by_sex, prevalence_by_sex};
 use std::collections::HashMap;
+use tessera::summary::{age_by_sex, prevalence_by_sex};
 
 /// Largest absolute deviation accepted (the same arithmetic in another language).
 const TOL: f64 = 1e-9;

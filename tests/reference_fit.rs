@@ -1,9 +1,9 @@
-//! The cumulative probit of `dimorph fit` against statsmodels' OrderedModel (probit link, male
+//! The cumulative probit of `tessera fit` against statsmodels' OrderedModel (probit link, male
 //! indicator, no intercept) on the same data: tests/reference/ordered_probit.py, statsmodels
 //! 0.15.0, committed in tests/reference/fixtures/ordered_probit_*.csv.
 
-use dimorph::fit::ordinal::{fit_cumulative_probit, OrdinalScore};
 use std::collections::BTreeMap;
+use tessera::fit::ordinal::{fit_cumulative_probit, OrdinalScore};
 
 const TOL: f64 = 1e-4;
 
@@ -45,7 +45,7 @@ fn thresholds_and_shift_equal_statsmodels_ordered_probit() {
         let d = (got - expected).abs();
         assert!(
             d < tol,
-            "{} {}: dimorph {got} statsmodels {expected}",
+            "{} {}: tessera {got} statsmodels {expected}",
             &row[0],
             &row[1]
         );

@@ -1,8 +1,8 @@
 //! Box probabilities against scipy's multivariate normal CDF (tests/reference/mvn_boxes.py,
 //! scipy 1.16.3, abseps = releps = 1e-8), committed in tests/reference/fixtures/mvn_boxes.csv.
 
-use dimorph::numeric::{ln_box_probability, QmcSettings};
 use nalgebra::DMatrix;
+use tessera::numeric::{ln_box_probability, QmcSettings};
 
 /// Absolute tolerance on ln P for the exact routines (1-D, 2-D), covering scipy's own error.
 const EXACT_TOL: f64 = 1e-6;

@@ -1,7 +1,7 @@
 //! ln Φ and ln(Φ(b) − Φ(a)) against values computed by scipy (tests/reference/normal_tails.py,
 //! scipy 1.16.3 `log_ndtr`), committed in tests/reference/fixtures/normal_tails.csv.
 
-use dimorph::numeric::normal::{ln_cdf, ln_interval};
+use tessera::numeric::normal::{ln_cdf, ln_interval};
 
 /// Largest relative deviation accepted from scipy's log_ndtr.
 const REL_TOL: f64 = 1e-13;

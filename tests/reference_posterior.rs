@@ -2,8 +2,8 @@
 //! (tests/reference/pi_posterior.py: scipy 1.16.3 `integrate.quad`, `optimize.brentq`),
 //! committed in tests/reference/fixtures/pi_posterior.csv.
 
-use dimorph::assemblage::PiPosterior;
-use dimorph::prior::Prior;
+use tessera::assemblage::PiPosterior;
+use tessera::prior::Prior;
 
 /// Largest absolute deviation accepted for means, quantiles and probabilities.
 const TOL: f64 = 1e-6;

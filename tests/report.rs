@@ -1,7 +1,7 @@
 //! The publication outputs: report, tables, methods, by-sex tables, and figures that render.
 
 mod common;
-use common::{dimorph, stderr};
+use common::{stderr, tessera};
 use std::path::Path;
 
 fn demo() -> String {
@@ -15,7 +15,7 @@ fn demo() -> String {
 fn render(svg: &str, png: Option<&Path>) {
     let mut opt = resvg::usvg::Options::default();
     opt.fontdb_mut()
-        .load_font_data(dimorph::report::figures::FONT_BYTES.to_vec());
+        .load_font_data(tessera::report::figures::FONT_BYTES.to_vec());
     opt.fontdb_mut().set_sans_serif_family("DejaVu Sans");
     let tree = resvg::usvg::Tree::from_str(svg, &opt).expect("a valid SVG");
     let size = tree.size().to_int_size();
@@ -44,7 +44,7 @@ fn render(svg: &str, png: Option<&Path>) {
 fn the_demo_writes_report_tables_methods_and_figures_that_render() {
     let dir = tempfile::tempdir().unwrap();
     let out = dir.path().join("r");
-    let o = dimorph(&[
+    let o = tessera(&[
         "analyse",
         &demo(),
         "--out",
@@ -86,7 +86,7 @@ fn the_demo_writes_report_tables_methods_and_figures_that_render() {
         tex.matches("\\begin{tabular}").count(),
         tex.matches("\\end{tabular}").count()
     );
-    let keep = std::env::var_os("DIMORPH_KEEP_FIGURES").map(std::path::PathBuf::from);
+    let keep = std::env::var_os("TESSERA_KEEP_FIGURES").map(std::path::PathBuf::from);
     for f in ["p_female", "pi_posterior", "lr_by_region", "age_at_death"] {
         let svg = std::fs::read_to_string(out.join(format!("figures/{f}.svg"))).unwrap();
         assert!(svg.contains("<text"), "{f} has no text");
@@ -107,7 +107,7 @@ fn outcome_columns_must_be_zero_or_one_and_never_traits() {
     )
     .unwrap();
     let out = dir.path().join("r");
-    let o = dimorph(&[
+    let o = tessera(&[
         "analyse",
         input.to_str().unwrap(),
         "--out",
@@ -124,7 +124,7 @@ fn outcome_columns_must_be_zero_or_one_and_never_traits() {
         stderr(&o)
     );
     assert!(!out.exists());
-    let o = dimorph(&[
+    let o = tessera(&[
         "analyse",
         input.to_str().unwrap(),
         "--out",
@@ -142,7 +142,7 @@ fn the_validation_report_of_the_demo_reference_renders() {
     let dir = tempfile::tempdir().unwrap();
     let root = env!("CARGO_MANIFEST_DIR");
     let out = dir.path().join("v");
-    let o = dimorph(&[
+    let o = tessera(&[
         "validate",
         &format!("{root}/examples/saltmarsh-reference.csv"),
         "--traits",
@@ -154,7 +154,7 @@ fn the_validation_report_of_the_demo_reference_renders() {
     ]);
     assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
     let svg = std::fs::read_to_string(out.join("calibration.svg")).unwrap();
-    let png = std::env::var_os("DIMORPH_FIGURES").map(|d| Path::new(&d).join("calibration.png"));
+    let png = std::env::var_os("TESSERA_FIGURES").map(|d| Path::new(&d).join("calibration.png"));
     render(&svg, png.as_deref());
     let report = std::fs::read_to_string(out.join("report.md")).unwrap();
     assert!(report.contains("5-fold cross-validation"));

@@ -5,9 +5,9 @@
 //! `cargo test --release --test robustness -- --ignored --nocapture`.
 
 mod common;
-use common::{dimorph, stderr, stdout};
-use dimorph::model::Model;
-use dimorph::prior::Prior;
+use common::{stderr, stdout, tessera};
+use tessera::model::Model;
+use tessera::prior::Prior;
 
 const MODEL: &str = include_str!("../models/default.yaml");
 
@@ -127,10 +127,10 @@ fn ten_thousand_columns_are_read_and_carried() {
         t.push('\n');
     }
     std::fs::write(&f, t).unwrap();
-    let o = dimorph(&["check", f.to_str().unwrap()]);
+    let o = tessera(&["check", f.to_str().unwrap()]);
     assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
     let out = dir.path().join("r");
-    let o = dimorph(&[
+    let o = tessera(&[
         "analyse",
         f.to_str().unwrap(),
         "--out",
@@ -149,7 +149,7 @@ fn ten_thousand_columns_are_read_and_carried() {
 fn a_million_rows_are_checked_and_weighed() {
     let dir = tempfile::tempdir().unwrap();
     let f = dir.path().join("million.csv");
-    let o = dimorph(&[
+    let o = tessera(&[
         "simulate",
         "--n",
         "1000000",
@@ -160,12 +160,12 @@ fn a_million_rows_are_checked_and_weighed() {
     ]);
     assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
     let start = std::time::Instant::now();
-    let o = dimorph(&["check", f.to_str().unwrap()]);
+    let o = tessera(&["check", f.to_str().unwrap()]);
     assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
     println!("check of 10^6 rows: {:.1} s", start.elapsed().as_secs_f64());
     let start = std::time::Instant::now();
     let ledger = dir.path().join("ledger.csv");
-    let o = dimorph(&[
+    let o = tessera(&[
         "evidence",
         f.to_str().unwrap(),
         "--out",
@@ -204,7 +204,7 @@ fn a_gigabyte_file_gets_a_clear_error_and_nothing_is_written() {
     }
     let out = dir.path().join("r");
     let start = std::time::Instant::now();
-    let o = dimorph(&[
+    let o = tessera(&[
         "analyse",
         f.to_str().unwrap(),
         "--out",

@@ -1,13 +1,13 @@
-//! `dimorph simulate` and `dimorph plan` as a user runs them.
+//! `tessera simulate` and `tessera plan` as a user runs them.
 
 mod common;
-use common::{dimorph, stderr, stdout};
+use common::{stderr, stdout, tessera};
 
 #[test]
 fn a_simulated_cemetery_runs_through_check_and_analyse() {
     let dir = tempfile::tempdir().unwrap();
     let f = dir.path().join("sim.csv");
-    let o = dimorph(&[
+    let o = tessera(&[
         "simulate",
         "--groups",
         "north:30:0.6,south:20:0.3",
@@ -24,11 +24,11 @@ fn a_simulated_cemetery_runs_through_check_and_analyse() {
     assert!(text.lines().next().unwrap().ends_with(",true_sex"));
     assert_eq!(text.lines().count(), 51);
     assert_eq!(
-        dimorph(&["check", f.to_str().unwrap()]).status.code(),
+        tessera(&["check", f.to_str().unwrap()]).status.code(),
         Some(0)
     );
     let out = dir.path().join("r");
-    let o = dimorph(&[
+    let o = tessera(&[
         "analyse",
         f.to_str().unwrap(),
         "--out",
@@ -40,7 +40,7 @@ fn a_simulated_cemetery_runs_through_check_and_analyse() {
     assert!(out.join("groups.csv").exists());
     // Same seed, same file.
     let g = dir.path().join("again.csv");
-    dimorph(&[
+    tessera(&[
         "simulate",
         "--groups",
         "north:30:0.6,south:20:0.3",
@@ -65,14 +65,14 @@ fn bad_specs_are_settings_errors() {
     ] {
         let mut a = args.clone();
         a.extend(["--out", f.to_str().unwrap()]);
-        assert_eq!(dimorph(&a).status.code(), Some(4), "{args:?}");
+        assert_eq!(tessera(&a).status.code(), Some(4), "{args:?}");
         assert!(!f.exists());
     }
 }
 
 #[test]
 fn plan_prints_a_table_over_sizes() {
-    let o = dimorph(&["plan", "--n", "16", "--pi", "0.3", "--reps", "4"]);
+    let o = tessera(&["plan", "--n", "16", "--pi", "0.3", "--reps", "4"]);
     assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
     let t = stdout(&o);
     for n in ["    4 ", "    8 ", "   16 ", "   32 ", "   64 "] {

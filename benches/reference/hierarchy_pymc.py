@@ -1,13 +1,13 @@
-"""The group hierarchy fitted the way a statistician would without dimorph: PyMC with NUTS.
+"""The group hierarchy fitted the way a statistician would without tessera: PyMC with NUTS.
 
-Same model as dimorph's (src/assemblage/hierarchy.rs), sex marginalised:
+Same model as tessera's (src/assemblage/hierarchy.rs), sex marginalised:
     mu ~ Beta(1, 1) (the flat prior), ln kappa ~ Uniform(ln 1, ln 1000),
     pi_g ~ Beta(mu kappa, (1 - mu) kappa),
     each individual of group g adds ln(pi_g LR_i + 1 - pi_g) to the log density.
 Reads DIR/ln_lr.txt and DIR/groups.txt (one line per individual, as written by
 `cargo bench --bench side_by_side`), samples 2 chains x (1000 tuning + 1000 kept) draws, and
 writes DIR/pymc.csv: seconds (model build + compile + sampling), then each group's posterior
-mean of pi. Run by the bench when DIMORPH_PYMC_PYTHON names a Python with pymc installed.
+mean of pi. Run by the bench when TESSERA_PYMC_PYTHON names a Python with pymc installed.
 """
 import os
 import sys

@@ -1,9 +1,9 @@
 """Reference implementations, in numpy and scipy, of what `cargo bench --bench side_by_side`
-times in dimorph; run by that bench on the inputs it writes to DIR.
+times in tessera; run by that bench on the inputs it writes to DIR.
 
 1. Single-assemblage posterior of the proportion female pi under each prior of DIR/priors.csv,
    from the ln LR(F:M) in DIR/ln_lr.txt: p(pi | D) proportional to prior(pi) times
-   prod_i (pi LR_i + 1 - pi), on the grid dimorph uses (t in (0, 1), pi = sin^2(pi t / 2),
+   prod_i (pi LR_i + 1 - pi), on the grid tessera uses (t in (0, 1), pi = sin^2(pi t / 2),
    a coarse pass of 1000 cells to find where the posterior lives, 4000 cells there),
    vectorised with numpy (logaddexp over an individuals-by-cells array, in blocks); posterior
    mean and 2.5% / 97.5% quantiles, and each individual's P(female) under the first prior.
@@ -11,7 +11,7 @@ times in dimorph; run by that bench on the inputs it writes to DIR.
    scipy.stats.multivariate_normal.logpdf for the measurements, and the box probability of
    the ordinal latents given the measurements (Schur complement) by
    scipy.stats.multivariate_normal.cdf with lower_limit (Genz's MVNDST), releps = 1e-3 and
-   abseps = 0, i.e. the relative accuracy dimorph asks of its own integration.
+   abseps = 0, i.e. the relative accuracy tessera asks of its own integration.
 
 Writes reference_times.txt (seconds: posterior, likelihoods), reference_posterior.csv,
 reference_p_female.txt, reference_latent.csv.

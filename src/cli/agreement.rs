@@ -1,4 +1,4 @@
-//! `dimorph agreement A.csv B.csv`: how well two observers' scorings agree.
+//! `tessera agreement A.csv B.csv`: how well two observers' scorings agree.
 
 use super::input::InputArgs;
 use crate::agreement::compare;
@@ -10,7 +10,7 @@ use crate::Error;
 use std::fmt::Write as _;
 use std::path::{Path, PathBuf};
 
-/// Arguments of `dimorph agreement`.
+/// Arguments of `tessera agreement`.
 #[derive(Debug, clap::Args)]
 pub struct Args {
     /// The first observer's table.

@@ -1,4 +1,4 @@
-//! `dimorph analyse INPUT --out DIR`: posteriors for every individual and for the
+//! `tessera analyse INPUT --out DIR`: posteriors for every individual and for the
 //! assemblage's proportion of females, with the prior sensitivity analysis.
 
 use super::input::InputArgs;
@@ -20,7 +20,7 @@ use crate::summary::{age_by_sex, condition_column, prevalence_by_sex};
 use crate::Error;
 use std::path::{Path, PathBuf};
 
-/// Arguments of `dimorph analyse`.
+/// Arguments of `tessera analyse`.
 #[derive(Debug, clap::Args)]
 pub struct Args {
     /// The input table.
@@ -165,7 +165,7 @@ pub fn run(args: Args) -> Result<i32, Error> {
         ages,
     };
     let run = RunInfo {
-        program: "dimorph",
+        program: "tessera",
         version: crate::VERSION,
         command: crate::cli::command_line(),
         input: a.file.clone(),

@@ -1,4 +1,4 @@
-//! `dimorph check FILE`: validate an input table and summarise how complete it is.
+//! `tessera check FILE`: validate an input table and summarise how complete it is.
 
 use super::input::InputArgs;
 use crate::data::{read_assemblage, Completeness, InputError, TableFormat};
@@ -17,7 +17,7 @@ pub enum Format {
     Json,
 }
 
-/// Arguments of `dimorph check`.
+/// Arguments of `tessera check`.
 #[derive(Debug, clap::Args)]
 pub struct Args {
     /// The input table (.csv, .tsv, .txt, .xlsx, .xls, .ods).
@@ -76,7 +76,7 @@ pub fn run(args: Args) -> Result<i32, Error> {
                     print!("{}", render_text(&c, &delim));
                 }
                 Format::Json => print_json(&JsonReport {
-                    program: "dimorph",
+                    program: "tessera",
                     version: crate::VERSION,
                     status: "readable",
                     summary: Some(&c),
@@ -89,7 +89,7 @@ pub fn run(args: Args) -> Result<i32, Error> {
             match args.format {
                 Format::Text => eprint!("{}", render_problems(&e)),
                 Format::Json => print_json(&JsonReport {
-                    program: "dimorph",
+                    program: "tessera",
                     version: crate::VERSION,
                     status: "problems",
                     summary: None,
@@ -104,7 +104,7 @@ pub fn run(args: Args) -> Result<i32, Error> {
 fn print_json<T: Serialize>(v: &T) {
     match serde_json::to_string_pretty(v) {
         Ok(s) => println!("{s}"),
-        Err(e) => eprintln!("dimorph: could not write JSON: {e}"),
+        Err(e) => eprintln!("tessera: could not write JSON: {e}"),
     }
 }
 

@@ -1,4 +1,4 @@
-//! `dimorph evidence INPUT --out LEDGER.csv`: the evidence ledger, per individual and block,
+//! `tessera evidence INPUT --out LEDGER.csv`: the evidence ledger, per individual and block,
 //! without any prior.
 
 use super::input::InputArgs;
@@ -10,7 +10,7 @@ use crate::Error;
 use serde::Serialize;
 use std::path::{Path, PathBuf};
 
-/// Arguments of `dimorph evidence`.
+/// Arguments of `tessera evidence`.
 #[derive(Debug, clap::Args)]
 pub struct Args {
     /// The input table.
@@ -78,7 +78,7 @@ pub fn run(args: Args) -> Result<i32, Error> {
     }
     let record_path = run_record_path(&args.out);
     let record = RunRecord {
-        program: "dimorph",
+        program: "tessera",
         version: crate::VERSION,
         command: crate::cli::command_line(),
         input: &a.file,

@@ -1,4 +1,4 @@
-//! `dimorph fit REFERENCE --traits SPEC --out MODEL.yaml`: a model fitted to a documented
+//! `tessera fit REFERENCE --traits SPEC --out MODEL.yaml`: a model fitted to a documented
 //! reference collection, with a table of estimates beside it.
 
 use super::input::InputArgs;
@@ -9,7 +9,7 @@ use crate::output::write_all_atomic;
 use crate::Error;
 use std::path::{Path, PathBuf};
 
-/// Arguments of `dimorph fit`.
+/// Arguments of `tessera fit`.
 #[derive(Debug, clap::Args)]
 pub struct Args {
     /// The reference table: the input columns plus `known_sex` (documented sex).
@@ -147,7 +147,7 @@ pub fn run(args: Args) -> Result<i32, Error> {
         estimates.display()
     );
     println!(
-        "Check the model's error rates on this reference with `dimorph validate {} --traits {}`.",
+        "Check the model's error rates on this reference with `tessera validate {} --traits {}`.",
         args.reference.display(),
         args.traits.display()
     );

@@ -18,7 +18,7 @@ use clap::{Parser, Subcommand};
 /// Estimates, not identifications. Forensic casework needs validated methods, accredited
 /// practice and local rules. Biological sex is not gender.
 #[derive(Debug, Parser)]
-#[command(name = "dimorph", version, about, long_about = None)]
+#[command(name = "tessera", version, about, long_about = None)]
 pub struct Cli {
     /// What to do.
     #[command(subcommand)]
@@ -62,16 +62,16 @@ pub fn run(cli: Cli) -> i32 {
     match result {
         Ok(code) => code,
         Err(e) => {
-            eprintln!("dimorph: {e}");
+            eprintln!("tessera: {e}");
             e.exit_code()
         }
     }
 }
 
-/// The command line as typed, with the program path replaced by `dimorph` so that the record
+/// The command line as typed, with the program path replaced by `tessera` so that the record
 /// does not depend on where the binary lives.
 pub fn command_line() -> Vec<String> {
-    std::iter::once("dimorph".to_string())
+    std::iter::once("tessera".to_string())
         .chain(std::env::args().skip(1))
         .collect()
 }

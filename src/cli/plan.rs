@@ -1,4 +1,4 @@
-//! `dimorph plan`: how much will the analysis of an excavation be able to say?
+//! `tessera plan`: how much will the analysis of an excavation be able to say?
 
 use crate::assemblage::{Category, Thresholds};
 use crate::output::write_atomic;
@@ -9,7 +9,7 @@ use crate::Error;
 use std::fmt::Write as _;
 use std::path::PathBuf;
 
-/// Arguments of `dimorph plan`.
+/// Arguments of `tessera plan`.
 #[derive(Debug, clap::Args)]
 pub struct Args {
     /// Model (default: the embedded default model).

@@ -1,11 +1,11 @@
-//! `dimorph simulate`: an assemblage drawn from a model with known sex, in the input contract.
+//! `tessera simulate`: an assemblage drawn from a model with known sex, in the input contract.
 
 use crate::output::write_atomic;
 use crate::sim::{parse_groups, simulate, GroupSpec, MissingSpec};
 use crate::Error;
 use std::path::{Path, PathBuf};
 
-/// Arguments of `dimorph simulate`.
+/// Arguments of `tessera simulate`.
 #[derive(Debug, clap::Args)]
 pub struct Args {
     /// Model to draw from (default: the embedded default model).
@@ -34,7 +34,7 @@ pub struct Args {
     #[arg(long, default_value_t = 1)]
     pub seed: u64,
     /// Write the sex as `known_sex` (documented sex) instead of `true_sex`: a simulated
-    /// reference collection for `dimorph fit` and `dimorph validate`.
+    /// reference collection for `tessera fit` and `tessera validate`.
     #[arg(long)]
     pub as_reference: bool,
     /// Where to write the table (CSV).

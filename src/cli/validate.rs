@@ -1,4 +1,4 @@
-//! `dimorph validate REFERENCE (--traits SPEC | --model MODEL)`: how often a model, refitted
+//! `tessera validate REFERENCE (--traits SPEC | --model MODEL)`: how often a model, refitted
 //! without each individual's fold, gets documented sex right; a report a lab can file.
 
 use super::fit::{documented, load_spec, render_fit_problems};
@@ -14,7 +14,7 @@ use crate::validate::{
 use crate::Error;
 use std::path::{Path, PathBuf};
 
-/// Arguments of `dimorph validate`.
+/// Arguments of `tessera validate`.
 #[derive(Debug, clap::Args)]
 pub struct Args {
     /// The reference table: the input columns plus `known_sex` (documented sex).

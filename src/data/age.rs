@@ -3,8 +3,8 @@
 use super::cell::parse_decimal;
 use serde::Serialize;
 
-/// The usual age (years) from which adult sexing methods are applied. Dimorphic pelvic and
-/// cranial features develop during adolescence; the 18-year cut-off is a convention
+/// The usual age (years) from which adult sexing methods are applied. Pelvic and cranial
+/// features that differ by sex develop during adolescence; the 18-year cut-off is a convention
 /// (Rogers 2009, Am J Phys Anthropol 140:143–148).
 pub const ADULT_AGE_YEARS: f64 = 18.0;
 

@@ -1,5 +1,5 @@
 //! How complete an assemblage is: individuals, groups, maturity, and how often each trait
-//! and each body region survives. This is what `dimorph check` reports.
+//! and each body region survives. This is what `tessera check` reports.
 
 use super::age::{Maturity, ADULT_AGE_YEARS};
 use super::problem::Warning;
@@ -51,7 +51,7 @@ pub struct GroupCount {
     pub individuals: usize,
 }
 
-/// The summary `dimorph check` prints.
+/// The summary `tessera check` prints.
 #[derive(Debug, Clone, PartialEq, Serialize)]
 pub struct Completeness {
     /// The file.

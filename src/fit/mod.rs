@@ -1,4 +1,4 @@
-//! Fitting latent-trait blocks to a documented reference collection (`dimorph fit`).
+//! Fitting latent-trait blocks to a documented reference collection (`tessera fit`).
 //!
 //! # Method
 //! Two-step maximum likelihood, each parameter from every individual who has the traits it
@@ -265,7 +265,7 @@ pub fn fit(
     // order as the catalogue the reference was read with.
     let traits = spec.traits.clone();
     let provenance = format!(
-        "FITTED by dimorph {} to the reference file {} (SHA-256 {}), {} females and {} males \
+        "FITTED by tessera {} to the reference file {} (SHA-256 {}), {} females and {} males \
          of documented sex aged {minimum_age} years or more (or of unknown age).\n\
          Command: {}\n\
          Method: two-step maximum likelihood with pairwise-available cases: cumulative probit \

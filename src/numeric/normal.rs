@@ -28,7 +28,7 @@ pub fn cdf(x: f64) -> f64 {
 /// whose truncation error at x = −30 is below 1e-15 relative.
 ///
 /// ```
-/// use dimorph::numeric::normal::ln_cdf;
+/// use tessera::numeric::normal::ln_cdf;
 /// // ln Φ(0) = ln ½
 /// assert!((ln_cdf(0.0) - 0.5f64.ln()).abs() < 1e-15);
 /// // far in the tail: ln Φ(−40) = −804.6084420137539 (scipy 1.16.3 `log_ndtr`)

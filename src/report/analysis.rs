@@ -1,4 +1,4 @@
-//! The files of `dimorph analyse` and its terminal summary.
+//! The files of `tessera analyse` and its terminal summary.
 //!
 //! `individuals.csv`: `id, group, status, n_traits, log10_lr, lr_support, p_female, p_male,
 //! category, p_female_min, p_female_max, prior_sensitive`, then `log10_lr_<block>` for every

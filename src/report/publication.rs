@@ -328,13 +328,16 @@ pub fn references_used(
     refs
 }
 
-/// Whether the model was written by `dimorph fit` (its provenance says so in its first words).
+/// Whether the model was written by `tessera fit` (its provenance says so in its first words).
+/// The program's name and version in that line are informational: a model fitted by an
+/// earlier build, under whatever name, is recognised the same way.
 fn is_fitted(model: &Model) -> bool {
-    model.provenance.starts_with("FITTED by dimorph")
+    let first = model.provenance.lines().next().unwrap_or_default();
+    first.starts_with("FITTED by ") && first.contains(" to the reference file ")
 }
 
 /// "file `x.csv`, SHA-256 `…`; 116 females and 124 males", read back from the provenance that
-/// `dimorph fit` writes; a pointer to the provenance where it cannot be read.
+/// `tessera fit` writes; a pointer to the provenance where it cannot be read.
 fn fitted_reference(provenance: &str) -> String {
     let first = provenance.lines().next().unwrap_or_default();
     let parsed = (|| {
@@ -400,13 +403,13 @@ pub fn methods_md(
     let _ = writeln!(s, "# Methods: sex estimation\n");
     let _ = write!(
         s,
-        "Biological sex was estimated for the {} individuals of the assemblage ({} with usable evidence) with dimorph {} (model `{}`), which combines all surviving evidence of each individual in one Bayesian computation. The evidence was treated as {} blocks, assumed independent given sex: {}. ",
+        "Biological sex was estimated for the {} individuals of the assemblage ({} with usable evidence) with tessera {} (model `{}`), which combines all surviving evidence of each individual in one Bayesian computation. The evidence was treated as {} blocks, assumed independent given sex: {}. ",
         main.n_individuals, main.n_estimable, run.version, model.name, used_blocks.len(), used_blocks.join("; ")
     );
     if has_latent {
         let _ = write!(s, "Ordinal trait scores and measurements were modelled jointly by a multivariate cumulative probit with correlated latent traits (Konigsberg & Hens, 1998), extended to measurements; unobserved traits were integrated out, and probabilities of ordinal score combinations were computed exactly in one and two dimensions (Genz, 2004) and by Genz's separation-of-variables method with randomised quasi-Monte Carlo in three or more (Genz, 1992). ");
         if is_fitted(model) {
-            let _ = write!(s, "The model's parameters were estimated with dimorph from a documented reference collection ({}) by two-step maximum likelihood: cumulative probit margins for the ordinal traits (McCullagh, 1980), per-sex means and standard deviations of the measurements, and polychoric, polyserial or Pearson within-sex correlations given the margins (Olsson, 1979; Olsson, Drasgow & Dorans, 1982). ", fitted_reference(&model.provenance));
+            let _ = write!(s, "The model's parameters were estimated with tessera from a documented reference collection ({}) by two-step maximum likelihood: cumulative probit margins for the ordinal traits (McCullagh, 1980), per-sex means and standard deviations of the measurements, and polychoric, polyserial or Pearson within-sex correlations given the margins (Olsson, 1979; Olsson, Drasgow & Dorans, 1982). ", fitted_reference(&model.provenance));
         }
     }
     let _ = write!(
@@ -505,7 +508,7 @@ pub fn report_md_and_tex(
     );
     let th = analysis.thresholds;
     let _ = writeln!(m, "- Thresholds on P(female): male ≤ {}, probable male ≤ {}, probable female ≥ {}, female ≥ {}", th.male, th.probable_male, th.probable_female, th.female);
-    let _ = writeln!(m, "- Program: dimorph {}, seed {}", run.version, run.seed);
+    let _ = writeln!(m, "- Program: tessera {}, seed {}", run.version, run.seed);
     let _ = writeln!(m, "- Reproduce with: `{}`\n", run.command.join(" "));
     let _ = writeln!(
         m,
@@ -522,7 +525,7 @@ pub fn report_md_and_tex(
     let _ = writeln!(m, "|---|---|---|---|---|---|---|");
     let _ = writeln!(
         t,
-        "% Tables written by dimorph {}; requires \\usepackage{{booktabs}}.\n",
+        "% Tables written by tessera {}; requires \\usepackage{{booktabs}}.\n",
         run.version
     );
     let _ = writeln!(t, "\\begin{{table}}\n\\centering\n\\caption{{Posterior of the proportion female under each prior.}}\n\\begin{{tabular}}{{lrrrr}}\n\\toprule\nPrior & Mean & 2.5\\% & 97.5\\% & Expected females \\\\\n\\midrule");

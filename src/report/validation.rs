@@ -186,7 +186,7 @@ fn report_md(v: &Validation, reference: &str, sha: &str, subject: &str, command:
     let _ = writeln!(m, "- Design: {}", v.design);
     let _ = writeln!(m, "- Seed: {}", v.settings.seed);
     let _ = writeln!(m, "- Command: `{command}`");
-    let _ = writeln!(m, "- dimorph {}\n", crate::VERSION);
+    let _ = writeln!(m, "- tessera {}\n", crate::VERSION);
     let _ = writeln!(m, "## Headline\n");
     for line in headline(v).lines() {
         let _ = writeln!(m, "{line}  ");

@@ -174,7 +174,7 @@ impl Simulated {
     }
 
     /// As [`Simulated::to_csv`], with the sex in a column of the given name: `known_sex` makes
-    /// a simulated reference collection of documented sex (for `dimorph fit` and `validate`).
+    /// a simulated reference collection of documented sex (for `tessera fit` and `validate`).
     pub fn to_csv_with_sex_column(&self, model: &Model, sex_column: &str) -> Vec<u8> {
         let cat = &model.catalogue;
         let grouped = self.individuals.iter().any(|i| i.group.is_some());

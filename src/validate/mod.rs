@@ -1,4 +1,4 @@
-//! Cross-validation of a model on a documented reference collection (`dimorph validate`).
+//! Cross-validation of a model on a documented reference collection (`tessera validate`).
 //!
 //! Each individual of documented sex is classified by a model that did not see it: with a
 //! fitting specification the model is refitted without the individual's fold (k-fold,

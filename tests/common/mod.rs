@@ -11,12 +11,12 @@ pub fn fixture(rel: &str) -> PathBuf {
         .join(rel)
 }
 
-/// Run the dimorph binary with arguments.
-pub fn dimorph(args: &[&str]) -> Output {
-    Command::new(env!("CARGO_BIN_EXE_dimorph"))
+/// Run the tessera binary with arguments.
+pub fn tessera(args: &[&str]) -> Output {
+    Command::new(env!("CARGO_BIN_EXE_tessera"))
         .args(args)
         .output()
-        .expect("the dimorph binary runs")
+        .expect("the tessera binary runs")
 }
 
 /// Standard output as text.

