@@ -3,7 +3,7 @@
 use super::input::InputArgs;
 use crate::agreement::compare;
 use crate::data::read_assemblage;
-use crate::output::write_all_atomic;
+use crate::output::write_folder;
 use crate::report::csv_bytes;
 use crate::report::header;
 use crate::Error;
@@ -53,6 +53,12 @@ pub fn run(args: Args) -> Result<i32, Error> {
         return Ok(3);
     }
     let r = compare(&tables[0], &tables[1], args.seed);
+    if r.n_common == 0 {
+        return Err(Error::Settings {
+            file: format!("{} and {}", args.first.display(), args.second.display()),
+            message: "the two tables share no id, so no individual was scored twice: agreement needs the same individuals, with the same ids, in both".into(),
+        });
+    }
     let mut s = String::new();
     let _ = writeln!(s, "Individuals in both tables: {}", r.n_common);
     let list = |v: &[String]| {
@@ -139,10 +145,6 @@ pub fn run(args: Args) -> Result<i32, Error> {
     );
     print!("{s}");
     if let Some(out) = &args.out {
-        std::fs::create_dir_all(out).map_err(|source| Error::Io {
-            path: out.clone(),
-            source,
-        })?;
         let mut rows = vec![header(&[
             "trait",
             "kind",
@@ -193,11 +195,13 @@ pub fn run(args: Args) -> Result<i32, Error> {
                 .map(|x| vec![x.id.clone(), x.trait_id.clone(), x.a.clone(), x.b.clone()]),
         );
         let listed = csv_bytes(d);
-        write_all_atomic(
+        write_folder(
+            out,
             &[
-                (out.join("agreement.csv"), table.as_slice()),
-                (out.join("disagreements.csv"), listed.as_slice()),
+                ("agreement.csv".to_string(), table.as_slice()),
+                ("disagreements.csv".to_string(), listed.as_slice()),
             ],
+            "agreement",
             &protected,
         )?;
     }

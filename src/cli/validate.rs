@@ -6,7 +6,7 @@ use super::input::InputArgs;
 use crate::assemblage::category::Thresholds;
 use crate::fit::ReferenceInfo;
 use crate::model::Model;
-use crate::output::write_all_atomic;
+use crate::output::write_folder;
 use crate::report::validation::{headline, validation_files};
 use crate::validate::{
     validate_with_progress, Folds, Subject, ValidationError, ValidationSettings,
@@ -139,10 +139,6 @@ pub fn run(args: Args) -> Result<i32, Error> {
     }
     println!("Estimates, not identifications; these error rates hold for populations like this reference.");
     if let Some(out) = &args.out {
-        std::fs::create_dir_all(out).map_err(|source| Error::Io {
-            path: out.clone(),
-            source,
-        })?;
         let files = validation_files(&v, &a.file, &a.sha256, &name, &command)
             .map_err(|e| super::settings_error("figure", e.to_string()))?;
         let mut protected: Vec<&Path> = vec![args.reference.as_path()];
@@ -152,11 +148,11 @@ pub fn run(args: Args) -> Result<i32, Error> {
         if let Some(m) = &args.model {
             protected.push(m.as_path());
         }
-        let all: Vec<(PathBuf, &[u8])> = files
+        let all: Vec<(String, &[u8])> = files
             .iter()
-            .map(|(file, bytes)| (out.join(file), bytes.as_slice()))
+            .map(|(file, bytes)| (file.clone(), bytes.as_slice()))
             .collect();
-        write_all_atomic(&all, &protected)?;
+        write_folder(out, &all, "validate", &protected)?;
         println!(
             "Wrote the report to {}/ (report.md and {} more files).",
             out.display(),
