@@ -30,6 +30,12 @@ pub enum Error {
         /// What is wrong and what was expected.
         message: String,
     },
+    /// A computation gave a value that is not a number (never classified, never written).
+    #[error("numerical failure: {message}")]
+    Numerical {
+        /// What failed, where.
+        message: String,
+    },
     /// A file could not be read or written.
     #[error("{}: {source}", path.display())]
     Io {
@@ -42,12 +48,13 @@ pub enum Error {
 
 impl Error {
     /// The process exit code for this error (documented in README):
-    /// 3 input problems, 4 settings problems, 5 file access.
+    /// 3 input problems, 4 settings problems, 5 file access, 6 a numerical failure.
     pub fn exit_code(&self) -> i32 {
         match self {
             Error::Input(_) | Error::Fit(_) => 3,
             Error::Catalogue(_) | Error::Model(_) | Error::Settings { .. } => 4,
             Error::Io { .. } => 5,
+            Error::Numerical { .. } => 6,
         }
     }
 }

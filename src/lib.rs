@@ -39,6 +39,7 @@ pub mod data;
 pub mod error;
 pub mod fit;
 pub mod likelihood;
+pub mod limits;
 pub mod model;
 pub mod numeric;
 pub mod output;

@@ -240,6 +240,28 @@ pub struct Analysis {
 }
 
 impl Analysis {
+    /// Every P(female) and every π summary is finite: the check made before any result is
+    /// classified or written (validated inputs make this hold; a failure is a defect to report).
+    ///
+    /// # Errors
+    /// Which individual and which prior gave a value that is not a number.
+    pub fn check_finite(&self, ids: &[String]) -> Result<(), String> {
+        for r in self.results() {
+            for (i, p) in r.p_female.iter().enumerate() {
+                if let Some(p) = p {
+                    if !p.is_finite() {
+                        return Err(format!(
+                            "P(female) of `{}` under the prior `{}` is not a number ({p}); no result was written — please report this with the input and options",
+                            ids.get(i).map(String::as_str).unwrap_or("?"),
+                            r.prior.name
+                        ));
+                    }
+                }
+            }
+        }
+        Ok(())
+    }
+
     /// The results under the chosen prior, then under each prior of the sensitivity set that
     /// is not the chosen one (the order of every table and figure of priors).
     pub fn results(&self) -> impl Iterator<Item = &PriorResult> {

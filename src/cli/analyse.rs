@@ -7,7 +7,7 @@ use crate::assemblage::recalibration::{recalibrate, RecalibrationSettings};
 use crate::assemblage::{analyse, Thresholds};
 use crate::likelihood::evaluate_with_progress;
 use crate::model::Context;
-use crate::output::write_all_atomic;
+use crate::output::write_folder;
 use crate::prior::{parse_prior_set, PriorError};
 use crate::report::analysis::recalibration_files;
 use crate::report::analysis::{render_files, terminal_summary};
@@ -68,6 +68,9 @@ pub struct Args {
     pub input: InputArgs,
 }
 
+/// The group of rows that have none, when other rows have one.
+pub const NO_GROUP: &str = "(none)";
+
 fn prior_error(e: PriorError) -> Error {
     Error::Settings {
         file: e.file,
@@ -94,6 +97,16 @@ pub fn run(args: Args) -> Result<i32, Error> {
         file: "--thresholds".into(),
         message,
     })?;
+    // Options are checked before any work: a typo must not cost the whole run.
+    if args.recalibrate && (!(args.shift > 0.0 && args.shift <= 10.0) || args.iterations < 100) {
+        return Err(Error::Settings {
+            file: "--shift/--iterations".into(),
+            message: format!(
+                "the shift is a prior SD of the recalibrated means in reference SDs, above 0 and at most 10 (found {}), and at least 100 iterations are needed (found {})",
+                args.shift, args.iterations
+            ),
+        });
+    }
     let settings = args.input.settings(&model.catalogue)?;
     let Some(a) = super::input::read_or_report(&args.file, &model.catalogue, &settings) else {
         return Ok(3);
@@ -114,13 +127,26 @@ pub fn run(args: Args) -> Result<i32, Error> {
     let bar = super::progress_bar(a.individuals.len(), "weighing the evidence");
     let evidence = evaluate_with_progress(&model, &a, &Context::new(args.seed), Some(&bar));
     bar.finish_and_clear();
+    if a.individuals
+        .iter()
+        .any(|i| i.group.as_deref() == Some(NO_GROUP))
+    {
+        return Err(Error::Settings {
+            file: args.file.display().to_string(),
+            message: format!("a group is named `{NO_GROUP}`, the label given to rows without a group: rename that group so the two stay apart"),
+        });
+    }
     let groups: Option<Vec<String>> = a.individuals.iter().any(|i| i.group.is_some()).then(|| {
         a.individuals
             .iter()
-            .map(|i| i.group.clone().unwrap_or_else(|| "(none)".into()))
+            .map(|i| i.group.clone().unwrap_or_else(|| NO_GROUP.into()))
             .collect()
     });
     let analysis = analyse(&evidence, groups.as_deref(), prior, &set, &thresholds);
+    let ids: Vec<String> = a.individuals.iter().map(|i| i.id.clone()).collect();
+    analysis
+        .check_finite(&ids)
+        .map_err(|message| Error::Numerical { message })?;
     let draws = Draws::sample(
         &analysis.fitted.posterior,
         analysis.fitted.hierarchy.as_ref(),
@@ -207,14 +233,6 @@ pub fn run(args: Args) -> Result<i32, Error> {
         methods_md(&model, &a, &evidence, &analysis, &draws, &by_sex, &run).into_bytes(),
     ));
     if args.recalibrate {
-        if !(args.shift > 0.0 && args.shift.is_finite()) || args.iterations < 100 {
-            return Err(Error::Settings {
-                file: "--shift/--iterations".into(),
-                message:
-                    "the shift is a positive number of SDs and at least 100 iterations are needed"
-                        .into(),
-            });
-        }
         let st = RecalibrationSettings {
             shift: args.shift,
             iterations: args.iterations,
@@ -266,21 +284,17 @@ pub fn run(args: Args) -> Result<i32, Error> {
     );
     files.files.push(("report.md".into(), report.into_bytes()));
     files.files.push(("tables.tex".into(), tables.into_bytes()));
-    std::fs::create_dir_all(args.out.join("figures")).map_err(|source| Error::Io {
-        path: args.out.clone(),
-        source,
-    })?;
     let mut protected: Vec<&Path> = vec![args.file.as_path()];
     if let Some(m) = &args.model {
         protected.push(m.as_path());
     }
-    // All files or none: a full disk half-way leaves the folder as it was.
-    let all: Vec<(std::path::PathBuf, &[u8])> = files
+    // One transaction: the folder ends holding exactly this run's files, or as it was.
+    let all: Vec<(String, &[u8])> = files
         .files
         .iter()
-        .map(|(name, bytes)| (args.out.join(name), bytes.as_slice()))
+        .map(|(name, bytes)| (name.clone(), bytes.as_slice()))
         .collect();
-    write_all_atomic(&all, &protected)?;
+    write_folder(&args.out, &all, "analyse", &protected)?;
     print!("{}", terminal_summary(&model, &a, &analysis, &draws));
     for f in crate::likelihood::flagged(&model, &a, &evidence) {
         println!("Flagged for a person to look at: {f}");

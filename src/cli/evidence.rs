@@ -64,6 +64,10 @@ pub fn run(args: Args) -> Result<i32, Error> {
     let Some(a) = super::input::read_or_report(&args.file, &model.catalogue, &settings) else {
         return Ok(3);
     };
+    // The same input warnings as `analyse` prints, before the work.
+    for w in &a.warnings {
+        eprintln!("warning: {w}");
+    }
     let ctx = Context::new(args.seed);
     let bar = super::progress_bar(a.individuals.len(), "weighing the evidence");
     let evidence = evaluate_with_progress(&model, &a, &ctx, Some(&bar));

@@ -32,14 +32,11 @@ pub struct Args {
 /// # Errors
 /// [`Error::Io`] when unreadable, [`Error::Settings`] listing every problem of the document.
 pub fn load_spec(path: &Path) -> Result<(FitSpec, Catalogue), Error> {
-    let text = std::fs::read_to_string(path).map_err(|source| Error::Io {
-        path: path.to_path_buf(),
-        source,
-    })?;
     let settings = |message: String| Error::Settings {
         file: path.display().to_string(),
         message,
     };
+    let text = crate::limits::read_settings_text(path).map_err(|e| e.into_error(path))?;
     let spec = FitSpec::from_yaml(&text).map_err(settings)?;
     let mut catalogue = Catalogue::standard()?;
     catalogue

@@ -52,6 +52,16 @@ impl InputArgs {
     /// [`Error::Settings`] for a bad tolerance or scale map, [`Error::Io`] when the map
     /// cannot be read.
     pub fn settings(&self, catalogue: &Catalogue) -> Result<ReadSettings, Error> {
+        for word in &self.missing {
+            if let Some(hits) = values_meaning(word, catalogue) {
+                return Err(Error::Settings {
+                    file: "--missing".into(),
+                    message: format!(
+                        "`{word}` is a value that {hits} can take: as a not-recorded word it would silently drop every such score or measurement; choose a word or code that no trait uses (e.g. `nr`, `x`, or a number outside every scale such as 9 for 1–5 grades)"
+                    ),
+                });
+            }
+        }
         if self.side_grade_tolerance < 0
             || !(self.side_measure_tolerance.is_finite() && self.side_measure_tolerance >= 0.0)
         {
@@ -63,10 +73,7 @@ impl InputArgs {
         let scale_maps = match &self.scale_map {
             None => Default::default(),
             Some(p) => {
-                let text = std::fs::read_to_string(p).map_err(|source| Error::Io {
-                    path: p.clone(),
-                    source,
-                })?;
+                let text = crate::limits::read_settings_text(p).map_err(|e| e.into_error(p))?;
                 parse_scale_maps(&text, catalogue).map_err(|message| Error::Settings {
                     file: p.display().to_string(),
                     message,
@@ -104,5 +111,36 @@ pub(crate) fn read_or_report(
             eprint!("{}", super::check::render_problems(&e));
             None
         }
+    }
+}
+
+/// The traits (at most three named) of which `word`, read as a number, is a valid value: a
+/// grade of an ordinal trait or a measurement within a metric trait's plausible range.
+fn values_meaning(word: &str, catalogue: &Catalogue) -> Option<String> {
+    use crate::catalogue::TraitKind;
+    let x: f64 = word.trim().replace(',', ".").parse().ok()?;
+    if !x.is_finite() {
+        return None;
+    }
+    let hits: Vec<String> = catalogue
+        .traits()
+        .iter()
+        .filter(|d| match &d.kind {
+            TraitKind::Ordinal { lowest, highest } => {
+                x.fract() == 0.0 && x >= f64::from(*lowest) && x <= f64::from(*highest)
+            }
+            TraitKind::Metric { low, high, .. } => x >= *low && x <= *high,
+            TraitKind::Count => false,
+        })
+        .map(|d| format!("`{}`", d.id))
+        .collect();
+    match hits.len() {
+        0 => None,
+        1..=3 => Some(hits.join(", ")),
+        n => Some(format!(
+            "{} and {} more traits",
+            hits[..3].join(", "),
+            n - 3
+        )),
     }
 }

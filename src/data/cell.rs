@@ -214,10 +214,16 @@ pub(crate) fn parse_count(cell: &str) -> Result<Observation, CellError> {
     if digits.is_empty() || !digits.bytes().all(|b| b.is_ascii_digit()) {
         return Err(expected());
     }
-    digits
-        .parse::<u64>()
-        .map(|value| Observation::Count { value })
-        .map_err(|_| expected())
+    let max = crate::limits::MAX_READS;
+    match digits.parse::<u64>() {
+        Ok(value) if value <= max => Ok(Observation::Count { value }),
+        // Longer than any u64, or more reads than any sequencing run gives one library.
+        _ if digits.len() > 12 || digits.parse::<u64>().is_ok() => Err((
+            ProblemKind::LimitExceeded,
+            format!("a read count of at most {max} (10^12): no sequencing run produces more reads for one individual; is this a coverage or a byte count?"),
+        )),
+        _ => Err(expected()),
+    }
 }
 
 #[cfg(test)]

@@ -85,14 +85,38 @@ pub fn assign_roles(
             }
         }
         seen.entry(name.clone()).or_insert(i);
-        let role = match name.as_str() {
-            n if Some(n) == group_column.as_deref() => ColumnRole::Group,
+        let natural = match name.as_str() {
             "id" => ColumnRole::Id,
             "group" if group_column.is_none() => ColumnRole::Group,
             "group" => ColumnRole::Carried,
             "age" => ColumnRole::Age,
             "known_sex" => ColumnRole::KnownSex,
             _ => trait_role(&name, catalogue).unwrap_or(ColumnRole::Carried),
+        };
+        let role = if Some(name.as_str()) == group_column.as_deref() && !name.is_empty() {
+            if matches!(natural, ColumnRole::Carried | ColumnRole::Group) {
+                ColumnRole::Group
+            } else {
+                // Grouping by evidence would be circular (the trait would leave the evidence
+                // and become the grouping); by age, id or known sex, meaningless.
+                let what = match natural {
+                    ColumnRole::Id => "the id column",
+                    ColumnRole::Age => "the age column (age at death is read from it)",
+                    ColumnRole::KnownSex => "the known-sex column",
+                    _ => "a trait column (evidence of sex cannot also be the grouping)",
+                };
+                problems.push(problem(
+                    raw,
+                    ProblemKind::MissingGroupColumn,
+                    format!(
+                        "a column of burial zones, phases or sites to group by; `{}` is {what}",
+                        raw.trim()
+                    ),
+                ));
+                natural
+            }
+        } else {
+            natural
         };
         if role == ColumnRole::Carried && !name.is_empty() {
             if let Some(suggestion) = near_miss(&name, catalogue) {
@@ -126,7 +150,10 @@ pub fn assign_roles(
         });
     }
     if let Some(g) = &group_column {
-        if !roles.contains(&ColumnRole::Group) {
+        let refused = problems
+            .iter()
+            .any(|p| p.kind == ProblemKind::MissingGroupColumn);
+        if !roles.contains(&ColumnRole::Group) && !refused {
             problems.push(Problem {
                 file: file.to_string(),
                 row: Some(1),

@@ -43,6 +43,9 @@ pub enum ProblemKind {
     UnpairedReads,
     /// A requested sheet does not exist, or the workbook cannot be read (`bad_workbook`).
     BadWorkbook,
+    /// The input asks more of the machine than a limit allows: a column name too long, a sheet
+    /// or workbook too large, read counts no sequencer produces (`limit_exceeded`).
+    LimitExceeded,
 }
 
 impl ProblemKind {
@@ -66,6 +69,7 @@ impl ProblemKind {
             ProblemKind::BadKnownSex => "bad_known_sex",
             ProblemKind::UnpairedReads => "unpaired_reads",
             ProblemKind::BadWorkbook => "bad_workbook",
+            ProblemKind::LimitExceeded => "limit_exceeded",
         }
     }
 }

@@ -13,9 +13,9 @@ use sha2::{Digest, Sha256};
 use std::collections::HashMap;
 use std::path::Path;
 
-/// Largest input file read (512 MB): the whole table is held in memory while it is checked,
+/// Largest input file read (512 MiB): the whole table is held in memory while it is checked,
 /// at several times its size on disk. A choice of ours, far above any cemetery.
-pub const MAX_INPUT_BYTES: u64 = 512 << 20;
+pub const MAX_INPUT_BYTES: u64 = crate::limits::MAX_TABLE_BYTES;
 
 /// Which side an observation of a bilateral trait came from.
 #[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize)]
@@ -113,33 +113,32 @@ pub fn read_assemblage(
         problems,
         warnings: Vec::new(),
     };
-    if let Ok(meta) = std::fs::metadata(path) {
-        if meta.len() > MAX_INPUT_BYTES {
-            return Err(fail(vec![Problem {
+    // Bounded whatever the metadata says: a pipe or a device has no length.
+    let bytes = crate::limits::read_bounded(path, MAX_INPUT_BYTES).map_err(|e| {
+        fail(vec![match e {
+            crate::limits::BoundedReadError::TooLarge { .. } => Problem {
                 file: name.clone(),
                 row: None,
                 column: None,
-                value: Some(format!("{} MB", meta.len() >> 20)),
+                value: Some(format!("more than {} MiB", MAX_INPUT_BYTES >> 20)),
                 kind: ProblemKind::Unreadable,
                 expected: format!(
-                    "a table of at most {} MB (about three million individuals); split larger files by site, phase or zone and analyse them as groups of one study",
+                    "a table of at most {} MiB (about three million individuals); split larger files by site, phase or zone and analyse them as groups of one study",
                     MAX_INPUT_BYTES >> 20
                 ),
-            }]));
-        }
-    }
-    let bytes = std::fs::read(path).map_err(|e| {
-        fail(vec![Problem {
-            file: name.clone(),
-            row: None,
-            column: None,
-            value: None,
-            kind: ProblemKind::Unreadable,
-            expected: format!("a readable file ({e})"),
+            },
+            crate::limits::BoundedReadError::Io(e) => Problem {
+                file: name.clone(),
+                row: None,
+                column: None,
+                value: None,
+                kind: ProblemKind::Unreadable,
+                expected: format!("a readable file ({e})"),
+            },
         }])
     })?;
     let table = if is_workbook(path) {
-        read_workbook(path, settings.sheet.as_deref()).map_err(fail)?
+        read_workbook(path, &bytes, settings.sheet.as_deref()).map_err(fail)?
     } else {
         read_text(&name, &bytes).map_err(fail)?
     };
@@ -185,6 +184,35 @@ fn build(
     catalogue: &Catalogue,
     settings: &ReadSettings,
 ) -> Result<Assemblage, InputError> {
+    // Over-long column names are refused before any name matching (which costs their length).
+    let long: Vec<Problem> = table
+        .header
+        .iter()
+        .enumerate()
+        .filter(|(_, h)| h.chars().count() > crate::limits::MAX_COLUMN_NAME_CHARS)
+        .map(|(c, h)| Problem {
+            file: name.to_string(),
+            row: Some(1),
+            column: Some(format!("column {}", c + 1)),
+            value: Some(format!(
+                "{}… ({} characters)",
+                h.chars().take(40).collect::<String>(),
+                h.chars().count()
+            )),
+            kind: ProblemKind::LimitExceeded,
+            expected: format!(
+                "a column name of at most {} characters",
+                crate::limits::MAX_COLUMN_NAME_CHARS
+            ),
+        })
+        .collect();
+    if !long.is_empty() {
+        return Err(InputError {
+            file: name.to_string(),
+            problems: long,
+            warnings: Vec::new(),
+        });
+    }
     let (roles, mut problems, mut warnings) = assign_roles(
         name,
         &table.header,
@@ -469,9 +497,11 @@ fn join(l: Observation, r: Observation) -> Observation {
                 high: b.max(d),
             }
         }
-        (Observation::Count { value: a }, Observation::Count { value: b }) => {
-            Observation::Count { value: a + b }
-        }
+        // Each count is at most MAX_READS (10^12), so the sum cannot wrap; saturating all
+        // the same, so that no input can make it.
+        (Observation::Count { value: a }, Observation::Count { value: b }) => Observation::Count {
+            value: a.saturating_add(b),
+        },
         (l, _) => l,
     }
 }

@@ -112,6 +112,7 @@ pub fn parse_scale_maps(
     catalogue: &crate::catalogue::Catalogue,
 ) -> Result<BTreeMap<String, ScaleMap>, String> {
     use crate::catalogue::TraitKind;
+    crate::limits::check_yaml(text)?;
     let value: serde_yaml::Value = serde_yaml::from_str(text).map_err(|e| e.to_string())?;
     let top = value
         .as_mapping()
@@ -150,6 +151,18 @@ pub fn parse_scale_maps(
                 if grade < lo || grade > hi {
                     return Err(format!(
                         "`{id}`: `{recorded}` maps to grade {grade}, outside the trait's scale {lo}-{hi}"
+                    ));
+                }
+            }
+            // `1` and `1.0` (or `+1`) are one recorded value written two ways: they must not
+            // map to different grades.
+            if let Ok(x) = recorded.trim().parse::<f64>() {
+                if let Some((other, g)) = map
+                    .iter()
+                    .find(|(k, g)| **g != grade && k.trim().parse::<f64>() == Ok(x))
+                {
+                    return Err(format!(
+                        "`{id}`: `{other}` and `{recorded}` are the same recorded value but map to grades {g} and {grade}"
                     ));
                 }
             }

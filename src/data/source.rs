@@ -3,6 +3,7 @@
 
 use super::problem::{Problem, ProblemKind};
 use serde::Serialize;
+use std::io::Read;
 use std::path::Path;
 
 /// How the table was stored.
@@ -218,117 +219,379 @@ pub fn is_workbook(path: &Path) -> bool {
     )
 }
 
-/// Read the first sheet (or the named one) of a workbook.
+/// Read the first sheet (or the named one) of a workbook held in memory. `path` names the
+/// file (its extension says which format) in problems.
+///
+/// Bounded before anything is allocated from the file's own claims: the compressed parts may
+/// unpack to at most [`MAX_UNPACKED_BYTES`](crate::limits::MAX_UNPACKED_BYTES); .xlsx/.xlsm/.xlsb
+/// sheets are read cell by cell (a stray cell at the sheet's far corner costs one cell, not the
+/// grid up to it); an .ods sheet's extent (repeated rows × repeated columns) is computed from its
+/// XML before it is expanded. At most [`MAX_SHEET_CELLS`](crate::limits::MAX_SHEET_CELLS) cells
+/// are held.
 ///
 /// # Errors
-/// A problem when the workbook cannot be opened or the sheet does not exist.
-pub fn read_workbook(path: &Path, sheet: Option<&str>) -> Result<RawTable, Vec<Problem>> {
-    use calamine::{open_workbook_auto, Data, Reader};
+/// A problem when the workbook cannot be opened, the sheet does not exist, or a limit is passed.
+pub fn read_workbook(
+    path: &Path,
+    bytes: &[u8],
+    sheet: Option<&str>,
+) -> Result<RawTable, Vec<Problem>> {
+    use calamine::{Ods, Reader, Xls, Xlsb, Xlsx};
+    use std::io::Cursor;
     let name = path.display().to_string();
-    let fail = |expected: String| {
+    let fail = |kind: ProblemKind, expected: String| {
         vec![Problem {
             file: name.clone(),
             row: None,
             column: None,
             value: None,
-            kind: ProblemKind::BadWorkbook,
+            kind,
             expected,
         }]
     };
-    let mut wb =
-        open_workbook_auto(path).map_err(|e| fail(format!("a readable workbook ({e})")))?;
-    let names = wb.sheet_names();
-    let chosen = match sheet {
-        Some(s) => names
-            .iter()
-            .find(|n| n.as_str() == s || n.trim().eq_ignore_ascii_case(s.trim()))
-            .cloned()
-            .ok_or_else(|| {
-                fail(format!(
-                    "a sheet named `{s}`; the workbook has: {}",
-                    names.join(", ")
-                ))
-            })?,
-        None => names
-            .first()
-            .cloned()
-            .ok_or_else(|| fail("a workbook with at least one sheet".into()))?,
-    };
-    let range = wb
-        .worksheet_range(&chosen)
-        .map_err(|e| fail(format!("a readable sheet `{chosen}` ({e})")))?;
-    let first_row = range.start().map(|(r, _)| r as usize).unwrap_or(0);
-    let first_col = range.start().map(|(_, c)| c as usize).unwrap_or(0);
-    let cell_text = |d: &Data| -> String {
-        match d {
-            Data::Empty => String::new(),
-            Data::String(s) => s.clone(),
-            Data::Int(i) => i.to_string(),
-            Data::Float(f) => {
-                if f.fract() == 0.0 && f.abs() < 1e15 {
-                    format!("{}", *f as i64)
-                } else {
-                    format!("{f}")
-                }
-            }
-            Data::Bool(b) => b.to_string(),
-            Data::DateTime(dt) => dt.to_string(),
-            Data::DateTimeIso(s) | Data::DurationIso(s) => s.clone(),
-            Data::Error(e) => format!("#{e:?}"),
+    let bad = |expected: String| fail(ProblemKind::BadWorkbook, expected);
+    let ext = path
+        .extension()
+        .and_then(|e| e.to_str())
+        .map(|e| e.to_ascii_lowercase())
+        .unwrap_or_default();
+    if ext != "xls" {
+        check_unpacked_size(bytes, crate::limits::MAX_UNPACKED_BYTES)
+            .map_err(|e| fail(ProblemKind::LimitExceeded, e))?;
+    }
+    if ext == "ods" {
+        check_ods_extent(bytes, crate::limits::MAX_SHEET_CELLS)
+            .map_err(|e| fail(ProblemKind::LimitExceeded, e))?;
+    }
+    let choose = |names: Vec<String>| -> Result<String, Vec<Problem>> {
+        match sheet {
+            Some(s) => names
+                .iter()
+                .find(|n| n.as_str() == s || n.trim().eq_ignore_ascii_case(s.trim()))
+                .cloned()
+                .ok_or_else(|| {
+                    bad(format!(
+                        "a sheet named `{s}`; the workbook has: {}",
+                        names.join(", ")
+                    ))
+                }),
+            None => names
+                .first()
+                .cloned()
+                .ok_or_else(|| bad("a workbook with at least one sheet".into())),
         }
     };
-    let mut header: Option<Vec<String>> = None;
-    let mut rows = Vec::new();
-    for (i, r) in range.rows().enumerate() {
-        // Spreadsheet rows are 1-based; the used range may not start at the first row, and
-        // leading empty columns are kept blank so that column positions match.
-        let row = first_row + i + 1;
-        let mut cells: Vec<String> = vec![String::new(); first_col];
-        cells.extend(r.iter().map(cell_text));
-        if cells.iter().all(|c| c.trim().is_empty()) {
-            continue;
-        }
-        match &header {
-            None => {
-                while cells.last().is_some_and(|c| c.trim().is_empty()) {
-                    cells.pop();
-                }
-                header = Some(cells);
+    let open_failed = |e: String| bad(format!("a readable workbook ({e})"));
+    let sheet_failed = |chosen: &str, e: String| bad(format!("a readable sheet `{chosen}` ({e})"));
+    let mut grid = SparseSheet::default();
+    let chosen;
+    match ext.as_str() {
+        "xlsx" | "xlsm" => {
+            let mut wb = Xlsx::new(Cursor::new(bytes)).map_err(|e| open_failed(e.to_string()))?;
+            chosen = choose(wb.sheet_names())?;
+            let mut cells = wb
+                .worksheet_cells_reader(&chosen)
+                .map_err(|e| sheet_failed(&chosen, e.to_string()))?;
+            while let Some(c) = cells
+                .next_cell()
+                .map_err(|e| sheet_failed(&chosen, e.to_string()))?
+            {
+                let (r, col) = c.get_position();
+                grid.push(r, col, cell_text(&c.get_value().clone().into()))
+                    .map_err(|e| fail(ProblemKind::LimitExceeded, e))?;
             }
-            Some(h) => {
-                cells.resize(h.len().max(cells.len()), String::new());
-                // Cells beyond the header that hold something are reported as a field count
-                // problem by the caller's check below.
-                if cells.len() > h.len() && cells[h.len()..].iter().any(|c| !c.trim().is_empty()) {
-                    return Err(vec![Problem {
-                        file: name.clone(),
-                        row: Some(row),
-                        column: None,
-                        value: None,
-                        kind: ProblemKind::FieldCount,
-                        expected: format!(
-                            "no values right of the last named column ({} columns)",
-                            h.len()
-                        ),
-                    }]);
+        }
+        "xlsb" => {
+            let mut wb = Xlsb::new(Cursor::new(bytes)).map_err(|e| open_failed(e.to_string()))?;
+            chosen = choose(wb.sheet_names())?;
+            let mut cells = wb
+                .worksheet_cells_reader(&chosen)
+                .map_err(|e| sheet_failed(&chosen, e.to_string()))?;
+            while let Some(c) = cells
+                .next_cell()
+                .map_err(|e| sheet_failed(&chosen, e.to_string()))?
+            {
+                let (r, col) = c.get_position();
+                grid.push(r, col, cell_text(&c.get_value().clone().into()))
+                    .map_err(|e| fail(ProblemKind::LimitExceeded, e))?;
+            }
+        }
+        _ => {
+            // .ods (extent checked above) and .xls (a legacy format capped at 65 536 rows ×
+            // 256 columns by the format itself) are read as whole ranges.
+            let range = if ext == "ods" {
+                let mut wb =
+                    Ods::new(Cursor::new(bytes)).map_err(|e| open_failed(e.to_string()))?;
+                chosen = choose(wb.sheet_names())?;
+                wb.worksheet_range(&chosen)
+                    .map_err(|e| sheet_failed(&chosen, e.to_string()))?
+            } else {
+                let mut wb =
+                    Xls::new(Cursor::new(bytes)).map_err(|e| open_failed(e.to_string()))?;
+                chosen = choose(wb.sheet_names())?;
+                wb.worksheet_range(&chosen)
+                    .map_err(|e| sheet_failed(&chosen, e.to_string()))?
+            };
+            let (r0, c0) = range.start().unwrap_or((0, 0));
+            for (i, r) in range.rows().enumerate() {
+                for (j, d) in r.iter().enumerate() {
+                    let text = cell_text(d);
+                    if !text.is_empty() {
+                        grid.push(r0 + i as u32, c0 + j as u32, text)
+                            .map_err(|e| fail(ProblemKind::LimitExceeded, e))?;
+                    }
                 }
-                cells.truncate(h.len());
-                rows.push(RawRow { row, cells });
             }
         }
     }
-    let Some(header) = header else {
-        return Err(fail(format!(
-            "a header row on sheet `{chosen}`; the sheet is empty"
-        )));
+    grid.into_table(&name, &chosen)
+}
+
+/// Text of one workbook cell as a spreadsheet shows it (whole numbers without ".0").
+fn cell_text(d: &calamine::Data) -> String {
+    use calamine::Data;
+    match d {
+        Data::Empty => String::new(),
+        Data::String(s) => s.clone(),
+        Data::Int(i) => i.to_string(),
+        Data::Float(f) => {
+            if f.fract() == 0.0 && f.abs() < 1e15 {
+                format!("{}", *f as i64)
+            } else {
+                format!("{f}")
+            }
+        }
+        Data::Bool(b) => b.to_string(),
+        Data::DateTime(dt) => dt.to_string(),
+        Data::DateTimeIso(s) | Data::DurationIso(s) => s.clone(),
+        Data::Error(e) => format!("#{e:?}"),
+    }
+}
+
+/// The non-empty cells of a sheet, by row, held sparsely.
+#[derive(Default)]
+struct SparseSheet {
+    /// (0-based row, 0-based column, text), in the order read.
+    cells: Vec<(u32, u32, String)>,
+}
+
+impl SparseSheet {
+    fn push(&mut self, row: u32, col: u32, text: String) -> Result<(), String> {
+        if text.trim().is_empty() {
+            return Ok(());
+        }
+        if self.cells.len() as u64 >= crate::limits::MAX_SHEET_CELLS {
+            return Err(format!(
+                "a sheet of at most {} filled cells; this one has more: split it by site, phase or zone",
+                crate::limits::MAX_SHEET_CELLS
+            ));
+        }
+        self.cells.push((row, col, text));
+        Ok(())
+    }
+
+    /// Rows as spreadsheet rows (1-based), each as wide as the header; rows whose cells are all
+    /// blank are dropped, and a value right of the last named column is a problem.
+    fn into_table(mut self, name: &str, chosen: &str) -> Result<RawTable, Vec<Problem>> {
+        self.cells.sort_by_key(|&(r, c, _)| (r, c));
+        let mut rows_of_cells: Vec<(u32, Vec<(u32, String)>)> = Vec::new();
+        for (r, c, t) in self.cells {
+            match rows_of_cells.last_mut() {
+                Some((last, v)) if *last == r => v.push((c, t)),
+                _ => rows_of_cells.push((r, vec![(c, t)])),
+            }
+        }
+        let mut it = rows_of_cells.into_iter();
+        let Some((_, head)) = it.next() else {
+            return Err(vec![Problem {
+                file: name.to_string(),
+                row: None,
+                column: None,
+                value: None,
+                kind: ProblemKind::BadWorkbook,
+                expected: format!("a header row on sheet `{chosen}`; the sheet is empty"),
+            }]);
+        };
+        let width = head.last().map(|&(c, _)| c as usize + 1).unwrap_or(0);
+        let mut header = vec![String::new(); width];
+        for (c, t) in head {
+            header[c as usize] = t;
+        }
+        let n_rows = it.len() as u64;
+        if n_rows.saturating_mul(width as u64) > crate::limits::MAX_SHEET_CELLS {
+            return Err(vec![Problem {
+                file: name.to_string(),
+                row: None,
+                column: None,
+                value: Some(format!("{n_rows} rows × {width} columns")),
+                kind: ProblemKind::LimitExceeded,
+                expected: format!(
+                    "a sheet of at most {} cells (rows × named columns): split it by site, phase or zone",
+                    crate::limits::MAX_SHEET_CELLS
+                ),
+            }]);
+        }
+        let mut rows = Vec::with_capacity(n_rows as usize);
+        for (r, cells) in it {
+            let row = r as usize + 1;
+            if cells.iter().any(|&(c, _)| c as usize >= width) {
+                return Err(vec![Problem {
+                    file: name.to_string(),
+                    row: Some(row),
+                    column: None,
+                    value: None,
+                    kind: ProblemKind::FieldCount,
+                    expected: format!("no values right of the last named column ({width} columns)"),
+                }]);
+            }
+            let mut v = vec![String::new(); width];
+            for (c, t) in cells {
+                v[c as usize] = t;
+            }
+            rows.push(RawRow { row, cells: v });
+        }
+        Ok(RawTable {
+            header,
+            rows,
+            format: TableFormat::Workbook,
+            delimiter: None,
+            decimal_comma: false,
+        })
+    }
+}
+
+/// Refuse a zip-based workbook whose parts unpack to more than `limit` bytes (a "zip bomb"):
+/// every part is inflated into nothing, counting, and stopped at the limit. The sizes the
+/// archive declares are not trusted.
+fn check_unpacked_size(bytes: &[u8], limit: u64) -> Result<(), String> {
+    // Not a zip archive: left to the workbook reader, which says what it is not.
+    let Ok(mut zip) = zip::ZipArchive::new(std::io::Cursor::new(bytes)) else {
+        return Ok(());
     };
-    Ok(RawTable {
-        header,
-        rows,
-        format: TableFormat::Workbook,
-        delimiter: None,
-        decimal_comma: false,
-    })
+    let mut total: u64 = 0;
+    for i in 0..zip.len() {
+        let Ok(mut part) = zip.by_index(i) else {
+            return Ok(());
+        };
+        let left = limit - total;
+        let n = std::io::copy(&mut (&mut part).take(left + 1), &mut std::io::sink()).unwrap_or(0);
+        total += n;
+        if total > limit {
+            return Err(format!(
+                "a workbook whose parts unpack to at most {}; this one unpacks to more (part `{}`)",
+                crate::limits::human_bytes(limit),
+                part.name()
+            ));
+        }
+    }
+    Ok(())
+}
+
+/// Refuse an .ods whose sheets would expand beyond `limit` cells once repeated rows and
+/// columns are written out, reading only the XML of `content.xml` (counts saturate: a repeat
+/// of 10¹⁸ is still only counted).
+fn check_ods_extent(bytes: &[u8], limit: u64) -> Result<(), String> {
+    use quick_xml::events::Event;
+    let Ok(mut zip) = zip::ZipArchive::new(std::io::Cursor::new(bytes)) else {
+        return Ok(());
+    };
+    let Ok(content) = zip.by_name("content.xml") else {
+        return Ok(());
+    };
+    let mut reader = quick_xml::Reader::from_reader(std::io::BufReader::new(content));
+    let repeat = |e: &quick_xml::events::BytesStart, key: &[u8]| -> u64 {
+        e.attributes()
+            .flatten()
+            .find(|a| a.key.as_ref() == key)
+            .and_then(|a| {
+                std::str::from_utf8(&a.value)
+                    .ok()?
+                    .trim()
+                    .parse::<u64>()
+                    .ok()
+            })
+            .unwrap_or(1)
+            .max(1)
+    };
+    let mut buf = Vec::new();
+    // Per sheet: rows so far (with repeats), rows up to the last filled one, widest filled row.
+    let (mut rows, mut used_rows, mut width) = (0u64, 0u64, 0u64);
+    // Per row: its repeat, columns so far, columns up to the last filled cell.
+    let (mut row_repeat, mut cols, mut used_cols) = (1u64, 0u64, 0u64);
+    // Per cell: its repeat, whether it holds something.
+    let (mut cell_repeat, mut filled) = (1u64, false);
+    let mut in_cell = false;
+    loop {
+        let event = match reader.read_event_into(&mut buf) {
+            Ok(e) => e,
+            // Malformed XML is left to the workbook reader.
+            Err(_) => return Ok(()),
+        };
+        let start = |e: &quick_xml::events::BytesStart| e.name().as_ref().to_vec();
+        match event {
+            Event::Eof => break,
+            Event::Start(ref e) | Event::Empty(ref e) => {
+                let tag = start(e);
+                let empty = matches!(event, Event::Empty(_));
+                match tag.as_slice() {
+                    b"table:table" => (rows, used_rows, width) = (0, 0, 0),
+                    b"table:table-row" => {
+                        (row_repeat, cols, used_cols) =
+                            (repeat(e, b"table:number-rows-repeated"), 0, 0);
+                        if empty {
+                            rows = rows.saturating_add(row_repeat);
+                        }
+                    }
+                    b"table:table-cell" | b"table:covered-table-cell" => {
+                        cell_repeat = repeat(e, b"table:number-columns-repeated");
+                        filled = e
+                            .attributes()
+                            .flatten()
+                            .any(|a| a.key.as_ref() == b"office:value-type");
+                        in_cell = !empty;
+                        if empty {
+                            cols = cols.saturating_add(cell_repeat);
+                            if filled {
+                                used_cols = cols;
+                            }
+                        }
+                    }
+                    _ if in_cell => filled = true,
+                    _ => {}
+                }
+            }
+            Event::Text(ref t) if in_cell && !t.as_ref().iter().all(u8::is_ascii_whitespace) => {
+                filled = true;
+            }
+            Event::End(ref e) => match e.name().as_ref() {
+                b"table:table-cell" | b"table:covered-table-cell" => {
+                    in_cell = false;
+                    cols = cols.saturating_add(cell_repeat);
+                    if filled {
+                        used_cols = cols;
+                    }
+                }
+                b"table:table-row" => {
+                    rows = rows.saturating_add(row_repeat);
+                    if used_cols > 0 {
+                        used_rows = rows;
+                        width = width.max(used_cols);
+                    }
+                    // The reader holds each row once, as wide as its last filled cell.
+                    if used_rows.saturating_mul(width) > limit || used_cols > limit {
+                        return Err(format!(
+                            "a sheet of at most {limit} cells once repeated rows and columns are written out; this one holds {} rows × {} columns",
+                            used_rows, width
+                        ));
+                    }
+                }
+                _ => {}
+            },
+            _ => {}
+        }
+        buf.clear();
+    }
+    Ok(())
 }
 
 #[cfg(test)]

@@ -89,6 +89,7 @@ impl FitSpec {
     /// # Errors
     /// The YAML error as text.
     pub fn from_yaml(text: &str) -> Result<FitSpec, String> {
+        crate::limits::check_yaml(text)?;
         serde_yaml::from_str(text).map_err(|e| format!("not a valid fitting specification: {e}"))
     }
 }

@@ -191,11 +191,11 @@ impl Model {
     /// [`ModelError`] listing every problem; unreadable files give one problem.
     pub fn from_path(path: &std::path::Path) -> Result<Model, ModelError> {
         let name = path.display().to_string();
-        let text = std::fs::read_to_string(path).map_err(|e| ModelError {
+        let text = crate::limits::read_settings_text(path).map_err(|e| ModelError {
             file: name.clone(),
             problems: vec![ModelProblem {
                 place: String::new(),
-                message: format!("cannot read the file: {e}"),
+                message: e.to_string(),
             }],
         })?;
         Model::from_yaml(&name, &text)
@@ -210,6 +210,12 @@ impl Model {
             file: file.to_string(),
             problems,
         };
+        crate::limits::check_yaml(text).map_err(|message| {
+            fail(vec![ModelProblem {
+                place: String::new(),
+                message,
+            }])
+        })?;
         let raw: RawModel = serde_yaml::from_str(text).map_err(|e| {
             fail(vec![ModelProblem {
                 place: String::new(),

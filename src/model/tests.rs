@@ -347,6 +347,69 @@ fn dna_block_uses_the_beta_binomial_and_flags_misfits() {
 }
 
 #[test]
+fn read_counts_of_any_size_give_the_beta_binomial_without_cancellation() {
+    use super::dna::ln_gamma_difference;
+    use statrs::function::gamma::ln_gamma;
+    // Where lnΓ itself is still accurate (values ~10⁶–10⁸), the series equals the direct
+    // difference of statrs' lnΓ within its rounding (~1e-16 × 10⁸).
+    for &x in &[1e5, 3.7e5, 1e6, 2.5e7] {
+        for &(a, b) in &[(1.0, 600.0), (2.5, 0.5), (602.0, 1.0)] {
+            let direct = ln_gamma(x + a) - ln_gamma(x + b);
+            let series = ln_gamma_difference(x, a, b);
+            assert!(
+                (direct - series).abs() < 1e-7,
+                "{x} {a} {b}: {direct} vs {series}"
+            );
+        }
+    }
+    // Closed-form limit (k = 0, n → ∞): P(0 | n) = B(α, n+β)/B(α, β) → Γ(α+β)/Γ(β) · n^(−α),
+    // relative error O(1/n). The default model's female Beta(2, 600), male Beta(180, 1820)
+    // (see models/default.yaml).
+    let m = Model::default_model().unwrap();
+    let dna = m
+        .blocks
+        .iter()
+        .find_map(|b| match b {
+            Block::Dna(d) => Some(d.clone()),
+            _ => None,
+        })
+        .unwrap();
+    for &n in &[1e12_f64, 1e17, 1e18] {
+        for s in 0..2 {
+            let (a, b) = dna.beta[s];
+            let limit = ln_gamma(a + b) - ln_gamma(b) - a * n.ln();
+            let got = dna.ln_pmf(s, 0, n as u64);
+            assert!(
+                (got - limit).abs() < 1e-6,
+                "n {n} sex {s}: {got} vs limit {limit}"
+            );
+        }
+    }
+    // Zero Y reads of 10^17: overwhelming evidence for female, never for male.
+    let k = block(&m, "dna");
+    let ctx = Context::new(1);
+    let e = &m
+        .evaluate(
+            &person(
+                &m,
+                &[
+                    (
+                        "dna_x_reads",
+                        Some(Observation::Count {
+                            value: 100_000_000_000_000_000,
+                        }),
+                    ),
+                    ("dna_y_reads", Some(Observation::Count { value: 0 })),
+                ],
+            ),
+            &ctx,
+        )
+        .blocks[k];
+    assert!(e.ln_lr > 1000.0, "{}", e.ln_lr);
+    assert!(e.ln_l_female.unwrap() < 0.0 && e.ln_l_male.unwrap() < 0.0);
+}
+
+#[test]
 fn morphology_is_not_used_below_the_minimum_age_but_dna_is() {
     let m = Model::default_model().unwrap();
     let mut ind = person(

@@ -99,6 +99,7 @@ impl Prior {
             file: file.to_string(),
             message,
         };
+        crate::limits::check_yaml(text).map_err(fail)?;
         let raw: RawPrior = serde_yaml::from_str(text)
             .map_err(|e| fail(format!("not a valid prior document: {e}")))?;
         if raw.name.trim().is_empty() {
@@ -114,6 +115,14 @@ impl Prior {
                 if !(a > 0.0 && b > 0.0 && a.is_finite() && b.is_finite()) {
                     return Err(fail(format!(
                         "beta: a and b must be positive and finite, found a = {a}, b = {b}"
+                    )));
+                }
+                if !(Self::BETA_RANGE.contains(&a) && Self::BETA_RANGE.contains(&b)) {
+                    return Err(fail(format!(
+                        "beta: a and b from {} to {} (a + b above a million is a prior SD under 0.0005, which the grid of π cannot resolve: use `fixed: {:.4}` instead; below 0.001 the prior puts its mass at 0 and 1 beyond what the grid can hold), found a = {a}, b = {b}",
+                        Self::BETA_RANGE.start(),
+                        Self::BETA_RANGE.end(),
+                        a / (a + b)
                     )));
                 }
                 PriorShape::Beta { a, b }
@@ -141,6 +150,11 @@ impl Prior {
         })
     }
 
+    /// The Beta parameters accepted: wide enough for every prior of the literature (Jeffreys'
+    /// 0.5, flat 1, a birth ratio from thousands of births), narrow enough that the posterior
+    /// grid of π resolves the prior (a choice of ours).
+    pub const BETA_RANGE: std::ops::RangeInclusive<f64> = 1e-3..=1e6;
+
     /// A fixed-π prior made on the command line (`fixed:0.3`) or by the sweep.
     pub fn fixed(pi: f64) -> Result<Prior, PriorError> {
         let name = format!("fixed-{pi}");
@@ -155,9 +169,9 @@ impl Prior {
     /// # Errors
     /// [`PriorError`] when unreadable or invalid.
     pub fn from_path(path: &std::path::Path) -> Result<Prior, PriorError> {
-        let text = std::fs::read_to_string(path).map_err(|e| PriorError {
+        let text = crate::limits::read_settings_text(path).map_err(|e| PriorError {
             file: path.display().to_string(),
-            message: format!("cannot read the file: {e}"),
+            message: e.to_string(),
         })?;
         Prior::from_yaml(&path.display().to_string(), &text)
     }

@@ -47,13 +47,30 @@ fn ci(v: (f64, f64, f64), f: fn(f64) -> String, dash: &str) -> String {
 
 use super::{csv_bytes, header};
 
+/// Text for LaTeX: every special character escaped (group, prior and column names come from
+/// the user's files).
 fn tex(s: &str) -> String {
-    s.replace('\\', "\\textbackslash{}")
-        .replace('&', "\\&")
-        .replace('%', "\\%")
-        .replace('_', "\\_")
-        .replace('#', "\\#")
-        .replace('$', "\\$")
+    let mut out = String::with_capacity(s.len());
+    for c in s.chars() {
+        match c {
+            '\\' => out.push_str("\\textbackslash{}"),
+            '&' | '%' | '$' | '#' | '_' | '{' | '}' => {
+                out.push('\\');
+                out.push(c);
+            }
+            '~' => out.push_str("\\textasciitilde{}"),
+            '^' => out.push_str("\\textasciicircum{}"),
+            _ => out.push(c),
+        }
+    }
+    out
+}
+
+/// Text for a Markdown table cell: `|` would end the cell, a line break the row.
+fn md(s: &str) -> String {
+    s.replace('\\', "\\\\")
+        .replace('|', "\\|")
+        .replace(['\n', '\r'], " ")
 }
 
 /// The by-sex CSV tables: (file name, bytes).
@@ -533,7 +550,7 @@ pub fn report_md_and_tex(
         let _ = writeln!(
             m,
             "| {} | {:.3} | {:.3} | {:.3}–{:.3} | {:.3}–{:.3} | {:.3} | {:.1} |",
-            r.prior.name,
+            md(&r.prior.name),
             r.pi.mean,
             r.pi.median,
             r.pi.lo,
@@ -600,7 +617,12 @@ pub fn report_md_and_tex(
             let _ = writeln!(
                 m,
                 "| {} | {} | {:.3} | {:.3}–{:.3} | {:.1} |",
-                g.group, g.n, g.pi.mean, g.pi.lo, g.pi.hi, g.expected_females
+                md(&g.group),
+                g.n,
+                g.pi.mean,
+                g.pi.lo,
+                g.pi.hi,
+                g.expected_females
             );
             let _ = writeln!(
                 t,
@@ -669,7 +691,8 @@ pub fn report_md_and_tex(
             let _ = writeln!(
                 m,
                 "| {} | {} | {f} | {ml} | {d} | {or} |",
-                p.column, p.n_recorded
+                md(&p.column),
+                p.n_recorded
             );
             let [f, ml, d, or] = cells("--");
             let _ = writeln!(t, "{} & {f} & {ml} & {d} & {or} \\\\", tex(&p.column));
@@ -697,3 +720,7 @@ pub fn report_md_and_tex(
     }
     (m, t)
 }
+
+#[cfg(test)]
+#[path = "tests/publication.rs"]
+mod tests;

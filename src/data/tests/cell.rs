@@ -103,4 +103,15 @@ fn counts() {
     assert!(parse_count("-3").is_err());
     assert!(parse_count("2.5").is_err());
     assert!(parse_count("99999999999999999999999").is_err());
+    // Counts no sequencer produces are refused with the limit named (10^17 reads of X and none
+    // of Y once came out as strong evidence for male).
+    let e = parse_count("100000000000000000").unwrap_err();
+    assert_eq!(e.0, ProblemKind::LimitExceeded);
+    assert!(e.1.contains("10^12"), "{}", e.1);
+    assert_eq!(
+        parse_count("1000000000000"),
+        Ok(Observation::Count {
+            value: 1_000_000_000_000
+        })
+    );
 }

@@ -28,3 +28,12 @@ fn numeric_keys_are_read_as_written() {
     assert!(parse_scale_maps("nose: {a: 1}", &cat).is_err());
     assert!(parse_scale_maps("[1, 2]", &cat).is_err());
 }
+
+#[test]
+fn one_recorded_value_written_two_ways_cannot_map_to_two_grades() {
+    let cat = Catalogue::standard().unwrap();
+    let e = parse_scale_maps("glabella: {1: 2, 1.0: 3}\n", &cat).unwrap_err();
+    assert!(e.contains("same recorded value"), "{e}");
+    // The same grade twice is harmless.
+    parse_scale_maps("glabella: {1: 2, \"+1\": 2}\n", &cat).unwrap();
+}

@@ -57,3 +57,27 @@ fn empty_file() {
         ProblemKind::Empty
     );
 }
+
+#[test]
+fn a_workbook_that_unpacks_past_the_limit_is_refused_without_trusting_its_declared_sizes() {
+    use std::io::Write;
+    let mut bytes = Vec::new();
+    {
+        let mut z = zip::ZipWriter::new(std::io::Cursor::new(&mut bytes));
+        let opts = zip::write::SimpleFileOptions::default()
+            .compression_method(zip::CompressionMethod::Deflated);
+        z.start_file("xl/sharedStrings.xml", opts).unwrap();
+        z.write_all(&vec![b' '; 4 << 20]).unwrap();
+        z.finish().unwrap();
+    }
+    // 4 MiB of spaces compress to a few KB.
+    assert!(bytes.len() < 64 << 10);
+    let e = check_unpacked_size(&bytes, 1 << 20).unwrap_err();
+    assert!(
+        e.contains("at most 1 MiB") && e.contains("sharedStrings"),
+        "{e}"
+    );
+    check_unpacked_size(&bytes, 8 << 20).unwrap();
+    // Not a zip: left to the workbook reader.
+    check_unpacked_size(b"not a zip", 1).unwrap();
+}

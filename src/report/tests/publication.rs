@@ -1,0 +1,16 @@
+//! Unit tests of `report/publication.rs`.
+
+use super::*;
+
+#[test]
+fn names_from_the_users_files_cannot_break_latex_or_markdown_tables() {
+    // Every LaTeX special character (Lamport 1994, LaTeX: A Document Preparation System,
+    // section 2.2.1 lists # $ % & ~ _ ^ \ { } as special; from memory).
+    assert_eq!(
+        tex(r"zone {A} ~ ^ & % $ # _ \ end"),
+        r"zone \{A\} \textasciitilde{} \textasciicircum{} \& \% \$ \# \_ \textbackslash{} end"
+    );
+    assert_eq!(tex("north"), "north");
+    assert_eq!(md("a|b\nc"), r"a\|b c");
+    assert_eq!(md(r"x\y"), r"x\\y");
+}
