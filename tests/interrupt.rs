@@ -19,6 +19,7 @@ fn sigint_during_a_write_leaves_no_partial_file() {
             "--out",
             out.to_str().unwrap(),
         ])
+        .stderr(std::process::Stdio::piped())
         .spawn()
         .unwrap();
     let start = Instant::now();
@@ -43,7 +44,11 @@ fn sigint_during_a_write_leaves_no_partial_file() {
         }
         std::thread::sleep(Duration::from_millis(2));
     }
-    let status = child.wait().unwrap();
+    let o = child.wait_with_output().unwrap();
+    let status = o.status;
+    // The message is true: the write was in progress, so nothing of the run was written.
+    let said = String::from_utf8_lossy(&o.stderr);
+    assert!(said.contains("nothing of this run was written"), "{said}");
     assert!(
         caught,
         "the write finished before it could be interrupted; nothing was tested"
