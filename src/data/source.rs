@@ -286,34 +286,30 @@ pub fn read_workbook(
     let mut grid = SparseSheet::default();
     let chosen;
     match ext.as_str() {
-        "xlsx" | "xlsm" => {
-            let mut wb = Xlsx::new(Cursor::new(bytes)).map_err(|e| open_failed(e.to_string()))?;
-            chosen = choose(wb.sheet_names())?;
-            let mut cells = wb
-                .worksheet_cells_reader(&chosen)
-                .map_err(|e| sheet_failed(&chosen, e.to_string()))?;
-            while let Some(c) = cells
-                .next_cell()
-                .map_err(|e| sheet_failed(&chosen, e.to_string()))?
-            {
-                let (r, col) = c.get_position();
-                grid.push(r, col, cell_text(&c.get_value().clone().into()))
-                    .map_err(|e| fail(ProblemKind::LimitExceeded, e))?;
+        // The two cell readers share no trait, so one macro reads either, cell by cell.
+        "xlsx" | "xlsm" | "xlsb" => {
+            macro_rules! read_cells {
+                ($book:ty) => {{
+                    let mut wb =
+                        <$book>::new(Cursor::new(bytes)).map_err(|e| open_failed(e.to_string()))?;
+                    chosen = choose(wb.sheet_names())?;
+                    let mut cells = wb
+                        .worksheet_cells_reader(&chosen)
+                        .map_err(|e| sheet_failed(&chosen, e.to_string()))?;
+                    while let Some(c) = cells
+                        .next_cell()
+                        .map_err(|e| sheet_failed(&chosen, e.to_string()))?
+                    {
+                        let (r, col) = c.get_position();
+                        grid.push(r, col, cell_text(&c.get_value().clone().into()))
+                            .map_err(|e| fail(ProblemKind::LimitExceeded, e))?;
+                    }
+                }};
             }
-        }
-        "xlsb" => {
-            let mut wb = Xlsb::new(Cursor::new(bytes)).map_err(|e| open_failed(e.to_string()))?;
-            chosen = choose(wb.sheet_names())?;
-            let mut cells = wb
-                .worksheet_cells_reader(&chosen)
-                .map_err(|e| sheet_failed(&chosen, e.to_string()))?;
-            while let Some(c) = cells
-                .next_cell()
-                .map_err(|e| sheet_failed(&chosen, e.to_string()))?
-            {
-                let (r, col) = c.get_position();
-                grid.push(r, col, cell_text(&c.get_value().clone().into()))
-                    .map_err(|e| fail(ProblemKind::LimitExceeded, e))?;
+            if ext == "xlsb" {
+                read_cells!(Xlsb<Cursor<&[u8]>>)
+            } else {
+                read_cells!(Xlsx<Cursor<&[u8]>>)
             }
         }
         _ => {
