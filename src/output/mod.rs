@@ -231,8 +231,9 @@ pub fn write_folder(
         }
     }
     let previous = existing_run(dir)?;
-    let parent = parent_of(dir);
-    let name = dir
+    // The absolute path: `--out .` or `--out sub/..` still has a parent to build beside.
+    let parent = parent_of(&target);
+    let name = target
         .file_name()
         .map(|n| n.to_string_lossy().into_owned())
         .unwrap_or_else(|| "output".into());
@@ -273,8 +274,8 @@ pub fn write_folder(
     let mut s = state();
     let staged = staging.path().to_path_buf();
     let swapped = match previous {
-        Previous::None => std::fs::rename(&staged, dir).map(|()| false),
-        Previous::Run => exchange(&staged, dir).map(|()| true),
+        Previous::None => std::fs::rename(&staged, &target).map(|()| false),
+        Previous::Run => exchange(&staged, &target).map(|()| true),
     };
     match swapped {
         Ok(swapped) => {

@@ -176,3 +176,14 @@ fn a_folder_that_cannot_be_written_whole_is_left_as_it_was() {
         [format!("run/{MANIFEST}"), "run/a.csv".into()]
     );
 }
+
+#[test]
+fn a_folder_named_relatively_is_swapped_in_beside_itself() {
+    let dir = tempfile::tempdir().unwrap();
+    let out = dir.path().join("a").join("..").join("run");
+    std::fs::create_dir(dir.path().join("a")).unwrap();
+    write_folder(&out, &[("x.csv".to_string(), b"1".as_slice())], "t", &[]).unwrap();
+    write_folder(&out, &[("y.csv".to_string(), b"2".as_slice())], "t", &[]).unwrap();
+    assert_eq!(names_in(&dir.path().join("run")), [MANIFEST, "y.csv"]);
+    assert_eq!(names_in(&dir.path().join("a")), Vec::<String>::new());
+}
