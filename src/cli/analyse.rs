@@ -114,6 +114,9 @@ pub fn run(args: Args) -> Result<i32, Error> {
     for w in &a.warnings {
         eprintln!("warning: {w}");
     }
+    for w in model.unused_evidence(&a) {
+        eprintln!("warning: {w}");
+    }
     let n_draws = args.draws.unwrap_or(1000);
     if n_draws == 0 || n_draws.saturating_mul(a.individuals.len()) > 200_000_000 {
         return Err(Error::Settings {

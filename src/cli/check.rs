@@ -64,6 +64,9 @@ pub fn run(args: Args) -> Result<i32, Error> {
     }
     match read_assemblage(&args.file, catalogue, &settings) {
         Ok(a) => {
+            for w in model.unused_evidence(&a) {
+                eprintln!("warning: {w}");
+            }
             let c = Completeness::of(&a, Some(minimum_age));
             match args.format {
                 Format::Text => {

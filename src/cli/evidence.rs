@@ -68,6 +68,9 @@ pub fn run(args: Args) -> Result<i32, Error> {
     for w in &a.warnings {
         eprintln!("warning: {w}");
     }
+    for w in model.unused_evidence(&a) {
+        eprintln!("warning: {w}");
+    }
     let ctx = Context::new(args.seed);
     let bar = super::progress_bar(a.individuals.len(), "weighing the evidence");
     let evidence = evaluate_with_progress(&model, &a, &ctx, Some(&bar));

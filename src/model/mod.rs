@@ -321,6 +321,39 @@ impl Model {
         })
     }
 
+    /// Evidence that is recorded but that this model will not use: one message per catalogue
+    /// trait that holds a value for at least one individual of `a` and that no block of the
+    /// model reads (read counts under a fitted model without a DNA block, a catalogued trait
+    /// the model leaves out). Nothing recorded may be dropped without a word.
+    pub fn unused_evidence(&self, a: &crate::data::Assemblage) -> Vec<String> {
+        let used: std::collections::HashSet<String> =
+            self.blocks.iter().flat_map(Block::trait_ids).collect();
+        let traits = self.catalogue.traits();
+        (0..traits.len())
+            .filter(|&k| !used.contains(&traits[k].id))
+            .filter_map(|k| {
+                let n = a
+                    .individuals
+                    .iter()
+                    .filter(|ind| ind.observations.get(k).is_some_and(Option::is_some))
+                    .count();
+                (n > 0).then(|| {
+                    format!(
+                        "`{}` is recorded for {n} individual{} but the model `{}` has no block that uses it: that evidence is left out (use a model with a block for it{})",
+                        traits[k].id,
+                        if n == 1 { "" } else { "s" },
+                        self.name,
+                        if traits[k].id.starts_with("dna_") {
+                            ": copy the `dna` block of models/default.yaml into the model file"
+                        } else {
+                            ""
+                        }
+                    )
+                })
+            })
+            .collect()
+    }
+
     /// Evaluate every block for one individual. Morphological blocks are not used below the
     /// minimum age; DNA is used at any age.
     pub fn evaluate(&self, ind: &Individual, ctx: &Context) -> IndividualEvidence {

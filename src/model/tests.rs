@@ -552,3 +552,34 @@ fn seeds_depend_on_the_individual_not_the_row() {
     );
     let _ = cdf(0.0);
 }
+
+#[test]
+fn recorded_evidence_that_the_model_leaves_out_is_named() {
+    use crate::data::read_assemblage_text;
+    // The default model without its DNA block: the read counts are recorded but unused.
+    let text = crate::model::DEFAULT_MODEL_YAML;
+    let start = text.find("  - id: dna\n").unwrap();
+    let end = start + text[start..].find("atypical_z: 4\n").unwrap() + "atypical_z: 4\n".len();
+    let without = format!("{}{}", &text[..start], &text[end..]);
+    let m = Model::from_yaml("no-dna.yaml", &without).unwrap();
+    let table = "id,glabella,dna_x_reads,dna_y_reads\nA,3,1000,2\nB,4,,\n";
+    let a =
+        read_assemblage_text("t.csv", table.as_bytes(), &m.catalogue, &Default::default()).unwrap();
+    let w = m.unused_evidence(&a);
+    assert_eq!(w.len(), 2, "{w:?}");
+    assert!(
+        w[0].contains("`dna_x_reads` is recorded for 1 individual but"),
+        "{}",
+        w[0]
+    );
+    // The full model uses everything recorded.
+    let full = Model::default_model().unwrap();
+    let a = read_assemblage_text(
+        "t.csv",
+        table.as_bytes(),
+        &full.catalogue,
+        &Default::default(),
+    )
+    .unwrap();
+    assert!(full.unused_evidence(&a).is_empty());
+}
