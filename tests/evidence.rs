@@ -196,3 +196,49 @@ fn inputs_are_never_overwritten_and_bad_models_list_every_problem() {
     assert_eq!(o.status.code(), Some(3));
     assert!(!out.exists());
 }
+
+#[test]
+fn scored_individuals_below_the_minimum_age_are_counted_and_the_age_can_be_set() {
+    let dir = tempfile::tempdir().unwrap();
+    let input = dir.path().join("ado.csv");
+    // A 17-year-old (certainly below 18), a 15-20 range (reaches 18: used), an adult.
+    std::fs::write(&input, "id,glabella,age\nA,3,17\nB,4,15-20\nC,2,30\n").unwrap();
+    let run = |extra: &[&str], out: &str| {
+        let out = dir.path().join(out);
+        let mut a = vec![
+            "evidence",
+            input.to_str().unwrap(),
+            "--out",
+            out.to_str().unwrap(),
+        ];
+        a.extend_from_slice(extra);
+        let o = tessera(&a);
+        (
+            o.status.code(),
+            stderr(&o),
+            std::fs::read_to_string(&out).unwrap_or_default(),
+        )
+    };
+    let (code, err, ledger) = run(&[], "a.csv");
+    assert_eq!(code, Some(0), "{err}");
+    assert!(err.contains("1 individual with skeletal scores or measurements recorded is below the minimum age (18 years)"), "{err}");
+    let cranium_a = ledger
+        .lines()
+        .find(|l| l.starts_with("A,cranium"))
+        .unwrap()
+        .to_string();
+    assert!(cranium_a.contains("below_minimum_age"), "{cranium_a}");
+    // With a minimum age of 16 the 17-year-old's skull is used, and no warning is given.
+    let (code, err, ledger) = run(&["--minimum-age", "16"], "b.csv");
+    assert_eq!(code, Some(0), "{err}");
+    assert!(!err.contains("below the minimum age"), "{err}");
+    let cranium_a16 = ledger
+        .lines()
+        .find(|l| l.starts_with("A,cranium"))
+        .unwrap()
+        .to_string();
+    assert_ne!(cranium_a, cranium_a16);
+    let (code, err, _) = run(&["--minimum-age", "160"], "c.csv");
+    assert_eq!(code, Some(4), "{err}");
+    assert!(err.contains("from 0 to 100"), "{err}");
+}

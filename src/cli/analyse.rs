@@ -60,6 +60,10 @@ pub struct Args {
     /// Iterations per chain of the recalibration (a quarter is discarded as burn-in).
     #[arg(long, value_name = "N", default_value_t = 2000)]
     pub iterations: usize,
+    /// Minimum age (years) from which skeletal (morphological) evidence is used; younger
+    /// individuals are assessed from DNA only (default: the model's, usually 18).
+    #[arg(long, value_name = "YEARS")]
+    pub minimum_age: Option<f64>,
     /// Seed of every random stream (same seed, same bytes).
     #[arg(long, default_value_t = 1)]
     pub seed: u64,
@@ -83,7 +87,10 @@ fn prior_error(e: PriorError) -> Error {
 /// # Errors
 /// Model, prior, settings and file errors; input problems are printed (exit code 3).
 pub fn run(args: Args) -> Result<i32, Error> {
-    let model = super::evidence::load_model(args.model.as_deref())?;
+    let model = super::evidence::with_minimum_age(
+        super::evidence::load_model(args.model.as_deref())?,
+        args.minimum_age,
+    )?;
     let prior = parse_prior_set(&args.prior).map_err(prior_error)?;
     if prior.len() != 1 {
         return Err(Error::Settings {
@@ -117,6 +124,7 @@ pub fn run(args: Args) -> Result<i32, Error> {
     for w in model.unused_evidence(&a) {
         eprintln!("warning: {w}");
     }
+    super::evidence::warn_below_minimum_age(&model, &a);
     let n_draws = args.draws.unwrap_or(1000);
     if n_draws == 0 || n_draws.saturating_mul(a.individuals.len()) > 200_000_000 {
         return Err(Error::Settings {

@@ -21,6 +21,10 @@ pub struct Args {
     /// Model file (default: the embedded default model).
     #[arg(long, value_name = "FILE")]
     pub model: Option<PathBuf>,
+    /// Minimum age (years) from which skeletal (morphological) evidence is used; younger
+    /// individuals are assessed from DNA only (default: the model's, usually 18).
+    #[arg(long, value_name = "YEARS")]
+    pub minimum_age: Option<f64>,
     /// Seed of the randomised integration (same seed, same bytes).
     #[arg(long, default_value_t = 1)]
     pub seed: u64,
@@ -38,6 +42,35 @@ pub fn load_model(path: Option<&Path>) -> Result<Model, Error> {
         Some(p) => Model::from_path(p)?,
         None => Model::default_model()?,
     })
+}
+
+/// The model with the minimum age given on the command line, if any.
+///
+/// # Errors
+/// [`Error::Settings`] when the age is not a number of years from 0 to 100.
+pub fn with_minimum_age(model: Model, years: Option<f64>) -> Result<Model, Error> {
+    match years {
+        None => Ok(model),
+        Some(y) => model
+            .with_minimum_age(y)
+            .map_err(|message| Error::Settings {
+                file: "--minimum-age".into(),
+                message,
+            }),
+    }
+}
+
+/// Say how many scored individuals are below the minimum age (their morphology is not used).
+pub fn warn_below_minimum_age(model: &Model, a: &crate::data::Assemblage) {
+    let n = model.scored_below_minimum_age(a);
+    if n > 0 {
+        eprintln!(
+            "warning: {n} individual{} with skeletal scores or measurements recorded {} below the minimum age ({} years): their skeletal evidence is not used, only DNA (morphology is used unless the age is certainly below the minimum; a range reaching it is used; --minimum-age changes the age)",
+            if n == 1 { "" } else { "s" },
+            if n == 1 { "is" } else { "are" },
+            model.minimum_age
+        );
+    }
 }
 
 #[derive(Serialize)]
@@ -59,7 +92,7 @@ struct RunRecord<'a> {
 /// # Errors
 /// Model, settings and file errors; input problems are printed and give exit code 3.
 pub fn run(args: Args) -> Result<i32, Error> {
-    let model = load_model(args.model.as_deref())?;
+    let model = with_minimum_age(load_model(args.model.as_deref())?, args.minimum_age)?;
     let settings = args.input.settings(&model.catalogue)?;
     let Some(a) = super::input::read_or_report(&args.file, &model.catalogue, &settings) else {
         return Ok(3);
@@ -71,6 +104,7 @@ pub fn run(args: Args) -> Result<i32, Error> {
     for w in model.unused_evidence(&a) {
         eprintln!("warning: {w}");
     }
+    warn_below_minimum_age(&model, &a);
     let ctx = Context::new(args.seed);
     let bar = super::progress_bar(a.individuals.len(), "weighing the evidence");
     let evidence = evaluate_with_progress(&model, &a, &ctx, Some(&bar));

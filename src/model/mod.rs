@@ -321,6 +321,41 @@ impl Model {
         })
     }
 
+    /// The same model with another minimum age for its morphological blocks (years, 0 to 100).
+    ///
+    /// # Errors
+    /// A message when the age is not a number of years from 0 to 100.
+    pub fn with_minimum_age(mut self, years: f64) -> Result<Model, String> {
+        if !(years.is_finite() && (0.0..=100.0).contains(&years)) {
+            return Err(format!("expected years from 0 to 100, found {years}"));
+        }
+        self.minimum_age = years;
+        Ok(self)
+    }
+
+    /// How many individuals have a morphological score or measurement recorded but are
+    /// certainly below the minimum age (a point age or a whole range below it, or "subadult"):
+    /// their morphology is not used, only DNA. The rule: morphology is used unless the age at
+    /// death is certainly below the minimum; a range reaching it (15–20 with 18) is used.
+    pub fn scored_below_minimum_age(&self, a: &crate::data::Assemblage) -> usize {
+        let morphological: std::collections::HashSet<String> = self
+            .blocks
+            .iter()
+            .filter(|b| b.is_morphological())
+            .flat_map(Block::trait_ids)
+            .collect();
+        let traits = self.catalogue.traits();
+        a.individuals
+            .iter()
+            .filter(|ind| {
+                ind.age.map(|g| g.maturity(self.minimum_age)) == Some(Maturity::Subadult)
+                    && ind.observations.iter().enumerate().any(|(k, o)| {
+                        o.is_some() && traits.get(k).is_some_and(|t| morphological.contains(&t.id))
+                    })
+            })
+            .count()
+    }
+
     /// Evidence that is recorded but that this model will not use: one message per catalogue
     /// trait that holds a value for at least one individual of `a` and that no block of the
     /// model reads (read counts under a fitted model without a DNA block, a catalogued trait
