@@ -52,6 +52,10 @@ fn the_demo_gives_four_files_with_the_documented_columns() {
         "p_female_min",
         "p_female_max",
         "prior_sensitive",
+        "p_female_equal_prior",
+        "category_equal_prior",
+        "age",
+        "flags",
         "log10_lr_cranium",
         "log10_lr_pelvis",
         "log10_lr_postcranial",
@@ -370,4 +374,47 @@ fn the_same_bytes_with_one_thread_or_several() {
         );
     }
     assert_eq!(outputs[0], outputs[1]);
+}
+
+#[test]
+fn individuals_carry_the_evidence_alone_beside_the_assemblage_and_their_flags() {
+    let dir = tempfile::tempdir().unwrap();
+    let out = dir.path().join("r");
+    let o = tessera(&["analyse", &demo(), "--out", out.to_str().unwrap()]);
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    let mut r = csv::Reader::from_path(out.join("individuals.csv")).unwrap();
+    let h: Vec<String> = r.headers().unwrap().iter().map(String::from).collect();
+    let col = |n: &str| h.iter().position(|x| x == n).unwrap();
+    let (id, lr, pe, ce, flags, status) = (
+        col("id"),
+        col("log10_lr"),
+        col("p_female_equal_prior"),
+        col("category_equal_prior"),
+        col("flags"),
+        col("status"),
+    );
+    let mut seen_flag = false;
+    for rec in r.records() {
+        let rec = rec.unwrap();
+        if &rec[status] != "estimated" {
+            assert_eq!(&rec[pe], "");
+            assert_eq!(&rec[ce], "not_estimable");
+            continue;
+        }
+        // Closed form: π = ½ gives P(female) = LR / (1 + LR), LR = 10^log10_lr (the column's
+        // 4 decimals bound the agreement: d p / d log10 LR ≤ ln 10 / 4, times 5e-5).
+        let l: f64 = rec[lr].parse().unwrap();
+        let p: f64 = rec[pe].parse().unwrap();
+        let expected = 1.0 / (1.0 + 10f64.powf(-l));
+        assert!(
+            (p - expected).abs() < 3e-5 + 1e-6,
+            "{}: {p} vs {expected}",
+            &rec[id]
+        );
+        if &rec[id] == "MH-011" {
+            assert!(rec[flags].contains("dna_atypical"), "{:?}", &rec[flags]);
+            seen_flag = true;
+        }
+    }
+    assert!(seen_flag);
 }

@@ -1,7 +1,8 @@
 //! The files of `tessera analyse` and its terminal summary.
 //!
 //! `individuals.csv`: `id, group, status, n_traits, log10_lr, lr_support, p_female, p_male,
-//! category, p_female_min, p_female_max, prior_sensitive`, then `log10_lr_<block>` for every
+//! category, p_female_min, p_female_max, prior_sensitive, p_female_equal_prior,
+//! category_equal_prior, age, flags`, then `log10_lr_<block>` for every
 //! block of the model (empty where the block was not used), then every input column the model
 //! did not use, unchanged. Individuals without usable evidence have `status = not_estimable`,
 //! `category = not_estimable` and empty numbers.
@@ -83,6 +84,69 @@ fn f4(x: f64) -> String {
     format!("{x:.4}")
 }
 
+/// P(female) from the evidence alone, π fixed at ½: LR / (1 + LR), computed without overflow.
+pub fn equal_prior_p_female(ln_lr: f64) -> f64 {
+    if ln_lr >= 0.0 {
+        1.0 / (1.0 + (-ln_lr).exp())
+    } else {
+        let e = ln_lr.exp();
+        e / (1.0 + e)
+    }
+}
+
+/// An age at death as recorded: `34`, `25-35`, `50+`, `adult`, `subadult`.
+pub fn age_text(age: crate::data::AgeAtDeath) -> String {
+    use crate::data::AgeAtDeath;
+    match age {
+        AgeAtDeath::Years { low, high: Some(h) } if h == low => format!("{low}"),
+        AgeAtDeath::Years { low, high: Some(h) } => format!("{low}-{h}"),
+        AgeAtDeath::Years { low, high: None } => format!("{low}+"),
+        AgeAtDeath::Adult => "adult".into(),
+        AgeAtDeath::Subadult => "subadult".into(),
+    }
+}
+
+/// Largest error on an individual's ln LR from the box integration before it is flagged
+/// (a choice of ours: 0.05, about 5% on the likelihood ratio).
+pub const LARGE_INTEGRATION_ERROR: f64 = 0.05;
+
+/// The individual's flags, `;`-separated: `dna_atypical` (a read count fitting neither sex),
+/// `numerical_failure`, `integration_error` (error on ln LR above
+/// [`LARGE_INTEGRATION_ERROR`]), `sides_disagree` (left and right differ beyond the
+/// tolerance), `below_minimum_age` (skeletal evidence recorded but not used), `prior_sensitive`
+/// (the category changes under some prior of the sensitivity set).
+fn flags(
+    a: &Assemblage,
+    ind: &crate::data::Individual,
+    ev: &IndividualEvidence,
+    prior_sensitive: bool,
+) -> String {
+    let mut f: Vec<&str> = Vec::new();
+    let any = |st: BlockStatus| ev.blocks.iter().any(|b| b.status == st);
+    if any(BlockStatus::Atypical) {
+        f.push("dna_atypical");
+    }
+    if any(BlockStatus::NumericalFailure) {
+        f.push("numerical_failure");
+    }
+    if ev.error > LARGE_INTEGRATION_ERROR {
+        f.push("integration_error");
+    }
+    if a.warnings
+        .iter()
+        .any(|w| w.kind == crate::data::WarningKind::SidesDisagree && w.row == Some(ind.row))
+    {
+        f.push("sides_disagree");
+    }
+    if any(BlockStatus::BelowMinimumAge) {
+        f.push("below_minimum_age");
+    }
+    if prior_sensitive {
+        f.push("prior_sensitive");
+    }
+    f.join(";")
+}
+
 use super::{csv_bytes, header, CsvText};
 
 /// Render the four files.
@@ -113,6 +177,10 @@ pub fn render_files(
         "p_female_min",
         "p_female_max",
         "prior_sensitive",
+        "p_female_equal_prior",
+        "category_equal_prior",
+        "age",
+        "flags",
     ]);
     head.extend(model.blocks.iter().map(|b| format!("log10_lr_{}", b.id())));
     head.extend(a.carried_columns.iter().cloned());
@@ -141,6 +209,24 @@ pub fn render_files(
             s.p_female_min.map(prob).unwrap_or_default(),
             s.p_female_max.map(prob).unwrap_or_default(),
             s.prior_sensitive.to_string(),
+            // The evidence alone (π fixed at ½): beside the assemblage-informed value, so
+            // that a reader sees how much of a call comes from the cemetery's sex ratio.
+            if est {
+                prob(equal_prior_p_female(ev.ln_lr))
+            } else {
+                String::new()
+            },
+            if est {
+                analysis
+                    .thresholds
+                    .categorise(equal_prior_p_female(ev.ln_lr))
+                    .as_str()
+                    .to_string()
+            } else {
+                main.categories[i].as_str().to_string()
+            },
+            ind.age.map(age_text).unwrap_or_default(),
+            flags(a, ind, ev, s.prior_sensitive),
         ];
         for b in &ev.blocks {
             r.push(if b.status == BlockStatus::Used {
