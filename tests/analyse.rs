@@ -56,6 +56,8 @@ fn the_demo_gives_four_files_with_the_documented_columns() {
         "category_equal_prior",
         "age",
         "flags",
+        "dna_reads",
+        "y_fraction",
         "log10_lr_cranium",
         "log10_lr_pelvis",
         "log10_lr_postcranial",
@@ -413,6 +415,9 @@ fn individuals_carry_the_evidence_alone_beside_the_assemblage_and_their_flags() 
         );
         if &rec[id] == "MH-011" {
             assert!(rec[flags].contains("dna_atypical"), "{:?}", &rec[flags]);
+            // examples/mirefold.csv: 5730 X and 270 Y reads.
+            assert_eq!(&rec[col("dna_reads")], "6000");
+            assert_eq!(&rec[col("y_fraction")], "0.0450");
             seen_flag = true;
         }
     }

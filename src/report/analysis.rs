@@ -2,7 +2,7 @@
 //!
 //! `individuals.csv`: `id, group, status, n_traits, log10_lr, lr_support, p_female, p_male,
 //! category, p_female_min, p_female_max, prior_sensitive, p_female_equal_prior,
-//! category_equal_prior, age, flags`, then `log10_lr_<block>` for every
+//! category_equal_prior, age, flags, dna_reads, y_fraction`, then `log10_lr_<block>` for every
 //! block of the model (empty where the block was not used), then every input column the model
 //! did not use, unchanged. Individuals without usable evidence have `status = not_estimable`,
 //! `category = not_estimable` and empty numbers.
@@ -94,6 +94,24 @@ pub fn equal_prior_p_female(ln_lr: f64) -> f64 {
     }
 }
 
+/// (reads on X and Y, reads on Y) of an individual under the model's DNA block, when both
+/// counts are recorded.
+fn dna_reads(model: &Model, ind: &crate::data::Individual) -> Option<(u64, u64)> {
+    use crate::data::Observation;
+    model.blocks.iter().find_map(|b| match b {
+        crate::model::Block::Dna(d) => match (
+            ind.observations.get(d.x_index).copied().flatten(),
+            ind.observations.get(d.y_index).copied().flatten(),
+        ) {
+            (Some(Observation::Count { value: x }), Some(Observation::Count { value: y })) => {
+                Some((x.saturating_add(y), y))
+            }
+            _ => None,
+        },
+        _ => None,
+    })
+}
+
 /// An age at death as recorded: `34`, `25-35`, `50+`, `adult`, `subadult`.
 pub fn age_text(age: crate::data::AgeAtDeath) -> String {
     use crate::data::AgeAtDeath;
@@ -181,6 +199,8 @@ pub fn render_files(
         "category_equal_prior",
         "age",
         "flags",
+        "dna_reads",
+        "y_fraction",
     ]);
     head.extend(model.blocks.iter().map(|b| format!("log10_lr_{}", b.id())));
     head.extend(a.carried_columns.iter().cloned());
@@ -228,6 +248,16 @@ pub fn render_files(
             ind.age.map(age_text).unwrap_or_default(),
             flags(a, ind, ev, s.prior_sensitive),
         ];
+        // Reads on X and Y and the Y fraction, where the model has a DNA block and both
+        // counts are recorded (what a referee checks first).
+        let reads = dna_reads(model, ind);
+        r.push(reads.map(|(n, _)| n.to_string()).unwrap_or_default());
+        r.push(
+            reads
+                .filter(|&(n, _)| n > 0)
+                .map(|(n, y)| format!("{:.4}", y as f64 / n as f64))
+                .unwrap_or_default(),
+        );
         for b in &ev.blocks {
             r.push(if b.status == BlockStatus::Used {
                 f4(b.ln_lr / LN_10)
