@@ -84,16 +84,6 @@ fn f4(x: f64) -> String {
     format!("{x:.4}")
 }
 
-/// P(female) from the evidence alone, π fixed at ½: LR / (1 + LR), computed without overflow.
-pub fn equal_prior_p_female(ln_lr: f64) -> f64 {
-    if ln_lr >= 0.0 {
-        1.0 / (1.0 + (-ln_lr).exp())
-    } else {
-        let e = ln_lr.exp();
-        e / (1.0 + e)
-    }
-}
-
 /// (reads on X and Y, reads on Y) of an individual under the model's DNA block, when both
 /// counts are recorded.
 fn dna_reads(model: &Model, ind: &crate::data::Individual) -> Option<(u64, u64)> {
@@ -133,12 +123,7 @@ pub const LARGE_INTEGRATION_ERROR: f64 = 0.05;
 /// [`LARGE_INTEGRATION_ERROR`]), `sides_disagree` (left and right differ beyond the
 /// tolerance), `below_minimum_age` (skeletal evidence recorded but not used), `prior_sensitive`
 /// (the category changes under some prior of the sensitivity set).
-fn flags(
-    a: &Assemblage,
-    ind: &crate::data::Individual,
-    ev: &IndividualEvidence,
-    prior_sensitive: bool,
-) -> String {
+fn flags(sides_disagree: bool, ev: &IndividualEvidence, prior_sensitive: bool) -> String {
     let mut f: Vec<&str> = Vec::new();
     let any = |st: BlockStatus| ev.blocks.iter().any(|b| b.status == st);
     if any(BlockStatus::Atypical) {
@@ -150,10 +135,7 @@ fn flags(
     if ev.error > LARGE_INTEGRATION_ERROR {
         f.push("integration_error");
     }
-    if a.warnings
-        .iter()
-        .any(|w| w.kind == crate::data::WarningKind::SidesDisagree && w.row == Some(ind.row))
-    {
+    if sides_disagree {
         f.push("sides_disagree");
     }
     if any(BlockStatus::BelowMinimumAge) {
@@ -166,6 +148,7 @@ fn flags(
 }
 
 use super::{csv_bytes, header, CsvText};
+use crate::assemblage::posterior::p_female_given;
 
 /// Render the four files.
 ///
@@ -204,10 +187,18 @@ pub fn render_files(
     ]);
     head.extend(model.blocks.iter().map(|b| format!("log10_lr_{}", b.id())));
     head.extend(a.carried_columns.iter().cloned());
+    // Rows whose sides disagree, found once (not once per individual).
+    let disagreeing: std::collections::HashSet<usize> = a
+        .warnings
+        .iter()
+        .filter(|w| w.kind == crate::data::WarningKind::SidesDisagree)
+        .filter_map(|w| w.row)
+        .collect();
     let mut rows = vec![head];
     for (i, (ind, ev)) in a.individuals.iter().zip(evidence).enumerate() {
         let s = &analysis.individual_sensitivity[i];
         let est = ev.estimable;
+        let equal = est.then(|| p_female_given(0.5, ev.ln_lr));
         let mut r = vec![
             ind.id.clone(),
             ind.group.clone().unwrap_or_default(),
@@ -231,22 +222,13 @@ pub fn render_files(
             s.prior_sensitive.to_string(),
             // The evidence alone (π fixed at ½): beside the assemblage-informed value, so
             // that a reader sees how much of a call comes from the cemetery's sex ratio.
-            if est {
-                prob(equal_prior_p_female(ev.ln_lr))
-            } else {
-                String::new()
-            },
-            if est {
-                analysis
-                    .thresholds
-                    .categorise(equal_prior_p_female(ev.ln_lr))
-                    .as_str()
-                    .to_string()
-            } else {
-                main.categories[i].as_str().to_string()
+            equal.map(prob).unwrap_or_default(),
+            match equal {
+                Some(p) => analysis.thresholds.categorise(p).as_str().to_string(),
+                None => main.categories[i].as_str().to_string(),
             },
             ind.age.map(age_text).unwrap_or_default(),
-            flags(a, ind, ev, s.prior_sensitive),
+            flags(disagreeing.contains(&ind.row), ev, s.prior_sensitive),
         ];
         // Reads on X and Y and the Y fraction, where the model has a DNA block and both
         // counts are recorded (what a referee checks first).
