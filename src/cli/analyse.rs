@@ -118,13 +118,7 @@ pub fn run(args: Args) -> Result<i32, Error> {
     let Some(a) = super::input::read_or_report(&args.file, &model.catalogue, &settings) else {
         return Ok(3);
     };
-    for w in &a.warnings {
-        eprintln!("warning: {w}");
-    }
-    for w in model.unused_evidence(&a) {
-        eprintln!("warning: {w}");
-    }
-    super::evidence::warn_below_minimum_age(&model, &a);
+    super::evidence::warn_about_input(&model, &a);
     let n_draws = args.draws.unwrap_or(1000);
     if n_draws == 0 || n_draws.saturating_mul(a.individuals.len()) > 200_000_000 {
         return Err(Error::Settings {

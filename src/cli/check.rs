@@ -52,16 +52,13 @@ struct JsonReport<'a> {
 /// # Errors
 /// Settings and file-access errors; input problems are printed, not returned.
 pub fn run(args: Args) -> Result<i32, Error> {
-    let model = super::evidence::load_model(args.model.as_deref())?;
+    let model = super::evidence::with_minimum_age(
+        super::evidence::load_model(args.model.as_deref())?,
+        args.minimum_age,
+    )?;
     let catalogue = &model.catalogue;
     let settings = args.input.settings(catalogue)?;
-    let minimum_age = args.minimum_age.unwrap_or(model.minimum_age);
-    if !(minimum_age.is_finite() && (0.0..=100.0).contains(&minimum_age)) {
-        return Err(Error::Settings {
-            file: "command line".into(),
-            message: format!("--minimum-age {minimum_age}: expected years from 0 to 100"),
-        });
-    }
+    let minimum_age = model.minimum_age;
     match read_assemblage(&args.file, catalogue, &settings) {
         Ok(a) => {
             for w in model.unused_evidence(&a) {

@@ -60,8 +60,16 @@ pub fn with_minimum_age(model: Model, years: Option<f64>) -> Result<Model, Error
     }
 }
 
-/// Say how many scored individuals are below the minimum age (their morphology is not used).
-pub fn warn_below_minimum_age(model: &Model, a: &crate::data::Assemblage) {
+/// Print, before any work, everything about the input a reader must know: the reader's
+/// warnings, recorded evidence the model leaves out, and how many scored individuals are below
+/// the minimum age (their morphology is not used). Shared by `evidence` and `analyse`.
+pub fn warn_about_input(model: &Model, a: &crate::data::Assemblage) {
+    for w in &a.warnings {
+        eprintln!("warning: {w}");
+    }
+    for w in model.unused_evidence(a) {
+        eprintln!("warning: {w}");
+    }
     let n = model.scored_below_minimum_age(a);
     if n > 0 {
         eprintln!(
@@ -97,14 +105,7 @@ pub fn run(args: Args) -> Result<i32, Error> {
     let Some(a) = super::input::read_or_report(&args.file, &model.catalogue, &settings) else {
         return Ok(3);
     };
-    // The same input warnings as `analyse` prints, before the work.
-    for w in &a.warnings {
-        eprintln!("warning: {w}");
-    }
-    for w in model.unused_evidence(&a) {
-        eprintln!("warning: {w}");
-    }
-    warn_below_minimum_age(&model, &a);
+    warn_about_input(&model, &a);
     let ctx = Context::new(args.seed);
     let bar = super::progress_bar(a.individuals.len(), "weighing the evidence");
     let evidence = evaluate_with_progress(&model, &a, &ctx, Some(&bar));

@@ -523,13 +523,11 @@ fn check_ods_extent(bytes: &[u8], limit: u64) -> Result<(), String> {
             // Malformed XML is left to the workbook reader.
             Err(_) => return Ok(()),
         };
-        let start = |e: &quick_xml::events::BytesStart| e.name().as_ref().to_vec();
         match event {
             Event::Eof => break,
             Event::Start(ref e) | Event::Empty(ref e) => {
-                let tag = start(e);
                 let empty = matches!(event, Event::Empty(_));
-                match tag.as_slice() {
+                match e.name().as_ref() {
                     b"table:table" => (rows, used_rows, width) = (0, 0, 0),
                     b"table:table-row" => {
                         (row_repeat, cols, used_cols) =
