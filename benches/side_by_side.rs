@@ -147,11 +147,10 @@ fn main() {
     // ---------------------------------------------------------------- group hierarchy
     // Three sizes from the 10⁴ simulated individuals: every tenth (10³), all (10⁴), and ten
     // copies (10⁵) — the same groups and the same spread of evidence at each size.
-    let group_all: Vec<String> = sim
-        .individuals
-        .iter()
-        .map(|i| i.group.clone().unwrap_or_default())
-        .collect();
+    // The same grouping rule as an analysis (rows without a group share one label).
+    let group_all: Vec<String> = tessera::pipeline::group_labels(&a)
+        .expect("group names")
+        .expect("the simulated rows have groups");
     let sizes = [1_000usize, 10_000, 100_000];
     let mut hierarchy_rows = Vec::new();
     for &n in &sizes {

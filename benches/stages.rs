@@ -72,11 +72,10 @@ fn bench(c: &mut Criterion) {
             b.iter(|| black_box(evaluate_assemblage(&model, a, &ctx)))
         });
         let evidence = evaluate_assemblage(&model, &a, &ctx);
-        let groups: Vec<String> = a
-            .individuals
-            .iter()
-            .map(|i| i.group.clone().unwrap_or_default())
-            .collect();
+        // The same grouping rule as an analysis (rows without a group share one label).
+        let groups: Vec<String> = tessera::pipeline::group_labels(&a)
+            .expect("group names")
+            .expect("the simulated rows have groups");
         g.bench_with_input(
             BenchmarkId::new("posterior, 16 priors", n),
             &evidence,

@@ -43,13 +43,16 @@ pub mod limits;
 pub mod model;
 pub mod numeric;
 pub mod output;
+pub mod pipeline;
 pub mod prior;
+pub mod progress;
 pub mod report;
+pub mod results;
 pub mod sim;
 pub mod summary;
 pub mod validate;
 
-pub use error::Error;
+pub use error::{Error, OptionProblem, OptionProblems};
 
 /// The program version written into every output.
 pub const VERSION: &str = env!("CARGO_PKG_VERSION");

@@ -52,7 +52,7 @@ fn gibbs_agrees_with_exact_enumeration_for_two_individuals() {
         &ev,
         &Prior::fixed(0.5).unwrap(),
         &settings,
-        None,
+        &tessera::progress::Silent,
     );
     // Exact.
     let group_density = |members: &[f64], mu: f64, sd: f64| -> f64 {
@@ -144,7 +144,7 @@ fn one_cemetery(
         &ev,
         &flat,
         &RecalibrationSettings { seed, ..*settings },
-        None,
+        &tessera::progress::Silent,
     );
     // Coverage of the true postcranial means.
     let Block::Latent(tb) = truth

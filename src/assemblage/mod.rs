@@ -63,7 +63,7 @@ pub struct PriorResult {
 
 /// The fitted posteriors behind a [`PriorResult`], kept for drawing.
 #[derive(Debug, Clone, PartialEq)]
-pub struct Fitted {
+pub struct PosteriorFit {
     /// The single-population posterior of π.
     pub posterior: PiPosterior,
     /// The group hierarchy, with groups.
@@ -79,7 +79,7 @@ pub fn under_prior(
     groups: Option<&[String]>,
     prior: &Prior,
     thresholds: &Thresholds,
-) -> (PriorResult, Fitted) {
+) -> (PriorResult, PosteriorFit) {
     under_prior_on(evidence, groups, None, prior, thresholds)
 }
 
@@ -91,7 +91,7 @@ pub fn under_prior_on(
     prepared: Option<&hierarchy::GroupData>,
     prior: &Prior,
     thresholds: &Thresholds,
-) -> (PriorResult, Fitted) {
+) -> (PriorResult, PosteriorFit) {
     let ln_lrs: Vec<f64> = evidence
         .iter()
         .map(|e| if e.estimable { e.ln_lr } else { 0.0 })
@@ -200,7 +200,7 @@ pub fn under_prior_on(
     };
     (
         result,
-        Fitted {
+        PosteriorFit {
             posterior: post,
             hierarchy: hier,
             ln_lrs,
@@ -219,9 +219,9 @@ pub struct Sensitivity {
     pub prior_sensitive: bool,
 }
 
-/// A complete analysis.
+/// The results of one analysis under the chosen prior and every prior of the sensitivity set.
 #[derive(Debug, Clone, PartialEq, Serialize)]
-pub struct Analysis {
+pub struct PriorSetResults {
     /// Results under the chosen prior.
     pub main: PriorResult,
     /// Results under every prior of the sensitivity set (in the set's order).
@@ -232,14 +232,14 @@ pub struct Analysis {
     pub thresholds: Thresholds,
     /// The fitted posteriors under the chosen prior (for joint draws).
     #[serde(skip)]
-    pub fitted: Fitted,
+    pub fitted: PosteriorFit,
     /// The posterior of π under each prior of the sensitivity set (for the figures), aligned
     /// with `sensitivity`.
     #[serde(skip)]
     pub posteriors: Vec<PiPosterior>,
 }
 
-impl Analysis {
+impl PriorSetResults {
     /// Every P(female) and every π summary is finite: the check made before any result is
     /// classified or written (validated inputs make this hold; a failure is a defect to report).
     ///
@@ -281,7 +281,7 @@ pub fn analyse(
     prior: &Prior,
     set: &[Prior],
     thresholds: &Thresholds,
-) -> Analysis {
+) -> PriorSetResults {
     // The groups' likelihood grids do not depend on the prior: prepared once for all.
     let prepared = groups.map(|g| {
         let ln_lrs: Vec<f64> = evidence
@@ -313,7 +313,7 @@ pub fn analyse(
             }
         })
         .collect();
-    Analysis {
+    PriorSetResults {
         main,
         sensitivity,
         individual_sensitivity,

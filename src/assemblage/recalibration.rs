@@ -103,7 +103,7 @@ pub struct FitCheck {
 }
 
 /// The result of a recalibration.
-#[derive(Debug, Clone, PartialEq, Serialize)]
+#[derive(Debug, Clone, PartialEq, Default, Serialize)]
 pub struct Recalibration {
     /// Recalibrated means, by trait then sex.
     pub means: Vec<RecalibratedMean>,
@@ -332,7 +332,7 @@ pub fn recalibrate(
     evidence: &[IndividualEvidence],
     prior: &Prior,
     settings: &RecalibrationSettings,
-    progress: Option<&indicatif::ProgressBar>,
+    progress: &dyn crate::progress::Progress,
 ) -> Recalibration {
     // Metric-only blocks.
     let mut blocks: Vec<MetricBlock> = Vec::new();
@@ -533,7 +533,7 @@ fn run_chain(
     prior: &Prior,
     st: &RecalibrationSettings,
     chain: usize,
-    progress: Option<&indicatif::ProgressBar>,
+    progress: &dyn crate::progress::Progress,
 ) -> ChainOut {
     let mut rng = ChaCha8Rng::seed_from_u64(
         st.seed
@@ -568,10 +568,8 @@ fn run_chain(
     };
     let mut sex = vec![false; n];
     for it in 0..st.iterations {
-        if let Some(p) = progress {
-            if it % 50 == 49 {
-                p.inc(50);
-            }
+        if it % 50 == 49 {
+            progress.advance(50);
         }
         // 1. Sexes given means and π (observed measurements only: missing ones integrate out).
         for i in 0..n {

@@ -36,7 +36,7 @@ pub struct Args {
 /// # Errors
 /// Settings, model and file errors; input problems are printed (exit 3).
 pub fn run(args: Args) -> Result<i32, Error> {
-    let model = super::evidence::load_model(args.model.as_deref())?;
+    let model = crate::pipeline::load_model(args.model.as_deref())?;
     let settings = args.input.settings(&model.catalogue)?;
     let mut tables = Vec::new();
     let mut bad = false;
@@ -44,7 +44,7 @@ pub fn run(args: Args) -> Result<i32, Error> {
         match read_assemblage(f, &model.catalogue, &settings) {
             Ok(a) => tables.push(a),
             Err(e) => {
-                eprint!("{}", super::check::render_problems(&e));
+                eprint!("{}", super::problems::render_problems(&e));
                 bad = true;
             }
         }
@@ -182,7 +182,7 @@ pub fn run(args: Args) -> Result<i32, Error> {
             ]);
         }
         let protected: Vec<&Path> = vec![args.first.as_path(), args.second.as_path()];
-        let table = csv_bytes(rows);
+        let table = csv_bytes(rows)?;
         let mut d = vec![vec![
             "id".to_string(),
             "trait".into(),
@@ -194,13 +194,12 @@ pub fn run(args: Args) -> Result<i32, Error> {
                 .iter()
                 .map(|x| vec![x.id.clone(), x.trait_id.clone(), x.a.clone(), x.b.clone()]),
         );
-        let listed = csv_bytes(d);
+        let listed = csv_bytes(d)?;
         write_folder(
             out,
-            &[
-                ("agreement.csv".to_string(), table.as_slice()),
-                ("disagreements.csv".to_string(), listed.as_slice()),
-            ],
+            &[("agreement.csv", table), ("disagreements.csv", listed)]
+                .into_iter()
+                .collect(),
             "agreement",
             &protected,
         )?;

@@ -52,8 +52,8 @@ struct JsonReport<'a> {
 /// # Errors
 /// Settings and file-access errors; input problems are printed, not returned.
 pub fn run(args: Args) -> Result<i32, Error> {
-    let model = super::evidence::with_minimum_age(
-        super::evidence::load_model(args.model.as_deref())?,
+    let model = crate::pipeline::with_minimum_age(
+        crate::pipeline::load_model(args.model.as_deref())?,
         args.minimum_age,
     )?;
     let catalogue = &model.catalogue;
@@ -87,7 +87,7 @@ pub fn run(args: Args) -> Result<i32, Error> {
         }
         Err(e) => {
             match args.format {
-                Format::Text => eprint!("{}", render_problems(&e)),
+                Format::Text => eprint!("{}", super::problems::render_problems(&e)),
                 Format::Json => print_json(&JsonReport {
                     program: "tessera",
                     version: crate::VERSION,
@@ -193,21 +193,5 @@ pub fn render_text(c: &Completeness, form: &str) -> String {
     }
     let _ = writeln!(s);
     let _ = writeln!(s, "No problems found: the file can be analysed.");
-    s
-}
-
-/// Every problem of a file that failed, one per line.
-pub fn render_problems(e: &InputError) -> String {
-    let mut s = String::new();
-    let _ = writeln!(s, "{e}:");
-    for p in &e.problems {
-        let _ = writeln!(s, "  {p}");
-    }
-    if !e.warnings.is_empty() {
-        let _ = writeln!(s, "Warnings ({}):", e.warnings.len());
-        for w in &e.warnings {
-            let _ = writeln!(s, "  {w}");
-        }
-    }
     s
 }

@@ -6,6 +6,8 @@ use crate::data::Assemblage;
 use crate::likelihood::{evaluate_with_progress, ledger_csv};
 use crate::model::{BlockStatus, Context, IndividualEvidence, Model};
 use crate::output::write_all_atomic;
+use crate::pipeline::{load_model, with_minimum_age};
+use crate::progress::Progress as _;
 use crate::Error;
 use serde::Serialize;
 use std::path::{Path, PathBuf};
@@ -33,54 +35,6 @@ pub struct Args {
     pub input: InputArgs,
 }
 
-/// Load the model named on the command line, or the embedded default.
-///
-/// # Errors
-/// [`Error::Model`] listing every problem of the file.
-pub fn load_model(path: Option<&Path>) -> Result<Model, Error> {
-    Ok(match path {
-        Some(p) => Model::from_path(p)?,
-        None => Model::default_model()?,
-    })
-}
-
-/// The model with the minimum age given on the command line, if any.
-///
-/// # Errors
-/// [`Error::Settings`] when the age is not a number of years from 0 to 100.
-pub fn with_minimum_age(model: Model, years: Option<f64>) -> Result<Model, Error> {
-    match years {
-        None => Ok(model),
-        Some(y) => model
-            .with_minimum_age(y)
-            .map_err(|message| Error::Settings {
-                file: "--minimum-age".into(),
-                message,
-            }),
-    }
-}
-
-/// Print, before any work, everything about the input a reader must know: the reader's
-/// warnings, recorded evidence the model leaves out, and how many scored individuals are below
-/// the minimum age (their morphology is not used). Shared by `evidence` and `analyse`.
-pub fn warn_about_input(model: &Model, a: &crate::data::Assemblage) {
-    for w in &a.warnings {
-        eprintln!("warning: {w}");
-    }
-    for w in model.unused_evidence(a) {
-        eprintln!("warning: {w}");
-    }
-    let n = model.scored_below_minimum_age(a);
-    if n > 0 {
-        eprintln!(
-            "warning: {n} individual{} with skeletal scores or measurements recorded {} below the minimum age ({} years): their skeletal evidence is not used, only DNA (morphology is used unless the age is certainly below the minimum; a range reaching it is used; --minimum-age changes the age)",
-            if n == 1 { "" } else { "s" },
-            if n == 1 { "is" } else { "are" },
-            model.minimum_age
-        );
-    }
-}
-
 #[derive(Serialize)]
 struct RunRecord<'a> {
     program: &'static str,
@@ -98,18 +52,19 @@ struct RunRecord<'a> {
 /// Run the command; returns the exit code.
 ///
 /// # Errors
-/// Model, settings and file errors; input problems are printed and give exit code 3.
+/// Model, settings and file errors; [`Error::Input`] with every problem of the table.
 pub fn run(args: Args) -> Result<i32, Error> {
     let model = with_minimum_age(load_model(args.model.as_deref())?, args.minimum_age)?;
     let settings = args.input.settings(&model.catalogue)?;
-    let Some(a) = super::input::read_or_report(&args.file, &model.catalogue, &settings) else {
-        return Ok(3);
-    };
-    warn_about_input(&model, &a);
+    let a = crate::pipeline::read_path(&args.file, &model.catalogue, &settings)?;
+    for w in crate::pipeline::input_notes(&model, &a) {
+        eprintln!("warning: {w}");
+    }
     let ctx = Context::new(args.seed);
-    let bar = super::progress_bar(a.individuals.len(), "weighing the evidence");
-    let evidence = evaluate_with_progress(&model, &a, &ctx, Some(&bar));
-    bar.finish_and_clear();
+    let bar = super::TerminalProgress::default();
+    bar.stage("weighing the evidence", a.individuals.len() as u64);
+    let evidence = evaluate_with_progress(&model, &a, &ctx, &bar);
+    bar.finish();
     let csv = ledger_csv(&model, &a, &evidence).map_err(|e| Error::Io {
         path: args.out.clone(),
         source: std::io::Error::other(e.to_string()),

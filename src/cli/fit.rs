@@ -4,7 +4,7 @@
 use super::input::InputArgs;
 use crate::catalogue::Catalogue;
 use crate::data::{Assemblage, Individual, Sex};
-use crate::fit::{check_spec, fit, FitSpec, Fitted, ReferenceInfo};
+use crate::fit::{check_spec, fit, FitSpec, FittedModel, ReferenceInfo};
 use crate::output::write_all_atomic;
 use crate::Error;
 use std::path::{Path, PathBuf};
@@ -60,15 +60,6 @@ pub fn documented(a: &Assemblage) -> (Vec<(&Individual, Sex)>, Option<String>) {
     (known, warning)
 }
 
-/// Render the problems of a fit, one per line.
-pub fn render_fit_problems(e: &crate::fit::FitError) -> String {
-    let mut s = format!("{e}\n");
-    for p in &e.problems {
-        s.push_str(&format!("  {}: {}\n", p.place, p.message));
-    }
-    s
-}
-
 /// The path of the estimates table beside a model file.
 pub fn estimates_path(model: &Path) -> PathBuf {
     let stem = model
@@ -81,26 +72,18 @@ pub fn estimates_path(model: &Path) -> PathBuf {
 /// Run the command; returns the exit code.
 ///
 /// # Errors
-/// Settings and file errors; input and fitting problems are printed and give exit code 3.
+/// Settings and file errors; [`Error::Input`] and [`Error::Fit`] with every problem inside.
 pub fn run(args: Args) -> Result<i32, Error> {
     let (spec, catalogue) = load_spec(&args.traits)?;
     let settings = args.input.settings(&catalogue)?;
-    let Some(a) = super::input::read_or_report(&args.reference, &catalogue, &settings) else {
-        return Ok(3);
-    };
+    let a = crate::pipeline::read_path(&args.reference, &catalogue, &settings)?;
     let (known, unknown) = documented(&a);
     let info = ReferenceInfo {
         file: a.file.clone(),
         sha256: a.sha256.clone(),
         command: super::command_line().join(" "),
     };
-    let fitted: Fitted = match fit(&spec, &catalogue, &known, &info) {
-        Ok(f) => f,
-        Err(e) => {
-            eprint!("{}", render_fit_problems(&e));
-            return Ok(3);
-        }
-    };
+    let fitted: FittedModel = fit(&spec, &catalogue, &known, &info)?;
     let yaml = fitted.to_yaml().map_err(|m| Error::Settings {
         file: args.out.display().to_string(),
         message: m,
@@ -109,7 +92,7 @@ pub fn run(args: Args) -> Result<i32, Error> {
     crate::model::Model::from_yaml(&args.out.display().to_string(), &yaml)?;
     let protected: Vec<&Path> = vec![args.reference.as_path(), args.traits.as_path()];
     let estimates = estimates_path(&args.out);
-    let table = fitted.estimates_csv();
+    let table = fitted.estimates_csv()?;
     write_all_atomic(
         &[
             (estimates.clone(), table.as_slice()),

@@ -8,6 +8,7 @@ pub mod evidence;
 pub mod fit;
 pub mod input;
 pub mod plan;
+pub mod problems;
 pub mod simulate;
 pub mod validate;
 
@@ -61,6 +62,15 @@ pub fn run(cli: Cli) -> i32 {
     };
     match result {
         Ok(code) => code,
+        // Problem lists are shown one per line, as the front door's job.
+        Err(crate::Error::Input(e)) => {
+            eprint!("{}", problems::render_problems(&e));
+            3
+        }
+        Err(crate::Error::Fit(e)) => {
+            eprint!("{}", problems::render_fit_problems(&e));
+            3
+        }
         Err(e) => {
             eprintln!("tessera: {e}");
             e.exit_code()
@@ -76,23 +86,47 @@ pub fn command_line() -> Vec<String> {
         .collect()
 }
 
-/// A settings error from a command-line option.
+/// An error in one command-line option.
 pub(crate) fn settings_error(option: &str, message: String) -> crate::Error {
-    crate::Error::Settings {
-        file: option.into(),
-        message,
+    crate::Error::Options(crate::OptionProblems::one(option, message))
+}
+
+/// Progress drawn as a bar on standard error, only when standard error is a terminal
+/// (indicatif hides it otherwise), so files and pipes receive no bar.
+#[derive(Debug)]
+pub struct TerminalProgress {
+    bar: std::sync::RwLock<indicatif::ProgressBar>,
+}
+
+impl Default for TerminalProgress {
+    fn default() -> Self {
+        TerminalProgress {
+            bar: std::sync::RwLock::new(indicatif::ProgressBar::hidden()),
+        }
     }
 }
 
-/// A progress bar on standard error, drawn only when standard error is a terminal (indicatif
-/// hides it otherwise), so files and pipes receive no bar.
-pub(crate) fn progress_bar(len: usize, what: &str) -> indicatif::ProgressBar {
-    let bar = indicatif::ProgressBar::new(len as u64);
-    bar.set_style(
-        indicatif::ProgressStyle::with_template(&format!(
-            "{what} [{{bar:40}}] {{pos}}/{{len}} ({{eta}} left)"
-        ))
-        .unwrap_or_else(|_| indicatif::ProgressStyle::default_bar()),
-    );
-    bar
+impl crate::progress::Progress for TerminalProgress {
+    fn stage(&self, what: &str, steps: u64) {
+        let bar = indicatif::ProgressBar::new(steps);
+        bar.set_style(
+            indicatif::ProgressStyle::with_template(&format!(
+                "{what} [{{bar:40}}] {{pos}}/{{len}} ({{eta}} left)"
+            ))
+            .unwrap_or_else(|_| indicatif::ProgressStyle::default_bar()),
+        );
+        if let Ok(mut b) = self.bar.write() {
+            *b = bar;
+        }
+    }
+    fn advance(&self, n: u64) {
+        if let Ok(b) = self.bar.read() {
+            b.inc(n);
+        }
+    }
+    fn finish(&self) {
+        if let Ok(b) = self.bar.read() {
+            b.finish_and_clear();
+        }
+    }
 }

@@ -3,6 +3,7 @@
 use crate::assemblage::{Category, Thresholds};
 use crate::output::write_atomic;
 use crate::prior::parse_prior_set;
+use crate::progress::Progress as _;
 use crate::sim::plan::{plan_with_progress, PlanSettings};
 use crate::sim::MissingSpec;
 use crate::Error;
@@ -45,7 +46,7 @@ use super::settings_error;
 /// # Errors
 /// Settings, model and file errors.
 pub fn run(args: Args) -> Result<i32, Error> {
-    let model = super::evidence::load_model(args.model.as_deref())?;
+    let model = crate::pipeline::load_model(args.model.as_deref())?;
     if !(args.pi > 0.0 && args.pi < 1.0) {
         return Err(settings_error(
             "--pi",
@@ -76,13 +77,14 @@ pub fn run(args: Args) -> Result<i32, Error> {
         replicates: args.reps,
         seed: args.seed,
     };
-    let bar = super::progress_bar(
-        settings.sizes.len() * settings.replicates,
+    let bar = super::TerminalProgress::default();
+    bar.stage(
         "simulating excavations",
+        (settings.sizes.len() * settings.replicates) as u64,
     );
-    let rows = plan_with_progress(&model, &settings, Some(&bar))
-        .map_err(|e| settings_error("--model", e.to_string()))?;
-    bar.finish_and_clear();
+    let rows = plan_with_progress(&model, &settings, &bar);
+    bar.finish();
+    let rows = rows.map_err(|e| settings_error("--model", e.to_string()))?;
     let mut t = String::new();
     let _ = writeln!(
         t,

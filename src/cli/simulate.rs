@@ -49,7 +49,7 @@ use super::settings_error;
 /// # Errors
 /// Settings, model and file errors.
 pub fn run(args: Args) -> Result<i32, Error> {
-    let model = super::evidence::load_model(args.model.as_deref())?;
+    let model = crate::pipeline::load_model(args.model.as_deref())?;
     let groups = match (&args.groups, args.n) {
         (Some(spec), _) => parse_groups(spec).map_err(|m| settings_error("--groups", m))?,
         (None, Some(n)) => {

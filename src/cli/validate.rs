@@ -1,12 +1,14 @@
 //! `tessera validate REFERENCE (--traits SPEC | --model MODEL)`: how often a model, refitted
 //! without each individual's fold, gets documented sex right; a report a lab can file.
 
-use super::fit::{documented, load_spec, render_fit_problems};
+use super::fit::{documented, load_spec};
 use super::input::InputArgs;
+use super::problems::render_fit_problems;
 use crate::assemblage::category::Thresholds;
 use crate::fit::ReferenceInfo;
 use crate::model::Model;
 use crate::output::write_folder;
+use crate::progress::Progress as _;
 use crate::report::validation::{headline, validation_files};
 use crate::validate::{
     validate_with_progress, Folds, Subject, ValidationError, ValidationSettings,
@@ -78,9 +80,7 @@ pub fn run(args: Args) -> Result<i32, Error> {
         }
     };
     let settings = args.input.settings(&catalogue)?;
-    let Some(a) = super::input::read_or_report(&args.reference, &catalogue, &settings) else {
-        return Ok(3);
-    };
+    let a = crate::pipeline::read_path(&args.reference, &catalogue, &settings)?;
     let (known, unknown) = documented(&a);
     let command = super::command_line().join(" ");
     let info = ReferenceInfo {
@@ -106,9 +106,10 @@ pub fn run(args: Args) -> Result<i32, Error> {
         (None, Some(m)) => (Subject::Fixed(m), format!("the model `{}`", m.name)),
         (None, None) => unreachable_settings()?,
     };
-    let bar = super::progress_bar(known.len(), "classifying held-out individuals");
-    let result = validate_with_progress(subject, &known, &info, &vs, Some(&bar));
-    bar.finish_and_clear();
+    let bar = super::TerminalProgress::default();
+    bar.stage("classifying held-out individuals", known.len() as u64);
+    let result = validate_with_progress(subject, &known, &info, &vs, &bar);
+    bar.finish();
     let v = match result {
         Ok(v) => v,
         Err(ValidationError::Fit {
@@ -120,7 +121,12 @@ pub fn run(args: Args) -> Result<i32, Error> {
             eprint!("{}", render_fit_problems(&source));
             return Ok(3);
         }
-        Err(e) => return Err(super::settings_error("validation", e.to_string())),
+        Err(e) => {
+            return Err(Error::Settings {
+                file: "validation settings".into(),
+                message: e.to_string(),
+            })
+        }
     };
     println!("Validation of {name} on {}", a.file);
     print!("{}", headline(&v));
@@ -139,8 +145,7 @@ pub fn run(args: Args) -> Result<i32, Error> {
     }
     println!("Estimates, not identifications; these error rates hold for populations like this reference.");
     if let Some(out) = &args.out {
-        let files = validation_files(&v, &a.file, &a.sha256, &name, &command)
-            .map_err(|e| super::settings_error("figure", e.to_string()))?;
+        let files = validation_files(&v, &a.file, &a.sha256, &name, &command)?;
         let mut protected: Vec<&Path> = vec![args.reference.as_path()];
         if let Some(t) = &args.traits {
             protected.push(t.as_path());
@@ -148,15 +153,11 @@ pub fn run(args: Args) -> Result<i32, Error> {
         if let Some(m) = &args.model {
             protected.push(m.as_path());
         }
-        let all: Vec<(String, &[u8])> = files
-            .iter()
-            .map(|(file, bytes)| (file.clone(), bytes.as_slice()))
-            .collect();
-        write_folder(out, &all, "validate", &protected)?;
+        write_folder(out, &files, "validate", &protected)?;
         println!(
             "Wrote the report to {}/ (report.md and {} more files).",
             out.display(),
-            files.len() - 1
+            files.files.len() - 1
         );
     }
     Ok(0)
@@ -164,7 +165,7 @@ pub fn run(args: Args) -> Result<i32, Error> {
 
 fn unreachable_settings<T>() -> Result<T, Error> {
     Err(super::settings_error(
-        "command line",
+        "traits",
         "give --traits SPEC (cross-validation) or --model FILE".into(),
     ))
 }

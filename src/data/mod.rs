@@ -20,7 +20,8 @@ pub use cell::Observation;
 pub use completeness::Completeness;
 pub use problem::{Problem, ProblemKind, Warning, WarningKind};
 pub use reader::{
-    read_assemblage, read_assemblage_text, sha256_hex, Assemblage, Individual, InputError, SideUsed,
+    read_assemblage, read_assemblage_bytes, read_assemblage_text, sha256_hex, Assemblage,
+    Individual, InputError, SideUsed,
 };
 pub use settings::{ReadSettings, ScaleMap, SidePolicy, SideTolerance};
 pub use source::TableFormat;

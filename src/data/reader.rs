@@ -137,12 +137,46 @@ pub fn read_assemblage(
             },
         }])
     })?;
-    let table = if is_workbook(path) {
-        read_workbook(path, &bytes, settings.sheet.as_deref()).map_err(fail)?
-    } else {
-        read_text(&name, &bytes).map_err(fail)?
+    read_assemblage_bytes(&name, &bytes, catalogue, settings)
+}
+
+/// Read and validate a table held in memory (an upload): a workbook when `name` ends in a
+/// workbook's extension (`.xlsx`, `.xlsm`, `.xlsb`, `.xls`, `.ods`), delimited text otherwise.
+/// `name` is used in messages and the record of the run.
+///
+/// # Errors
+/// [`InputError`] listing every problem found.
+pub fn read_assemblage_bytes(
+    name: &str,
+    bytes: &[u8],
+    catalogue: &Catalogue,
+    settings: &ReadSettings,
+) -> Result<Assemblage, InputError> {
+    let fail = |problems| InputError {
+        file: name.to_string(),
+        problems,
+        warnings: Vec::new(),
     };
-    build(&name, table, sha256_hex(&bytes), catalogue, settings)
+    if bytes.len() as u64 > MAX_INPUT_BYTES {
+        return Err(fail(vec![Problem {
+            file: name.to_string(),
+            row: None,
+            column: None,
+            value: Some(format!("more than {} MiB", MAX_INPUT_BYTES >> 20)),
+            kind: ProblemKind::Unreadable,
+            expected: format!(
+                "a table of at most {} MiB (about three million individuals); split larger files by site, phase or zone and analyse them as groups of one study",
+                MAX_INPUT_BYTES >> 20
+            ),
+        }]));
+    }
+    let path = Path::new(name);
+    let table = if is_workbook(path) {
+        read_workbook(path, bytes, settings.sheet.as_deref()).map_err(fail)?
+    } else {
+        read_text(name, bytes).map_err(fail)?
+    };
+    build(name, table, sha256_hex(bytes), catalogue, settings)
 }
 
 /// Read and validate delimited text held in memory. `name` is used in messages.

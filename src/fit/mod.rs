@@ -94,7 +94,7 @@ pub struct ReferenceInfo {
 
 /// A fitted model, its estimates and the warnings a person should read.
 #[derive(Debug, Clone)]
-pub struct Fitted {
+pub struct FittedModel {
     /// The model, ready to be written as YAML.
     pub model: RawModel,
     /// Every estimate with its standard error.
@@ -107,7 +107,7 @@ pub struct Fitted {
     pub n_male: usize,
 }
 
-impl Fitted {
+impl FittedModel {
     /// The model as YAML text.
     ///
     /// # Errors
@@ -118,7 +118,10 @@ impl Fitted {
 
     /// The table of estimates as CSV: block, trait, parameter, scale, estimate, se, lower_95,
     /// upper_95, n.
-    pub fn estimates_csv(&self) -> Vec<u8> {
+    ///
+    /// # Errors
+    /// [`RenderError`](crate::report::RenderError) when a row cannot be written.
+    pub fn estimates_csv(&self) -> Result<Vec<u8>, crate::report::RenderError> {
         let mut rows = vec![crate::report::header(&[
             "block",
             "trait",
@@ -219,7 +222,7 @@ pub fn fit(
     catalogue: &Catalogue,
     reference: &[(&Individual, Sex)],
     info: &ReferenceInfo,
-) -> Result<Fitted, FitError> {
+) -> Result<FittedModel, FitError> {
     let minimum_age = spec.minimum_age.unwrap_or(DEFAULT_MINIMUM_AGE);
     let mut warnings = Vec::new();
     let used: Vec<(&Individual, Sex)> = reference
@@ -286,7 +289,7 @@ pub fn fit(
             format!("\nWarnings at fitting:\n- {}", warnings.join("\n- "))
         }
     );
-    Ok(Fitted {
+    Ok(FittedModel {
         model: RawModel {
             name: spec.name.clone(),
             description: spec.description.clone(),

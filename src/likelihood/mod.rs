@@ -20,7 +20,7 @@ pub fn evaluate_assemblage(
     assemblage: &Assemblage,
     ctx: &Context,
 ) -> Vec<IndividualEvidence> {
-    evaluate_with_progress(model, assemblage, ctx, None)
+    evaluate_with_progress(model, assemblage, ctx, &crate::progress::Silent)
 }
 
 /// As [`evaluate_assemblage`], advancing `progress` by one per individual.
@@ -28,7 +28,7 @@ pub fn evaluate_with_progress(
     model: &Model,
     assemblage: &Assemblage,
     ctx: &Context,
-    progress: Option<&indicatif::ProgressBar>,
+    progress: &dyn crate::progress::Progress,
 ) -> Vec<IndividualEvidence> {
     let cache = EvidenceCache::default();
     assemblage
@@ -36,9 +36,7 @@ pub fn evaluate_with_progress(
         .par_iter()
         .map(|ind| {
             let e = model.evaluate_cached(ind, ctx, &cache);
-            if let Some(p) = progress {
-                p.inc(1);
-            }
+            progress.advance(1);
             e
         })
         .collect()

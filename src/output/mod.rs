@@ -16,6 +16,10 @@
 //! - On an interrupt ([`finish_interrupted`]) every temporary file and folder is removed, and
 //!   the message says truthfully whether the run's outputs had already been put in place.
 
+pub mod set;
+
+pub use set::{OutputFile, OutputSet};
+
 use crate::Error;
 use std::io::Write;
 use std::path::{Path, PathBuf};
@@ -205,15 +209,15 @@ fn temp_file_in(dir: &Path, name: &str) -> std::io::Result<tempfile::NamedTempFi
 }
 
 /// Write one run's files into the folder `dir` as one transaction (see the module docs).
-/// `files` are relative paths inside the folder (sub-folders such as `figures/` are made);
-/// `command` names what wrote them, in the manifest.
+/// The files' names are relative paths inside the folder (sub-folders such as `figures/` are
+/// made); `command` names what wrote them, in the manifest.
 ///
 /// # Errors
 /// [`Error::Io`] when `dir` exists and is not a folder, holds files that are not one earlier
 /// run's (listed by name), contains an input of the run, or cannot be written.
 pub fn write_folder(
     dir: &Path,
-    files: &[(String, &[u8])],
+    files: &OutputSet,
     command: &str,
     protected: &[&Path],
 ) -> Result<(), Error> {
@@ -252,7 +256,10 @@ pub fn write_folder(
     let forget = |p: &Path| state().partial.retain(|q| q != p);
     let built = (|| {
         let mut manifest = format!("# written by tessera {command}; one run's files\n");
-        for (rel, bytes) in files {
+        for OutputFile {
+            name: rel, bytes, ..
+        } in &files.files
+        {
             let path = staging.path().join(rel);
             if let Some(d) = path.parent() {
                 std::fs::create_dir_all(d)?;

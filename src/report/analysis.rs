@@ -26,45 +26,15 @@
 //! and SHA-256), thresholds, seed. No clock time, so the same inputs and seed give the same
 //! bytes.
 
-use crate::assemblage::draws::{count_summary, Draws};
-use crate::assemblage::{lr_support, Analysis, Category, PriorResult};
-use crate::data::Assemblage;
+use super::RenderError;
+use crate::assemblage::draws::count_summary;
+use crate::assemblage::{lr_support, Category, PriorResult};
 use crate::model::{BlockStatus, IndividualEvidence, Model};
+use crate::output::OutputSet;
+use crate::results::{AnalysisResult, RunInfo};
 use serde::Serialize;
 use std::f64::consts::LN_10;
 use std::fmt::Write as _;
-
-/// Facts about the run written into `run.json`.
-#[derive(Debug, Clone, Serialize)]
-pub struct RunInfo {
-    /// Program name.
-    pub program: &'static str,
-    /// Program version.
-    pub version: &'static str,
-    /// The command line.
-    pub command: Vec<String>,
-    /// Input file.
-    pub input: String,
-    /// Input SHA-256.
-    pub input_sha256: String,
-    /// Model name.
-    pub model: String,
-    /// Model file or `embedded default`.
-    pub model_file: String,
-    /// Model SHA-256.
-    pub model_sha256: String,
-    /// Seed of every random stream.
-    pub seed: u64,
-    /// Side policy used reading the input.
-    pub side_policy: String,
-}
-
-/// The bytes of every file `analyse` writes, by file name.
-#[derive(Debug, Clone, PartialEq)]
-pub struct AnalysisFiles {
-    /// (file name, contents), in writing order.
-    pub files: Vec<(String, Vec<u8>)>,
-}
 
 fn f6(x: f64) -> String {
     format!("{x:.6}")
@@ -150,21 +120,32 @@ fn flags(sides_disagree: bool, ev: &IndividualEvidence, prior_sensitive: bool) -
 use super::{csv_bytes, header, CsvText};
 use crate::assemblage::posterior::p_female_given;
 
-/// Render the four files.
+/// The analysis's tables and run record, in writing order: `individuals.csv`,
+/// `assemblage.csv`, `sensitivity.csv`, `groups.csv` (with groups), `draws.csv` and
+/// `assemblage_draws.csv` (with `--draws N`), `run.json`.
 ///
 /// # Errors
-/// Only if JSON serialisation fails (it does not for these types).
-pub fn render_files(
-    model: &Model,
-    a: &Assemblage,
-    evidence: &[IndividualEvidence],
-    analysis: &Analysis,
-    draws: &Draws,
-    write_draws: bool,
-    run: &RunInfo,
-) -> Result<AnalysisFiles, serde_json::Error> {
+/// [`RenderError`] when a table or the record cannot be built.
+pub fn render_files(r: &AnalysisResult) -> Result<OutputSet, RenderError> {
+    let mut files = OutputSet::default();
+    files.push("individuals.csv", individuals_csv(r)?);
+    files.push("assemblage.csv", assemblage_csv(r)?);
+    files.push("sensitivity.csv", sensitivity_csv(r)?);
+    if !r.results.main.groups.is_empty() {
+        files.push("groups.csv", groups_csv(r)?);
+    }
+    if r.write_draws {
+        files.push("draws.csv", draws_csv(r)?);
+        files.push("assemblage_draws.csv", assemblage_draws_csv(r)?);
+    }
+    files.push("run.json", run_json(r)?);
+    Ok(files)
+}
+
+/// `individuals.csv`: one row per individual (the columns are listed in the module's doc).
+fn individuals_csv(r: &AnalysisResult) -> Result<Vec<u8>, RenderError> {
+    let (model, a, evidence, analysis) = (&r.model, &r.assemblage, &r.evidence, &r.results);
     let main = &analysis.main;
-    // individuals.csv
     let mut head: Vec<String> = header(&[
         "id",
         "group",
@@ -250,8 +231,12 @@ pub fn render_files(
         r.extend(ind.carried.iter().cloned());
         rows.push(r);
     }
-    let individuals = csv_bytes(rows);
-    // assemblage.csv
+    csv_bytes(rows)
+}
+
+/// `assemblage.csv`: one row per prior, the chosen prior first.
+fn assemblage_csv(r: &AnalysisResult) -> Result<Vec<u8>, RenderError> {
+    let (a, analysis, draws) = (&r.assemblage, &r.results, &r.draws);
     let all: Vec<&PriorResult> = analysis.results().collect();
     let mut rows = vec![header(&[
         "prior",
@@ -340,23 +325,30 @@ pub fn render_files(
         }
         rows.push(row);
     }
-    let assemblage = csv_bytes(rows);
-    // sensitivity.csv
+    csv_bytes(rows)
+}
+
+/// `sensitivity.csv`: one row per individual and prior.
+fn sensitivity_csv(r: &AnalysisResult) -> Result<Vec<u8>, RenderError> {
+    let all: Vec<&PriorResult> = r.results.results().collect();
     let mut text = CsvText::default();
     text.row(["id", "prior", "p_female", "category"]);
-    for (i, ind) in a.individuals.iter().enumerate() {
-        for r in &all {
-            let p = r.p_female[i].map(prob).unwrap_or_default();
+    for (i, ind) in r.assemblage.individuals.iter().enumerate() {
+        for x in &all {
+            let p = x.p_female[i].map(prob).unwrap_or_default();
             text.row([
                 ind.id.as_str(),
-                r.prior.name.as_str(),
+                x.prior.name.as_str(),
                 p.as_str(),
-                r.categories[i].as_str(),
+                x.categories[i].as_str(),
             ]);
         }
     }
-    let sensitivity = text.finish();
-    // run.json
+    text.finish()
+}
+
+/// `run.json`: the run's provenance, priors and cut-offs (no clock time).
+fn run_json(r: &AnalysisResult) -> Result<Vec<u8>, RenderError> {
     #[derive(Serialize)]
     struct PriorRef<'a> {
         name: &'a str,
@@ -379,19 +371,19 @@ pub fn render_files(
         }
     }
     let record = Record {
-        run,
-        prior: pref(main),
-        sensitivity_priors: analysis.sensitivity.iter().map(pref).collect(),
-        thresholds: analysis.thresholds,
+        run: &r.run,
+        prior: pref(&r.results.main),
+        sensitivity_priors: r.results.sensitivity.iter().map(pref).collect(),
+        thresholds: r.results.thresholds,
     };
     let mut json = serde_json::to_vec_pretty(&record)?;
     json.push(b'\n');
-    let mut files = vec![
-        ("individuals.csv".to_string(), individuals),
-        ("assemblage.csv".to_string(), assemblage),
-        ("sensitivity.csv".to_string(), sensitivity),
-    ];
-    if !main.groups.is_empty() {
+    Ok(json)
+}
+
+/// `groups.csv`: one row per group.
+fn groups_csv(r: &AnalysisResult) -> Result<Vec<u8>, RenderError> {
+    {
         let mut rows = vec![header(&[
             "group",
             "n",
@@ -402,7 +394,7 @@ pub fn render_files(
             "n_estimable",
             "pi_median",
         ])];
-        for g in &main.groups {
+        for g in &r.results.main.groups {
             rows.push(vec![
                 g.group.clone(),
                 g.n.to_string(),
@@ -414,9 +406,14 @@ pub fn render_files(
                 f6(g.pi.median),
             ]);
         }
-        files.push(("groups.csv".into(), csv_bytes(rows)));
+        csv_bytes(rows)
     }
-    if write_draws {
+}
+
+/// `draws.csv`: the joint draws of every individual's sex, in long form.
+fn draws_csv(r: &AnalysisResult) -> Result<Vec<u8>, RenderError> {
+    let (a, draws) = (&r.assemblage, &r.draws);
+    {
         let mut text = CsvText::default();
         text.row(["draw", "id", "sex"]);
         for (d, sexes) in draws.female.iter().enumerate() {
@@ -425,7 +422,16 @@ pub fn render_files(
                 text.row([draw.as_str(), ind.id.as_str(), if f { "F" } else { "M" }]);
             }
         }
-        files.push(("draws.csv".into(), text.finish()));
+        text.finish()
+    }
+}
+
+/// `assemblage_draws.csv`: per draw the hierarchy, the proportions and the counts.
+fn assemblage_draws_csv(r: &AnalysisResult) -> Result<Vec<u8>, RenderError> {
+    let (draws, main) = (&r.draws, &r.results.main);
+    let n_female = draws.n_female();
+    let n = r.assemblage.individuals.len();
+    {
         let mut head = vec!["draw".to_string(), "mu".into(), "kappa".into()];
         if main.groups.is_empty() {
             head.push("pi".into());
@@ -452,19 +458,13 @@ pub fn render_files(
             });
             rows.push(r);
         }
-        files.push(("assemblage_draws.csv".into(), csv_bytes(rows)));
+        csv_bytes(rows)
     }
-    files.push(("run.json".into(), json));
-    Ok(AnalysisFiles { files })
 }
 
 /// The readable summary printed after an analysis.
-pub fn terminal_summary(
-    model: &Model,
-    a: &Assemblage,
-    analysis: &Analysis,
-    draws: &Draws,
-) -> String {
+pub fn terminal_summary(r: &AnalysisResult) -> String {
+    let (model, a, analysis, draws) = (&r.model, &r.assemblage, &r.results, &r.draws);
     let main = &analysis.main;
     let mut s = String::new();
     let _ = writeln!(
@@ -517,7 +517,7 @@ pub fn terminal_summary(
             s,
             "Group          n   proportion female (95% interval)   expected females"
         );
-        for g in &main.groups {
+        for g in &r.results.main.groups {
             let _ = writeln!(
                 s,
                 "  {:<10} {:>4}   {:.3} ({:.3} to {:.3})             {:>6.1}",
@@ -588,11 +588,14 @@ pub fn terminal_summary(
 /// recalibrated_mean, lo, hi, shift_sd, rhat, ess), `recalibration_check.csv` (trait, n,
 /// share_outside_99, flagged) and `recalibrated_individuals.csv` (id, p_female_reference,
 /// p_female_recalibrated, category_reference, category_recalibrated, category_changed).
+///
+/// # Errors
+/// [`RenderError`] when a table cannot be built.
 pub fn recalibration_files(
-    a: &Assemblage,
-    analysis: &Analysis,
+    result: &AnalysisResult,
     r: &crate::assemblage::recalibration::Recalibration,
-) -> Vec<(String, Vec<u8>)> {
+) -> Result<OutputSet, RenderError> {
+    let (a, analysis) = (&result.assemblage, &result.results);
     let mut rows = vec![header(&[
         "trait",
         "sex",
@@ -652,9 +655,9 @@ pub fn recalibration_files(
             (cat(p) != cat(q)).to_string(),
         ]);
     }
-    vec![
-        ("recalibration.csv".into(), csv_bytes(rows)),
-        ("recalibration_check.csv".into(), csv_bytes(checks)),
-        ("recalibrated_individuals.csv".into(), csv_bytes(ind)),
-    ]
+    let mut files = OutputSet::default();
+    files.push("recalibration.csv", csv_bytes(rows)?);
+    files.push("recalibration_check.csv", csv_bytes(checks)?);
+    files.push("recalibrated_individuals.csv", csv_bytes(ind)?);
+    Ok(files)
 }

@@ -5,10 +5,43 @@ pub mod figures;
 pub mod publication;
 pub mod validation;
 
-pub use analysis::{AnalysisFiles, RunInfo};
+pub use crate::results::{BySex, RunInfo};
 
-/// Rows as CSV text with `\n` line ends (writing to memory cannot fail for text records).
-pub fn csv_bytes(rows: Vec<Vec<String>>) -> Vec<u8> {
+/// An output that could not be built (a table row of the wrong width, a figure that cannot be
+/// drawn, a record that cannot be serialised). Nothing is written when it happens.
+#[derive(Debug, Clone, PartialEq, Eq, thiserror::Error)]
+#[error("an output could not be built: {message}")]
+pub struct RenderError {
+    /// What failed, where.
+    pub message: String,
+}
+
+impl RenderError {
+    /// A render error with this message.
+    pub fn new(message: impl Into<String>) -> Self {
+        RenderError {
+            message: message.into(),
+        }
+    }
+}
+
+impl From<figures::FigureError> for RenderError {
+    fn from(e: figures::FigureError) -> Self {
+        RenderError::new(e.to_string())
+    }
+}
+
+impl From<serde_json::Error> for RenderError {
+    fn from(e: serde_json::Error) -> Self {
+        RenderError::new(format!("run record: {e}"))
+    }
+}
+
+/// Rows as CSV text with `\n` line ends.
+///
+/// # Errors
+/// [`RenderError`] when a row's width differs from the first row's.
+pub fn csv_bytes(rows: Vec<Vec<String>>) -> Result<Vec<u8>, RenderError> {
     let mut b = CsvText::default();
     for r in rows {
         b.row(&r);
@@ -17,9 +50,12 @@ pub fn csv_bytes(rows: Vec<Vec<String>>) -> Vec<u8> {
 }
 
 /// CSV text built row by row, for tables too long to hold as strings first (one row per
-/// individual and prior, or per individual and draw): the same bytes as [`csv_bytes`].
+/// individual and prior, or per individual and draw): the same bytes as [`csv_bytes`]. The
+/// first failed row is kept and reported by [`finish`](Self::finish); later rows are ignored.
 pub struct CsvText {
     w: csv::Writer<Vec<u8>>,
+    rows: usize,
+    error: Option<RenderError>,
 }
 
 impl Default for CsvText {
@@ -28,27 +64,64 @@ impl Default for CsvText {
             w: csv::WriterBuilder::new()
                 .terminator(csv::Terminator::Any(b'\n'))
                 .from_writer(Vec::new()),
+            rows: 0,
+            error: None,
         }
     }
 }
 
 impl CsvText {
-    /// Append one row.
+    /// Append one row (every row must have the header's width).
     pub fn row<I, T>(&mut self, cells: I)
     where
         I: IntoIterator<Item = T>,
         T: AsRef<[u8]>,
     {
-        let _ = self.w.write_record(cells);
+        if self.error.is_some() {
+            return;
+        }
+        self.rows += 1;
+        if let Err(e) = self.w.write_record(cells) {
+            self.error = Some(RenderError::new(format!(
+                "table row {} cannot be written: {e}",
+                self.rows
+            )));
+        }
     }
 
     /// The text.
-    pub fn finish(self) -> Vec<u8> {
-        self.w.into_inner().unwrap_or_default()
+    ///
+    /// # Errors
+    /// The first row that could not be written.
+    pub fn finish(self) -> Result<Vec<u8>, RenderError> {
+        if let Some(e) = self.error {
+            return Err(e);
+        }
+        self.w
+            .into_inner()
+            .map_err(|e| RenderError::new(format!("table cannot be finished: {}", e.error())))
     }
 }
 
 /// A header row from column names.
 pub fn header(names: &[&str]) -> Vec<String> {
     names.iter().map(|s| s.to_string()).collect()
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn a_row_of_the_wrong_width_is_an_error_not_a_silent_gap() {
+        let ok = csv_bytes(vec![header(&["a", "b"]), header(&["1", "2"])]).unwrap();
+        assert_eq!(ok, b"a,b\n1,2\n");
+        let e = csv_bytes(vec![
+            header(&["a", "b"]),
+            header(&["1"]),
+            header(&["3", "4"]),
+        ])
+        .unwrap_err();
+        assert!(e.message.contains("row 2"), "{e}");
+    }
 }

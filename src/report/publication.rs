@@ -1,28 +1,16 @@
 //! What goes into the paper: `report.md`, `tables.tex`, `methods.md`, the by-sex CSV tables
 //! and the figures.
 
-use super::analysis::RunInfo;
-use super::figures;
-use crate::assemblage::draws::Draws;
-use crate::assemblage::{Analysis, Category};
+use super::{figures, RenderError};
+use crate::assemblage::Category;
 use crate::catalogue::Region;
-use crate::data::Assemblage;
 use crate::model::{Block, BlockStatus, IndividualEvidence, Model};
-use crate::summary::{category_by_age, AgeBySex, PrevalenceBySex};
+use crate::output::OutputSet;
+use crate::results::{AnalysisResult, BySex};
+use crate::summary::category_by_age;
 use std::collections::BTreeSet;
 use std::f64::consts::LN_10;
 use std::fmt::Write as _;
-
-/// The analyses by sex that were run.
-#[derive(Debug, Clone, PartialEq)]
-pub struct BySex {
-    /// Age at death by sex, when the input has ages.
-    pub age: Option<AgeBySex>,
-    /// Prevalence by sex of each condition column named.
-    pub prevalence: Vec<PrevalenceBySex>,
-    /// Age interval of each individual.
-    pub ages: Vec<Option<(f64, f64)>>,
-}
 
 fn f3(x: f64) -> String {
     if x.is_finite() {
@@ -73,9 +61,13 @@ fn md(s: &str) -> String {
         .replace(['\n', '\r'], " ")
 }
 
-/// The by-sex CSV tables: (file name, bytes).
-pub fn by_sex_tables(by_sex: &BySex, analysis: &Analysis) -> Vec<(String, Vec<u8>)> {
-    let mut files = Vec::new();
+/// The by-sex CSV tables.
+///
+/// # Errors
+/// [`RenderError`] when a table cannot be built.
+pub fn by_sex_tables(r: &AnalysisResult) -> Result<OutputSet, RenderError> {
+    let (by_sex, analysis) = (&r.by_sex, &r.results);
+    let mut files = OutputSet::default();
     if let Some(a) = &by_sex.age {
         let mut rows = vec![vec![
             "quantity".to_string(),
@@ -110,7 +102,7 @@ pub fn by_sex_tables(by_sex: &BySex, analysis: &Analysis) -> Vec<(String, Vec<u8
                 f3(c.male.2),
             ]);
         }
-        files.push(("by_sex_age.csv".into(), csv_bytes(rows)));
+        files.push("by_sex_age.csv", csv_bytes(rows)?);
     }
     if !by_sex.prevalence.is_empty() {
         let mut rows = vec![header(&[
@@ -153,7 +145,7 @@ pub fn by_sex_tables(by_sex: &BySex, analysis: &Analysis) -> Vec<(String, Vec<u8
                 f3(p.odds_ratio.2),
             ]);
         }
-        files.push(("by_sex_prevalence.csv".into(), csv_bytes(rows)));
+        files.push("by_sex_prevalence.csv", csv_bytes(rows)?);
     }
     let mut rows = vec![std::iter::once("age_class".to_string())
         .chain(Category::ALL.iter().map(|c| c.as_str().to_string()))
@@ -165,22 +157,18 @@ pub fn by_sex_tables(by_sex: &BySex, analysis: &Analysis) -> Vec<(String, Vec<u8
                 .collect(),
         );
     }
-    files.push(("category_by_age.csv".into(), csv_bytes(rows)));
-    files
+    files.push("category_by_age.csv", csv_bytes(rows)?);
+    Ok(files)
 }
 
-/// The figures: (file name, SVG text).
+/// The figures (SVG).
 ///
 /// # Errors
-/// [`figures::FigureError`] when plotting fails.
-pub fn figures_svg(
-    model: &Model,
-    a: &Assemblage,
-    evidence: &[IndividualEvidence],
-    analysis: &Analysis,
-    by_sex: &BySex,
-) -> Result<Vec<(String, String)>, figures::FigureError> {
-    let mut out = Vec::new();
+/// [`RenderError`] when plotting fails.
+pub fn figures_svg(r: &AnalysisResult) -> Result<OutputSet, RenderError> {
+    let (model, a, evidence, analysis, by_sex) =
+        (&r.model, &r.assemblage, &r.evidence, &r.results, &r.by_sex);
+    let mut out = OutputSet::default();
     let pts: Vec<(f64, f64, f64)> = analysis
         .main
         .p_female
@@ -189,10 +177,10 @@ pub fn figures_svg(
         .filter_map(|(p, s)| Some((p.as_ref().copied()?, s.p_female_min?, s.p_female_max?)))
         .collect();
     let t = analysis.thresholds;
-    out.push((
-        "figures/p_female.svg".into(),
+    out.push(
+        "figures/p_female.svg",
         figures::p_female_figure(&pts, [t.male, t.probable_male, t.probable_female, t.female])?,
-    ));
+    );
     let mut curves = Vec::new();
     // Posteriors already computed by the analysis: the chosen prior's, then the set's.
     let fitted = std::iter::once((&analysis.main, &analysis.fitted.posterior)).chain(
@@ -218,10 +206,10 @@ pub fn figures_svg(
             .collect();
         curves.push((r.prior.name.clone(), pts));
     }
-    out.push((
-        "figures/pi_posterior.svg".into(),
+    out.push(
+        "figures/pi_posterior.svg",
         figures::pi_posterior_figure(&curves)?,
-    ));
+    );
     let blocks: Vec<String> = model.blocks.iter().map(|b| b.id().to_string()).collect();
     let mut rows: Vec<(f64, String, Vec<Option<f64>>)> = a
         .individuals
@@ -242,12 +230,12 @@ pub fn figures_svg(
     rows.sort_by(|x, y| x.0.total_cmp(&y.0));
     let rows: Vec<(String, Vec<Option<f64>>)> =
         rows.into_iter().map(|(_, id, v)| (id, v)).collect();
-    out.push((
-        "figures/lr_by_region.svg".into(),
+    out.push(
+        "figures/lr_by_region.svg",
         figures::lr_by_region_figure(&blocks, &rows)?,
-    ));
+    );
     if let Some(age) = &by_sex.age {
-        out.push(("figures/age_at_death.svg".into(), figures::age_figure(age)?));
+        out.push("figures/age_at_death.svg", figures::age_figure(age)?);
     }
     Ok(out)
 }
@@ -372,15 +360,16 @@ fn fitted_reference(provenance: &str) -> String {
 }
 
 /// The methods paragraph and its reference list.
-pub fn methods_md(
-    model: &Model,
-    a: &Assemblage,
-    evidence: &[IndividualEvidence],
-    analysis: &Analysis,
-    draws: &Draws,
-    by_sex: &BySex,
-    run: &RunInfo,
-) -> String {
+pub fn methods_md(r: &AnalysisResult) -> String {
+    let (model, a, evidence, analysis, draws, by_sex, run) = (
+        &r.model,
+        &r.assemblage,
+        &r.evidence,
+        &r.results,
+        &r.draws,
+        &r.by_sex,
+        &r.run,
+    );
     let main = &analysis.main;
     let used_blocks: Vec<String> = model
         .blocks
@@ -489,18 +478,18 @@ pub fn methods_md(
     s
 }
 
-/// The readable report and the LaTeX tables.
-#[allow(clippy::too_many_arguments)]
-pub fn report_md_and_tex(
-    model: &Model,
-    a: &Assemblage,
-    evidence: &[IndividualEvidence],
-    analysis: &Analysis,
-    by_sex: &BySex,
-    run: &RunInfo,
-    prior_provenance: &str,
-    files: &[String],
-) -> (String, String) {
+/// The readable report and the LaTeX tables; `files` are the names of every file of the
+/// run (listed in the report).
+pub fn report_md_and_tex(r: &AnalysisResult, files: &[String]) -> (String, String) {
+    let (model, a, evidence, analysis, by_sex, run) = (
+        &r.model,
+        &r.assemblage,
+        &r.evidence,
+        &r.results,
+        &r.by_sex,
+        &r.run,
+    );
+    let prior_provenance = r.results.main.prior.provenance.as_str();
     let main = &analysis.main;
     let mut m = String::new();
     let mut t = String::new();

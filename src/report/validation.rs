@@ -1,8 +1,9 @@
 //! The validation report a lab can file: CSV tables, a calibration figure and report.md.
 
-use super::figures::{calibration_figure, FigureError};
-use super::{csv_bytes, header};
+use super::figures::calibration_figure;
+use super::{csv_bytes, header, RenderError};
 use crate::data::Sex;
+use crate::output::OutputSet;
 use crate::validate::{Scores, Validation};
 use std::fmt::Write;
 
@@ -13,9 +14,9 @@ pub fn validation_files(
     reference_sha256: &str,
     subject: &str,
     command: &str,
-) -> Result<Vec<(String, Vec<u8>)>, FigureError> {
+) -> Result<OutputSet, RenderError> {
     let t = &v.settings.thresholds;
-    let mut files = Vec::new();
+    let mut files = OutputSet::default();
     let mut rows = vec![header(&[
         "id",
         "known_sex",
@@ -40,16 +41,16 @@ pub fn validation_files(
             if correct { "yes" } else { "no" }.into(),
         ]);
     }
-    files.push(("predictions.csv".to_string(), csv_bytes(rows)));
+    files.push("predictions.csv", csv_bytes(rows)?);
     let mut s = vec![score_header("subset")];
     s.push(score_row("all", &v.overall));
-    files.push(("scores.csv".to_string(), csv_bytes(s)));
+    files.push("scores.csv", csv_bytes(s)?);
     let mut b = vec![score_header("block")];
     b.extend(v.by_block.iter().map(|(id, sc)| score_row(id, sc)));
-    files.push(("scores_by_block.csv".to_string(), csv_bytes(b)));
+    files.push("scores_by_block.csv", csv_bytes(b)?);
     let mut n = vec![score_header("traits_used")];
     n.extend(v.by_traits.iter().map(|(id, sc)| score_row(id, sc)));
-    files.push(("scores_by_traits.csv".to_string(), csv_bytes(n)));
+    files.push("scores_by_traits.csv", csv_bytes(n)?);
     let mut r = vec![header(&[
         "p_female_from",
         "p_female_to",
@@ -66,20 +67,17 @@ pub fn validation_files(
             num(bin.share_female),
         ]);
     }
-    files.push(("reliability.csv".to_string(), csv_bytes(r)));
+    files.push("reliability.csv", csv_bytes(r)?);
     let bins: Vec<(f64, f64, usize)> = v
         .reliability
         .iter()
         .map(|b| (b.mean_p_female, b.share_female, b.n))
         .collect();
-    files.push((
-        "calibration.svg".to_string(),
-        calibration_figure(&bins)?.into_bytes(),
-    ));
-    files.push((
-        "report.md".to_string(),
-        report_md(v, reference, reference_sha256, subject, command).into_bytes(),
-    ));
+    files.push("calibration.svg", calibration_figure(&bins)?);
+    files.push(
+        "report.md",
+        report_md(v, reference, reference_sha256, subject, command),
+    );
     Ok(files)
 }
 

@@ -56,7 +56,7 @@ type Excavation = (f64, bool, [usize; 6], usize, usize);
 /// # Errors
 /// [`SimError`] when the model cannot be simulated.
 pub fn plan(model: &Model, settings: &PlanSettings) -> Result<Vec<PlanRow>, SimError> {
-    plan_with_progress(model, settings, None)
+    plan_with_progress(model, settings, &crate::progress::Silent)
 }
 
 /// As [`plan`], advancing `progress` by one per simulated excavation.
@@ -66,7 +66,7 @@ pub fn plan(model: &Model, settings: &PlanSettings) -> Result<Vec<PlanRow>, SimE
 pub fn plan_with_progress(
     model: &Model,
     settings: &PlanSettings,
-    progress: Option<&indicatif::ProgressBar>,
+    progress: &dyn crate::progress::Progress,
 ) -> Result<Vec<PlanRow>, SimError> {
     let PlanSettings {
         sizes,
@@ -86,9 +86,7 @@ pub fn plan_with_progress(
         let results: Vec<Result<Excavation, SimError>> = (0..replicates)
             .into_par_iter()
             .map(|r| {
-                if let Some(p) = progress {
-                    p.inc(1);
-                }
+                progress.advance(1);
                 let s = seed
                     .wrapping_mul(1_000_003)
                     .wrapping_add((n as u64) << 20)

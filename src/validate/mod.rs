@@ -209,7 +209,7 @@ pub fn validate(
     info: &ReferenceInfo,
     settings: &ValidationSettings,
 ) -> Result<Validation, ValidationError> {
-    validate_with_progress(subject, reference, info, settings, None)
+    validate_with_progress(subject, reference, info, settings, &crate::progress::Silent)
 }
 
 /// As [`validate`], advancing `progress` by one per individual classified.
@@ -221,7 +221,7 @@ pub fn validate_with_progress(
     reference: &[(&Individual, Sex)],
     info: &ReferenceInfo,
     settings: &ValidationSettings,
-    progress: Option<&indicatif::ProgressBar>,
+    progress: &dyn crate::progress::Progress,
 ) -> Result<Validation, ValidationError> {
     let p0 = settings.prior_female;
     if !(p0 > 0.0 && p0 < 1.0) {
@@ -298,9 +298,7 @@ pub fn validate_with_progress(
         .enumerate()
         .map(|(i, (ind, _))| {
             let f = fold_of[i];
-            if let Some(p) = progress {
-                p.inc(1);
-            }
+            progress.advance(1);
             (i, models[f].evaluate_cached(ind, &ctx, &caches[f]))
         })
         .collect();

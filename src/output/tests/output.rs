@@ -2,6 +2,10 @@
 
 use super::*;
 
+fn set(files: &[(String, &[u8])]) -> OutputSet {
+    files.iter().map(|(n, b)| (n.clone(), b.to_vec())).collect()
+}
+
 #[test]
 fn writes_whole_files_and_refuses_to_overwrite_inputs() {
     let dir = tempfile::tempdir().unwrap();
@@ -73,7 +77,13 @@ fn a_target_that_is_not_a_regular_file_is_refused() {
     assert!(e.to_string().contains("symbolic link"), "{e}");
     assert_eq!(std::fs::read_to_string(&victim).unwrap(), "keep");
     // A file named as a folder target.
-    let e = write_folder(&victim, &[("a.csv".into(), b"1".as_slice())], "test", &[]).unwrap_err();
+    let e = write_folder(
+        &victim,
+        &set(&[("a.csv".into(), b"1".as_slice())]),
+        "test",
+        &[],
+    )
+    .unwrap_err();
     assert!(e.to_string().contains("not a folder"), "{e}");
 }
 
@@ -114,13 +124,19 @@ fn a_folder_holds_exactly_one_runs_files() {
         ("draws.csv".to_string(), b"d".as_slice()),
         ("figures/f.svg".to_string(), b"<svg/>".as_slice()),
     ];
-    write_folder(&out, &first, "test", &[]).unwrap();
+    write_folder(&out, &set(&first), "test", &[]).unwrap();
     assert_eq!(
         names_in(&out),
         [MANIFEST, "a.csv", "draws.csv", "figures/f.svg"]
     );
     // A rerun without draws: the old draws do not stay beside the new files.
-    write_folder(&out, &[("a.csv".to_string(), b"2".as_slice())], "test", &[]).unwrap();
+    write_folder(
+        &out,
+        &set(&[("a.csv".to_string(), b"2".as_slice())]),
+        "test",
+        &[],
+    )
+    .unwrap();
     assert_eq!(names_in(&out), [MANIFEST, "a.csv"]);
     assert_eq!(std::fs::read(out.join("a.csv")).unwrap(), b"2");
     // Nothing left beside the folder (staging and the previous run removed).
@@ -130,7 +146,13 @@ fn a_folder_holds_exactly_one_runs_files() {
     );
     // A file of the user's in the folder: the run is refused and nothing is touched.
     std::fs::write(out.join("notes.txt"), "mine").unwrap();
-    let e = write_folder(&out, &[("a.csv".to_string(), b"3".as_slice())], "test", &[]).unwrap_err();
+    let e = write_folder(
+        &out,
+        &set(&[("a.csv".to_string(), b"3".as_slice())]),
+        "test",
+        &[],
+    )
+    .unwrap_err();
     assert!(e.to_string().contains("notes.txt"), "{e}");
     assert_eq!(std::fs::read(out.join("a.csv")).unwrap(), b"2");
     assert_eq!(
@@ -141,16 +163,28 @@ fn a_folder_holds_exactly_one_runs_files() {
     let other = dir.path().join("other");
     std::fs::create_dir(&other).unwrap();
     std::fs::write(other.join("thesis.docx"), "x").unwrap();
-    assert!(write_folder(&other, &[("a.csv".to_string(), b"1".as_slice())], "t", &[]).is_err());
+    assert!(write_folder(
+        &other,
+        &set(&[("a.csv".to_string(), b"1".as_slice())]),
+        "t",
+        &[]
+    )
+    .is_err());
     let empty = dir.path().join("empty");
     std::fs::create_dir(&empty).unwrap();
-    write_folder(&empty, &[("a.csv".to_string(), b"1".as_slice())], "t", &[]).unwrap();
+    write_folder(
+        &empty,
+        &set(&[("a.csv".to_string(), b"1".as_slice())]),
+        "t",
+        &[],
+    )
+    .unwrap();
     // An input inside the output folder is refused (the run would replace it).
     let input = out.join("a.csv");
     std::fs::remove_file(out.join("notes.txt")).unwrap();
     let e = write_folder(
         &out,
-        &[("b.csv".to_string(), b"1".as_slice())],
+        &set(&[("b.csv".to_string(), b"1".as_slice())]),
         "t",
         &[&input],
     )
@@ -163,13 +197,19 @@ fn a_folder_holds_exactly_one_runs_files() {
 fn a_folder_that_cannot_be_written_whole_is_left_as_it_was() {
     let dir = tempfile::tempdir().unwrap();
     let out = dir.path().join("run");
-    write_folder(&out, &[("a.csv".to_string(), b"1".as_slice())], "test", &[]).unwrap();
+    write_folder(
+        &out,
+        &set(&[("a.csv".to_string(), b"1".as_slice())]),
+        "test",
+        &[],
+    )
+    .unwrap();
     // Two files of one name cannot both be created: the run fails half-way.
     let bad = [
         ("b.csv".to_string(), b"2".as_slice()),
         ("b.csv".to_string(), b"3".as_slice()),
     ];
-    assert!(write_folder(&out, &bad, "test", &[]).is_err());
+    assert!(write_folder(&out, &set(&bad), "test", &[]).is_err());
     assert_eq!(names_in(&out), [MANIFEST, "a.csv"]);
     assert_eq!(
         names_in(dir.path()),
@@ -182,8 +222,20 @@ fn a_folder_named_relatively_is_swapped_in_beside_itself() {
     let dir = tempfile::tempdir().unwrap();
     let out = dir.path().join("a").join("..").join("run");
     std::fs::create_dir(dir.path().join("a")).unwrap();
-    write_folder(&out, &[("x.csv".to_string(), b"1".as_slice())], "t", &[]).unwrap();
-    write_folder(&out, &[("y.csv".to_string(), b"2".as_slice())], "t", &[]).unwrap();
+    write_folder(
+        &out,
+        &set(&[("x.csv".to_string(), b"1".as_slice())]),
+        "t",
+        &[],
+    )
+    .unwrap();
+    write_folder(
+        &out,
+        &set(&[("y.csv".to_string(), b"2".as_slice())]),
+        "t",
+        &[],
+    )
+    .unwrap();
     assert_eq!(names_in(&dir.path().join("run")), [MANIFEST, "y.csv"]);
     assert_eq!(names_in(&dir.path().join("a")), Vec::<String>::new());
 }

@@ -1,0 +1,56 @@
+use super::*;
+use crate::data::ReadSettings;
+
+fn table(text: &str) -> Assemblage {
+    let model = Model::default_model().unwrap();
+    read_bytes(
+        "t.csv",
+        text.as_bytes(),
+        &model.catalogue,
+        &ReadSettings::default(),
+    )
+    .unwrap()
+}
+
+#[test]
+fn rows_without_a_group_go_to_the_no_group_label_only_when_some_row_has_one() {
+    let none = table("id,group,glabella\nA,,3\nB,,4\n");
+    assert_eq!(group_labels(&none).unwrap(), None);
+    let some = table("id,group,glabella\nA,north,3\nB,,4\n");
+    assert_eq!(
+        group_labels(&some).unwrap(),
+        Some(vec!["north".to_string(), NO_GROUP.to_string()])
+    );
+    let clash = table("id,group,glabella\nA,(none),3\nB,north,4\n");
+    let e = group_labels(&clash).unwrap_err();
+    assert!(e.to_string().contains("rename that group"), "{e}");
+}
+
+#[test]
+fn a_scored_child_is_noted_before_any_work() {
+    let model = Model::default_model().unwrap();
+    let a = table("id,age,glabella\nA,8,3\nB,30,4\n");
+    let notes = input_notes(&model, &a);
+    assert!(
+        notes
+            .iter()
+            .any(|n| n.starts_with("1 individual with skeletal scores")),
+        "{notes:?}"
+    );
+}
+
+#[test]
+fn recalibration_changes_count_only_individuals_whose_category_moves() {
+    let run = AnalysisOptions::default().validate().unwrap();
+    let a = table("id,glabella,mastoid_l\nA,1,1\nB,5,5\nC,3,3\n");
+    let mut r = run.analyse(a, vec![], &crate::progress::Silent).unwrap();
+    assert_eq!(r.recalibration_changes(), 0);
+    let mut p = r.results.main.p_female.clone();
+    // Move the first individual to the other end of the scale.
+    p[0] = p[0].map(|x| 1.0 - x);
+    r.recalibration = Some(crate::assemblage::recalibration::Recalibration {
+        p_female: p,
+        ..Default::default()
+    });
+    assert_eq!(r.recalibration_changes(), 1);
+}

@@ -1,0 +1,79 @@
+//! What one analysis found, as one value: the input, the model, the evidence, the results
+//! under the prior set, the joint draws, the analyses by sex, the recalibration and the notes
+//! a reader must see. The report writers render it; the pipeline
+//! ([`crate::pipeline`]) makes it.
+
+use crate::assemblage::draws::Draws;
+use crate::assemblage::recalibration::Recalibration;
+use crate::assemblage::PriorSetResults;
+use crate::data::Assemblage;
+use crate::model::{IndividualEvidence, Model};
+use crate::summary::{AgeBySex, PrevalenceBySex};
+use serde::Serialize;
+
+/// Facts about the run written into `run.json`.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct RunInfo {
+    /// Program name.
+    pub program: &'static str,
+    /// Program version.
+    pub version: &'static str,
+    /// The command line (or the page's equivalent), as given by the front door.
+    pub command: Vec<String>,
+    /// Input file.
+    pub input: String,
+    /// Input SHA-256.
+    pub input_sha256: String,
+    /// Model name.
+    pub model: String,
+    /// Model file or `embedded default`.
+    pub model_file: String,
+    /// Model SHA-256.
+    pub model_sha256: String,
+    /// Seed of every random stream.
+    pub seed: u64,
+    /// Side policy used reading the input.
+    pub side_policy: String,
+}
+
+/// The analyses by sex that were run.
+#[derive(Debug, Clone, PartialEq)]
+pub struct BySex {
+    /// Age at death by sex, when the input has ages.
+    pub age: Option<AgeBySex>,
+    /// Prevalence by sex of each condition column named.
+    pub prevalence: Vec<PrevalenceBySex>,
+    /// Age interval of each individual.
+    pub ages: Vec<Option<(f64, f64)>>,
+}
+
+/// Everything one analysis found.
+#[derive(Debug, Clone)]
+pub struct AnalysisResult {
+    /// Provenance of the run.
+    pub run: RunInfo,
+    /// The model used (minimum age applied).
+    pub model: Model,
+    /// The input as read.
+    pub assemblage: Assemblage,
+    /// Every individual's evidence, in file order.
+    pub evidence: Vec<IndividualEvidence>,
+    /// The results under the chosen prior and every prior of the sensitivity set.
+    pub results: PriorSetResults,
+    /// Joint posterior draws of every individual's sex and the proportions.
+    pub draws: Draws,
+    /// Whether the draws are written out (`--draws N`).
+    pub write_draws: bool,
+    /// The analyses by sex.
+    pub by_sex: BySex,
+    /// The recalibration of the measurements, when asked for.
+    pub recalibration: Option<Recalibration>,
+    /// What a reader must know about the input before trusting the results (reader warnings,
+    /// recorded evidence the model leaves out, scored individuals below the minimum age).
+    pub input_notes: Vec<String>,
+    /// What a reader must know about the recalibration (no block to recalibrate, chains that
+    /// did not converge, measurements the reference does not fit).
+    pub recalibration_notes: Vec<String>,
+    /// Blocks flagged for a person to look at, as `ID (block): note`, in file order.
+    pub flagged: Vec<String>,
+}
