@@ -243,21 +243,21 @@ pub fn fit(
     }
     let n_female = used.iter().filter(|(_, s)| *s == Sex::Female).count();
     let n_male = used.len() - n_female;
-    let mut problems = Vec::new();
-    let mut estimates = Vec::new();
+    let mut log = FitLog {
+        warnings,
+        ..FitLog::default()
+    };
     let mut blocks = Vec::new();
     for b in &spec.blocks {
-        if let Some(block) = fit_block(
-            b,
-            catalogue,
-            &used,
-            &mut estimates,
-            &mut warnings,
-            &mut problems,
-        ) {
+        if let Some(block) = fit_block(b, catalogue, &used, &mut log) {
             blocks.push(RawBlock::Latent(block));
         }
     }
+    let FitLog {
+        estimates,
+        warnings,
+        problems,
+    } = log;
     if !problems.is_empty() {
         return Err(FitError {
             file: info.file.clone(),
@@ -308,242 +308,334 @@ pub fn fit(
 /// One trait's values among the individuals used (index into `used`, sex index, value).
 type TraitValues = Vec<(usize, usize, Value)>;
 
+/// What fitting the blocks finds besides the blocks themselves: the table of estimates, the
+/// warnings and the problems (every one of them, over every block).
+#[derive(Debug, Default)]
+struct FitLog {
+    estimates: Vec<Estimate>,
+    warnings: Vec<String>,
+    problems: Vec<FitProblem>,
+}
+
+/// A latent block fitted in two steps: each trait's margin, then the correlations given the
+/// margins. `None` when a trait of the block cannot be fitted (the problems are in `log`).
 fn fit_block(
     b: &BlockSpec,
     catalogue: &Catalogue,
     used: &[(&Individual, Sex)],
-    estimates: &mut Vec<Estimate>,
-    warnings: &mut Vec<String>,
-    problems: &mut Vec<FitProblem>,
+    log: &mut FitLog,
 ) -> Option<RawLatentBlock> {
-    let start = problems.len();
+    let start = log.problems.len();
     let mut margins: Vec<Margin> = Vec::new();
     let mut values: Vec<TraitValues> = Vec::new();
     let mut written: Vec<RawLatentTrait> = Vec::new();
     for t in &b.traits {
-        let place = format!("block `{}`, trait `{t}`", b.id);
-        let (Some(index), Some(def)) = (catalogue.position(t), catalogue.get(t)) else {
-            problems.push(FitProblem {
-                place,
-                message: "not a trait of the catalogue".into(),
-            });
-            continue;
-        };
-        let lowest = match def.kind {
-            TraitKind::Ordinal { lowest, .. } => lowest,
-            _ => 0,
-        };
-        let vals: TraitValues = used
-            .iter()
-            .enumerate()
-            .filter_map(|(i, (ind, sex))| {
-                let s = usize::from(*sex == Sex::Male);
-                match ind.observations.get(index).copied().flatten()? {
-                    Observation::Grade { low, high } => Some((
-                        i,
-                        s,
-                        Value::Grade((low - lowest) as usize, (high - lowest) as usize),
-                    )),
-                    Observation::Measurement { value } => Some((i, s, Value::Measure(value))),
-                    Observation::Count { .. } => None,
-                }
-            })
-            .collect();
-        let n_sex = [
-            vals.iter().filter(|v| v.1 == 0).count(),
-            vals.iter().filter(|v| v.1 == 1).count(),
-        ];
-        if n_sex[0] < 2 || n_sex[1] < 2 {
-            problems.push(FitProblem {
-                place,
-                message: format!(
-                    "recorded for {} females and {} males; at least 2 of each are needed",
-                    n_sex[0], n_sex[1]
-                ),
-            });
-            continue;
+        if let Some((vals, margin, raw)) = fit_margin(b, t, catalogue, used, log) {
+            values.push(vals);
+            margins.push(margin);
+            written.push(raw);
         }
-        let n = vals.len();
-        match &def.kind {
-            TraitKind::Ordinal { .. } => {
-                let k = def.kind.n_grades().unwrap_or(2);
-                let scores: Vec<OrdinalScore> = vals
-                    .iter()
-                    .filter_map(|&(_, s, v)| match v {
-                        Value::Grade(low, high) => Some(OrdinalScore {
-                            male: s == 1,
-                            low,
-                            high,
-                        }),
-                        Value::Measure(_) => None,
-                    })
-                    .collect();
-                for g in 0..k {
-                    for (s, word) in [(0, "female"), (1, "male")] {
-                        let seen = scores
-                            .iter()
-                            .any(|x| usize::from(x.male) == s && x.low == g && x.high == g);
-                        if !seen {
-                            warnings.push(format!(
-                                "{place}: grade {} is never recorded for a {word}",
-                                g as i32 + lowest
-                            ));
-                        }
-                    }
-                }
-                match fit_cumulative_probit(&scores, k) {
-                    Err(e) => {
-                        let message = match e {
-                            ordinal::OrdinalFitError::GradeNeverSeen(g) => format!(
-                                "grade {} is never recorded, so its threshold cannot be estimated; \
-                                 map the scores onto fewer grades (--scale-map) or record more individuals",
-                                g as i32 + lowest
-                            ),
-                            other => other.to_string(),
-                        };
-                        problems.push(FitProblem { place, message });
-                        continue;
-                    }
-                    Ok(f) => {
-                        let scale = "latent, female mean 0, within-sex SD 1";
-                        for (j, (th, se)) in f.thresholds.iter().zip(&f.threshold_se).enumerate() {
-                            estimates.push(Estimate {
-                                block: b.id.clone(),
-                                trait_id: t.clone(),
-                                parameter: format!(
-                                    "threshold {}|{}",
-                                    j as i32 + lowest,
-                                    j as i32 + lowest + 1
-                                ),
-                                scale: scale.into(),
-                                estimate: *th,
-                                se: *se,
-                                n,
-                            });
-                        }
-                        estimates.push(Estimate {
-                            block: b.id.clone(),
-                            trait_id: t.clone(),
-                            parameter: "male - female latent mean".into(),
-                            scale: scale.into(),
-                            estimate: f.shift,
-                            se: f.shift_se,
-                            n,
-                        });
-                        let half = 0.5 * f.shift;
-                        written.push(RawLatentTrait {
-                            id: t.clone(),
-                            thresholds: Some(
-                                f.thresholds.iter().map(|x| round(x - half)).collect(),
-                            ),
-                            mean: PerSex {
-                                female: round(-half),
-                                male: round(half),
-                            },
-                            sd: None,
-                        });
-                        margins.push(Margin::Ordinal {
-                            thresholds: f.thresholds.clone(),
-                            mean: [0.0, f.shift],
-                        });
-                    }
-                }
-            }
-            TraitKind::Metric { unit, .. } => {
-                let mut sum = [0.0; 2];
-                for &(_, s, v) in &vals {
-                    if let Value::Measure(x) = v {
-                        sum[s] += x;
-                    }
-                }
-                let mean = [sum[0] / n_sex[0] as f64, sum[1] / n_sex[1] as f64];
-                let mut ss = [0.0; 2];
-                for &(_, s, v) in &vals {
-                    if let Value::Measure(x) = v {
-                        ss[s] += (x - mean[s]).powi(2);
-                    }
-                }
-                let sd = match b.dispersion {
-                    Dispersion::PerSex => [
-                        (ss[0] / n_sex[0] as f64).sqrt(),
-                        (ss[1] / n_sex[1] as f64).sqrt(),
-                    ],
-                    Dispersion::Shared => {
-                        let pooled = ((ss[0] + ss[1]) / n as f64).sqrt();
-                        [pooled, pooled]
-                    }
-                };
-                if !(sd[0] > 0.0 && sd[1] > 0.0) {
-                    problems.push(FitProblem {
-                        place,
-                        message:
-                            "every recorded value of one sex is the same; an SD of 0 cannot be used"
-                                .into(),
-                    });
-                    continue;
-                }
-                for (s, word) in [(0, "female"), (1, "male")] {
-                    estimates.push(Estimate {
-                        block: b.id.clone(),
-                        trait_id: t.clone(),
-                        parameter: format!("mean {word}"),
-                        scale: unit.clone(),
-                        estimate: mean[s],
-                        se: sd[s] / (n_sex[s] as f64).sqrt(),
-                        n: n_sex[s],
-                    });
-                }
-                match b.dispersion {
-                    Dispersion::PerSex => {
-                        for (s, word) in [(0, "female"), (1, "male")] {
-                            estimates.push(Estimate {
-                                block: b.id.clone(),
-                                trait_id: t.clone(),
-                                parameter: format!("sd {word}"),
-                                scale: unit.clone(),
-                                estimate: sd[s],
-                                se: sd[s] / (2.0 * n_sex[s] as f64).sqrt(),
-                                n: n_sex[s],
-                            });
-                        }
-                    }
-                    Dispersion::Shared => estimates.push(Estimate {
-                        block: b.id.clone(),
-                        trait_id: t.clone(),
-                        parameter: "sd within sex (pooled)".into(),
-                        scale: unit.clone(),
-                        estimate: sd[0],
-                        se: sd[0] / (2.0 * n as f64).sqrt(),
-                        n,
-                    }),
-                }
-                written.push(RawLatentTrait {
-                    id: t.clone(),
-                    thresholds: None,
-                    mean: PerSex {
-                        female: round(mean[0]),
-                        male: round(mean[1]),
-                    },
-                    sd: Some(PerSex {
-                        female: round(sd[0]),
-                        male: round(sd[1]),
-                    }),
-                });
-                margins.push(Margin::Metric { mean, sd });
-            }
-            TraitKind::Count => {
-                problems.push(FitProblem {
-                    place,
-                    message: "a count cannot enter a latent block".into(),
-                });
-                continue;
-            }
-        }
-        values.push(vals);
     }
-    if problems.len() > start {
+    if log.problems.len() > start {
         return None;
     }
+    let p = b.traits.len();
+    let matrices = correlations(b, &values, &margins, log);
+    let rows = |m: &DMatrix<f64>| -> Vec<Vec<f64>> {
+        (0..p)
+            .map(|i| (0..p).map(|j| round(m[(i, j)])).collect())
+            .collect()
+    };
+    let (correlation, correlation_female, correlation_male) = match matrices.as_slice() {
+        [shared] => (Some(rows(shared)), None, None),
+        [f, m] => (None, Some(rows(f)), Some(rows(m))),
+        _ => (None, None, None),
+    };
+    Some(RawLatentBlock {
+        id: b.id.clone(),
+        label: if b.label.is_empty() {
+            b.id.clone()
+        } else {
+            b.label.clone()
+        },
+        traits: written,
+        correlation,
+        correlation_female,
+        correlation_male,
+    })
+}
+
+/// One trait's values among the individuals used, on the model's grade scale from 0.
+fn trait_values(used: &[(&Individual, Sex)], index: usize, lowest: i32) -> TraitValues {
+    used.iter()
+        .enumerate()
+        .filter_map(|(i, (ind, sex))| {
+            let s = usize::from(*sex == Sex::Male);
+            match ind.observations.get(index).copied().flatten()? {
+                Observation::Grade { low, high } => Some((
+                    i,
+                    s,
+                    Value::Grade((low - lowest) as usize, (high - lowest) as usize),
+                )),
+                Observation::Measurement { value } => Some((i, s, Value::Measure(value))),
+                Observation::Count { .. } => None,
+            }
+        })
+        .collect()
+}
+
+/// One trait's margin: its values, the fitted margin and the trait as written in the model.
+fn fit_margin(
+    b: &BlockSpec,
+    t: &str,
+    catalogue: &Catalogue,
+    used: &[(&Individual, Sex)],
+    log: &mut FitLog,
+) -> Option<(TraitValues, Margin, RawLatentTrait)> {
+    let place = format!("block `{}`, trait `{t}`", b.id);
+    let (Some(index), Some(def)) = (catalogue.position(t), catalogue.get(t)) else {
+        log.problems.push(FitProblem {
+            place,
+            message: "not a trait of the catalogue".into(),
+        });
+        return None;
+    };
+    let lowest = match def.kind {
+        TraitKind::Ordinal { lowest, .. } => lowest,
+        _ => 0,
+    };
+    let vals = trait_values(used, index, lowest);
+    let n_sex = [
+        vals.iter().filter(|v| v.1 == 0).count(),
+        vals.iter().filter(|v| v.1 == 1).count(),
+    ];
+    if n_sex[0] < 2 || n_sex[1] < 2 {
+        log.problems.push(FitProblem {
+            place,
+            message: format!(
+                "recorded for {} females and {} males; at least 2 of each are needed",
+                n_sex[0], n_sex[1]
+            ),
+        });
+        return None;
+    }
+    let (margin, raw) = match &def.kind {
+        TraitKind::Ordinal { .. } => {
+            let k = def.kind.n_grades().unwrap_or(2);
+            ordinal_margin(b, t, &place, lowest, k, &vals, log)?
+        }
+        TraitKind::Metric { unit, .. } => metric_margin(b, t, &place, unit, &vals, n_sex, log)?,
+        TraitKind::Count => {
+            log.problems.push(FitProblem {
+                place,
+                message: "a count cannot enter a latent block".into(),
+            });
+            return None;
+        }
+    };
+    Some((vals, margin, raw))
+}
+
+/// An ordinal trait's margin: a cumulative probit (McCullagh 1980) with a shift between the
+/// sexes; the female latent mean is 0 and the within-sex SD 1, and the model stores the
+/// thresholds centred between the sexes. Seven arguments: the block and trait name the
+/// estimates, the place names the problems, and `lowest`/`k` give the grade scale.
+#[allow(clippy::too_many_arguments)]
+fn ordinal_margin(
+    b: &BlockSpec,
+    t: &str,
+    place: &str,
+    lowest: i32,
+    k: usize,
+    vals: &TraitValues,
+    log: &mut FitLog,
+) -> Option<(Margin, RawLatentTrait)> {
+    let n = vals.len();
+    let scores: Vec<OrdinalScore> = vals
+        .iter()
+        .filter_map(|&(_, s, v)| match v {
+            Value::Grade(low, high) => Some(OrdinalScore {
+                male: s == 1,
+                low,
+                high,
+            }),
+            Value::Measure(_) => None,
+        })
+        .collect();
+    for g in 0..k {
+        for (s, word) in [(0, "female"), (1, "male")] {
+            let seen = scores
+                .iter()
+                .any(|x| usize::from(x.male) == s && x.low == g && x.high == g);
+            if !seen {
+                log.warnings.push(format!(
+                    "{place}: grade {} is never recorded for a {word}",
+                    g as i32 + lowest
+                ));
+            }
+        }
+    }
+    match fit_cumulative_probit(&scores, k) {
+        Err(e) => {
+            let message = match e {
+                ordinal::OrdinalFitError::GradeNeverSeen(g) => format!(
+                    "grade {} is never recorded, so its threshold cannot be estimated; \
+                     map the scores onto fewer grades (--scale-map) or record more individuals",
+                    g as i32 + lowest
+                ),
+                other => other.to_string(),
+            };
+            log.problems.push(FitProblem {
+                place: place.into(),
+                message,
+            });
+            None
+        }
+        Ok(f) => {
+            let scale = "latent, female mean 0, within-sex SD 1";
+            for (j, (th, se)) in f.thresholds.iter().zip(&f.threshold_se).enumerate() {
+                log.estimates.push(Estimate {
+                    block: b.id.clone(),
+                    trait_id: t.to_string(),
+                    parameter: format!("threshold {}|{}", j as i32 + lowest, j as i32 + lowest + 1),
+                    scale: scale.into(),
+                    estimate: *th,
+                    se: *se,
+                    n,
+                });
+            }
+            log.estimates.push(Estimate {
+                block: b.id.clone(),
+                trait_id: t.to_string(),
+                parameter: "male - female latent mean".into(),
+                scale: scale.into(),
+                estimate: f.shift,
+                se: f.shift_se,
+                n,
+            });
+            let half = 0.5 * f.shift;
+            let raw = RawLatentTrait {
+                id: t.to_string(),
+                thresholds: Some(f.thresholds.iter().map(|x| round(x - half)).collect()),
+                mean: PerSex {
+                    female: round(-half),
+                    male: round(half),
+                },
+                sd: None,
+            };
+            let margin = Margin::Ordinal {
+                thresholds: f.thresholds,
+                mean: [0.0, f.shift],
+            };
+            Some((margin, raw))
+        }
+    }
+}
+
+/// A measurement's margin: per-sex means and maximum-likelihood SDs (per sex or pooled, as
+/// the block says), with their standard errors. Seven arguments, as [`ordinal_margin`]: the
+/// names of the estimates and problems, the unit, and the per-sex counts already made.
+#[allow(clippy::too_many_arguments)]
+fn metric_margin(
+    b: &BlockSpec,
+    t: &str,
+    place: &str,
+    unit: &str,
+    vals: &TraitValues,
+    n_sex: [usize; 2],
+    log: &mut FitLog,
+) -> Option<(Margin, RawLatentTrait)> {
+    let n = vals.len();
+    let mut sum = [0.0; 2];
+    for &(_, s, v) in vals {
+        if let Value::Measure(x) = v {
+            sum[s] += x;
+        }
+    }
+    let mean = [sum[0] / n_sex[0] as f64, sum[1] / n_sex[1] as f64];
+    let mut ss = [0.0; 2];
+    for &(_, s, v) in vals {
+        if let Value::Measure(x) = v {
+            ss[s] += (x - mean[s]).powi(2);
+        }
+    }
+    let sd = match b.dispersion {
+        Dispersion::PerSex => [
+            (ss[0] / n_sex[0] as f64).sqrt(),
+            (ss[1] / n_sex[1] as f64).sqrt(),
+        ],
+        Dispersion::Shared => {
+            let pooled = ((ss[0] + ss[1]) / n as f64).sqrt();
+            [pooled, pooled]
+        }
+    };
+    if !(sd[0] > 0.0 && sd[1] > 0.0) {
+        log.problems.push(FitProblem {
+            place: place.into(),
+            message: "every recorded value of one sex is the same; an SD of 0 cannot be used"
+                .into(),
+        });
+        return None;
+    }
+    for (s, word) in [(0, "female"), (1, "male")] {
+        log.estimates.push(Estimate {
+            block: b.id.clone(),
+            trait_id: t.to_string(),
+            parameter: format!("mean {word}"),
+            scale: unit.to_string(),
+            estimate: mean[s],
+            se: sd[s] / (n_sex[s] as f64).sqrt(),
+            n: n_sex[s],
+        });
+    }
+    match b.dispersion {
+        Dispersion::PerSex => {
+            for (s, word) in [(0, "female"), (1, "male")] {
+                log.estimates.push(Estimate {
+                    block: b.id.clone(),
+                    trait_id: t.to_string(),
+                    parameter: format!("sd {word}"),
+                    scale: unit.to_string(),
+                    estimate: sd[s],
+                    se: sd[s] / (2.0 * n_sex[s] as f64).sqrt(),
+                    n: n_sex[s],
+                });
+            }
+        }
+        Dispersion::Shared => log.estimates.push(Estimate {
+            block: b.id.clone(),
+            trait_id: t.to_string(),
+            parameter: "sd within sex (pooled)".into(),
+            scale: unit.to_string(),
+            estimate: sd[0],
+            se: sd[0] / (2.0 * n as f64).sqrt(),
+            n,
+        }),
+    }
+    let raw = RawLatentTrait {
+        id: t.to_string(),
+        thresholds: None,
+        mean: PerSex {
+            female: round(mean[0]),
+            male: round(mean[1]),
+        },
+        sd: Some(PerSex {
+            female: round(sd[0]),
+            male: round(sd[1]),
+        }),
+    };
+    Some((Margin::Metric { mean, sd }, raw))
+}
+
+/// The block's correlation matrices given the margins (polychoric, polyserial or Pearson by
+/// pair; Olsson 1979, Olsson, Drasgow & Dorans 1982), shared or per sex as the block says,
+/// repaired to positive definite by eigenvalue clipping where needed.
+fn correlations(
+    b: &BlockSpec,
+    values: &[TraitValues],
+    margins: &[Margin],
+    log: &mut FitLog,
+) -> Vec<DMatrix<f64>> {
     let p = b.traits.len();
     let sexes: &[&[usize]] = match b.correlation {
         CorrelationSharing::None => &[],
@@ -569,7 +661,7 @@ fn fit_block(
                     b.traits[k]
                 );
                 let e = if cases.len() < MIN_PAIRS {
-                    warnings.push(format!(
+                    log.warnings.push(format!(
                         "{place}: only {} individuals have both; the correlation is set to 0",
                         cases.len()
                     ));
@@ -581,7 +673,7 @@ fn fit_block(
                     }
                 } else {
                     if cases.len() < FEW_PAIRS {
-                        warnings.push(format!(
+                        log.warnings.push(format!(
                             "{place}: only {} individuals have both; the correlation is imprecise",
                             cases.len()
                         ));
@@ -590,7 +682,7 @@ fn fit_block(
                 };
                 r[(j, k)] = e.rho;
                 r[(k, j)] = e.rho;
-                estimates.push(Estimate {
+                log.estimates.push(Estimate {
                     block: b.id.clone(),
                     trait_id: b.traits[j].clone(),
                     parameter: format!("{label}{} ({})", b.traits[k], e.method),
@@ -603,7 +695,7 @@ fn fit_block(
         }
         let (fixed, smallest) = repair::make_positive_definite(&r, repair::EIGENVALUE_FLOOR);
         if let Some(s) = smallest {
-            warnings.push(format!(
+            log.warnings.push(format!(
                 "block `{}`: the pairwise correlations did not form a positive-definite matrix \
                  (smallest eigenvalue {s:.4}); it was repaired by eigenvalue clipping",
                 b.id
@@ -611,28 +703,7 @@ fn fit_block(
         }
         matrices.push(fixed);
     }
-    let rows = |m: &DMatrix<f64>| -> Vec<Vec<f64>> {
-        (0..p)
-            .map(|i| (0..p).map(|j| round(m[(i, j)])).collect())
-            .collect()
-    };
-    let (correlation, correlation_female, correlation_male) = match matrices.as_slice() {
-        [shared] => (Some(rows(shared)), None, None),
-        [f, m] => (None, Some(rows(f)), Some(rows(m))),
-        _ => (None, None, None),
-    };
-    Some(RawLatentBlock {
-        id: b.id.clone(),
-        label: if b.label.is_empty() {
-            b.id.clone()
-        } else {
-            b.label.clone()
-        },
-        traits: written,
-        correlation,
-        correlation_female,
-        correlation_male,
-    })
+    matrices
 }
 
 /// Cases with both traits recorded, among the given sexes.

@@ -1,5 +1,6 @@
 //! Writing results: CSV tables, the run record, and the readable terminal summary.
 
+pub mod agreement;
 pub mod analysis;
 pub mod figures;
 pub mod publication;

@@ -479,20 +479,46 @@ pub fn methods_md(r: &AnalysisResult) -> String {
 }
 
 /// The readable report and the LaTeX tables; `files` are the names of every file of the
-/// run (listed in the report).
+/// run (listed in the report). Each section writes its Markdown and, where it has a table,
+/// the same table in LaTeX.
 pub fn report_md_and_tex(r: &AnalysisResult, files: &[String]) -> (String, String) {
-    let (model, a, evidence, analysis, by_sex, run) = (
-        &r.model,
-        &r.assemblage,
-        &r.evidence,
-        &r.results,
-        &r.by_sex,
-        &r.run,
-    );
-    let prior_provenance = r.results.main.prior.provenance.as_str();
-    let main = &analysis.main;
     let mut m = String::new();
     let mut t = String::new();
+    for section in [
+        what_was_analysed,
+        proportion_female_section,
+        categories_section,
+        sensitivity_section,
+        groups_section,
+        age_section,
+        prevalence_section,
+    ] {
+        section(r, &mut m, &mut t);
+    }
+    // The report's warnings are the flagged blocks then the reader's warnings.
+    let flagged = &r.flagged;
+    let a = &r.assemblage;
+    if !a.warnings.is_empty() || !flagged.is_empty() {
+        let _ = writeln!(m, "## Warnings\n");
+        for f in flagged {
+            let _ = writeln!(m, "- {f}");
+        }
+        for w in &a.warnings {
+            let _ = writeln!(m, "- {w}");
+        }
+        let _ = writeln!(m);
+    }
+    let _ = writeln!(m, "## Files\n");
+    for f in files {
+        let _ = writeln!(m, "- `{f}`");
+    }
+    (m, t)
+}
+
+/// The cautions, what was analysed, how to reproduce it, and the provenance of the model and prior.
+fn what_was_analysed(r: &AnalysisResult, m: &mut String, _tex: &mut String) {
+    let (model, a, analysis, run) = (&r.model, &r.assemblage, &r.results, &r.run);
+    let main = &r.results.main;
     let _ = writeln!(m, "# Sex estimation report: {}\n", a.file);
     let _ = writeln!(m, "> Estimates, not identifications. Forensic casework requires validated methods, accredited practice and the rules of the jurisdiction. Biological sex is not gender. These are the remains of people.\n");
     let _ = writeln!(m, "## What was analysed\n");
@@ -524,8 +550,14 @@ pub fn report_md_and_tex(r: &AnalysisResult, files: &[String]) -> (String, Strin
     let _ = writeln!(
         m,
         "### Prior provenance\n\n```\n{}\n```\n",
-        prior_provenance.trim()
+        r.results.main.prior.provenance.trim()
     );
+}
+
+/// The proportion female under every prior, and the one-sex Bayes factor.
+fn proportion_female_section(r: &AnalysisResult, m: &mut String, t: &mut String) {
+    let (analysis, run) = (&r.results, &r.run);
+    let main = &r.results.main;
     let _ = writeln!(m, "## Proportion female\n");
     let _ = writeln!(m, "| prior | mean | median | 95% interval | highest density | P(π < 0.5) | expected females |");
     let _ = writeln!(m, "|---|---|---|---|---|---|---|");
@@ -565,6 +597,11 @@ pub fn report_md_and_tex(r: &AnalysisResult, files: &[String]) -> (String, Strin
         "\nOne sex against a mixed community: log10 Bayes factor {:.2}.\n",
         main.ln_bf_one_sex / LN_10
     );
+}
+
+/// Individuals per category under the chosen prior.
+fn categories_section(r: &AnalysisResult, m: &mut String, t: &mut String) {
+    let main = &r.results.main;
     let _ = writeln!(m, "## Categories\n");
     let _ = writeln!(m, "| category | individuals |\n|---|---|");
     let _ = writeln!(t, "\\begin{{table}}\n\\centering\n\\caption{{Individuals per category under the {} prior.}}\n\\begin{{tabular}}{{lr}}\n\\toprule\nCategory & Individuals \\\\\n\\midrule", tex(&main.prior.name));
@@ -574,6 +611,11 @@ pub fn report_md_and_tex(r: &AnalysisResult, files: &[String]) -> (String, Strin
         let _ = writeln!(t, "{} & {} \\\\", c.label(), n);
     }
     let _ = writeln!(t, "\\bottomrule\n\\end{{tabular}}\n\\end{{table}}\n");
+}
+
+/// The individuals whose category depends on the prior.
+fn sensitivity_section(r: &AnalysisResult, m: &mut String, _tex: &mut String) {
+    let (a, analysis) = (&r.assemblage, &r.results);
     let _ = writeln!(m, "\n## Prior sensitivity\n");
     let sens: Vec<String> = a
         .individuals
@@ -599,6 +641,11 @@ pub fn report_md_and_tex(r: &AnalysisResult, files: &[String]) -> (String, Strin
             sens.join(", ")
         );
     }
+}
+
+/// The groups, with the hierarchy across them.
+fn groups_section(r: &AnalysisResult, m: &mut String, t: &mut String) {
+    let main = &r.results.main;
     if !main.groups.is_empty() {
         let _ = writeln!(m, "## Groups\n\n| group | n | proportion female | 95% interval | expected females |\n|---|---|---|---|---|");
         let _ = writeln!(t, "\\begin{{table}}\n\\centering\n\\caption{{Proportion female by group (hierarchical model).}}\n\\begin{{tabular}}{{lrrrr}}\n\\toprule\nGroup & n & Mean & 95\\% interval & Expected females \\\\\n\\midrule");
@@ -629,6 +676,11 @@ pub fn report_md_and_tex(r: &AnalysisResult, files: &[String]) -> (String, Strin
             let _ = writeln!(m, "\nAcross groups {:.3} ({:.3}–{:.3}); groups differ against share one proportion: log10 Bayes factor {:.2}.\n", h.mu_mean, h.mu_lo, h.mu_hi, h.ln_bf_groups_differ / LN_10);
         }
     }
+}
+
+/// Age at death by sex over the joint draws.
+fn age_section(r: &AnalysisResult, m: &mut String, t: &mut String) {
+    let by_sex = &r.by_sex;
     if let Some(age) = &by_sex.age {
         let _ = writeln!(m, "## Age at death by sex\n\nOver the joint draws ({} individuals with a recorded age; interval ages imputed uniformly within their interval, open classes closed at {} years):\n", age.n_with_age, crate::summary::OPEN_CLASS_END);
         let _ = writeln!(m, "| | mean | 95% interval |\n|---|---|---|");
@@ -668,6 +720,11 @@ pub fn report_md_and_tex(r: &AnalysisResult, files: &[String]) -> (String, Strin
         let _ = writeln!(t, "\\bottomrule\n\\end{{tabular}}\n\\end{{table}}\n");
         let _ = writeln!(m);
     }
+}
+
+/// Prevalence by sex of each condition column.
+fn prevalence_section(r: &AnalysisResult, m: &mut String, t: &mut String) {
+    let by_sex = &r.by_sex;
     if !by_sex.prevalence.is_empty() {
         let _ = writeln!(m, "## Prevalence by sex\n\nPooled over the joint draws with Rubin's rules (sampling and sex uncertainty together):\n");
         let _ = writeln!(m, "| condition | recorded | females | males | difference | odds ratio F:M |\n|---|---|---|---|---|---|");
@@ -692,22 +749,6 @@ pub fn report_md_and_tex(r: &AnalysisResult, files: &[String]) -> (String, Strin
             "\nOutcome columns are never used as evidence of sex: that would be circular.\n"
         );
     }
-    let flagged = crate::likelihood::flagged(model, a, evidence);
-    if !a.warnings.is_empty() || !flagged.is_empty() {
-        let _ = writeln!(m, "## Warnings\n");
-        for f in &flagged {
-            let _ = writeln!(m, "- {f}");
-        }
-        for w in &a.warnings {
-            let _ = writeln!(m, "- {w}");
-        }
-        let _ = writeln!(m);
-    }
-    let _ = writeln!(m, "## Files\n");
-    for f in files {
-        let _ = writeln!(m, "- `{f}`");
-    }
-    (m, t)
 }
 
 #[cfg(test)]
