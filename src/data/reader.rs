@@ -6,7 +6,7 @@ use super::cell::{parse_count, parse_grade, parse_measurement, Observation};
 use super::columns::{assign_roles, ColumnRole, Side};
 use super::problem::{Problem, ProblemKind, Warning, WarningKind};
 use super::settings::{ReadSettings, SidePolicy};
-use super::source::{is_workbook, read_text, read_workbook, RawTable, TableFormat};
+use super::source::{is_workbook, read_text, read_workbook, RawRow, RawTable, TableFormat};
 use crate::catalogue::{Catalogue, TraitKind};
 use serde::Serialize;
 use sha2::{Digest, Sha256};
@@ -211,16 +211,10 @@ struct SidedCells {
     right: Option<Observation>,
 }
 
-fn build(
-    name: &str,
-    table: RawTable,
-    sha256: String,
-    catalogue: &Catalogue,
-    settings: &ReadSettings,
-) -> Result<Assemblage, InputError> {
-    // Over-long column names are refused before any name matching (which costs their length).
-    let long: Vec<Problem> = table
-        .header
+/// Column names longer than the limit, refused before any name matching (which costs their
+/// length).
+fn long_column_names(name: &str, header: &[String]) -> Vec<Problem> {
+    header
         .iter()
         .enumerate()
         .filter(|(_, h)| h.chars().count() > crate::limits::MAX_COLUMN_NAME_CHARS)
@@ -239,7 +233,17 @@ fn build(
                 crate::limits::MAX_COLUMN_NAME_CHARS
             ),
         })
-        .collect();
+        .collect()
+}
+
+fn build(
+    name: &str,
+    table: RawTable,
+    sha256: String,
+    catalogue: &Catalogue,
+    settings: &ReadSettings,
+) -> Result<Assemblage, InputError> {
+    let long = long_column_names(name, &table.header);
     if !long.is_empty() {
         return Err(InputError {
             file: name.to_string(),
@@ -247,7 +251,7 @@ fn build(
             warnings: Vec::new(),
         });
     }
-    let (roles, mut problems, mut warnings) = assign_roles(
+    let (roles, problems, warnings) = assign_roles(
         name,
         &table.header,
         catalogue,
@@ -267,8 +271,7 @@ fn build(
             warnings,
         });
     }
-    let col_name = |c: usize| table.header[c].trim().to_string();
-    let carried_idx: Vec<usize> = (0..roles.len())
+    let carried: Vec<usize> = (0..roles.len())
         .filter(|&c| roles[c] == ColumnRole::Carried && !table.header[c].trim().is_empty())
         .collect();
     let mut trait_columns = vec![false; catalogue.len()];
@@ -277,179 +280,35 @@ fn build(
             trait_columns[*index] = true;
         }
     }
-    let mut seen_ids: HashMap<String, usize> = HashMap::new();
-    let mut individuals = Vec::with_capacity(table.rows.len());
-    let mut comma_cells = 0usize;
-    let decimal_comma = table.decimal_comma;
-    let x_idx = catalogue.position("dna_x_reads");
-    let y_idx = catalogue.position("dna_y_reads");
-
-    for raw in &table.rows {
-        let row = raw.row;
-        let mut push = |column: usize, value: &str, kind, expected: String| {
-            problems.push(Problem {
-                file: name.to_string(),
-                row: Some(row),
-                column: Some(col_name(column)),
-                value: Some(value.to_string()),
-                kind,
-                expected,
-            })
-        };
-        let mut id = String::new();
-        let mut group = None;
-        let mut age = None;
-        let mut known_sex = None;
-        let mut written = vec![false; catalogue.len()];
-        let mut cells: Vec<SidedCells> = (0..catalogue.len())
-            .map(|_| SidedCells {
-                unsided: None,
-                left: None,
-                right: None,
-            })
-            .collect();
-        for (c, cell) in raw.cells.iter().enumerate() {
-            let missing = settings.is_missing(cell);
-            match roles[c] {
-                ColumnRole::Id => {
-                    id = cell.trim().to_string();
-                    if id.is_empty() {
-                        push(
-                            c,
-                            cell,
-                            ProblemKind::MissingId,
-                            "an identifier: every row needs one".into(),
-                        );
-                    } else if let Some(first) = seen_ids.get(&id) {
-                        push(
-                            c,
-                            cell,
-                            ProblemKind::DuplicateId,
-                            format!("a unique identifier; `{id}` is also on row {first}"),
-                        );
-                    } else {
-                        seen_ids.insert(id.clone(), row);
-                    }
-                }
-                ColumnRole::Group => {
-                    if !missing {
-                        group = Some(cell.trim().to_string());
-                    }
-                }
-                ColumnRole::Age => {
-                    if !missing {
-                        match parse_age(cell, decimal_comma) {
-                            Ok(a) => age = Some(a),
-                            Err(e) => push(c, cell, ProblemKind::BadAge, e),
-                        }
-                    }
-                }
-                ColumnRole::KnownSex => {
-                    if !missing {
-                        match parse_known_sex(cell) {
-                            Some(s) => known_sex = Some(s),
-                            None => push(
-                                c,
-                                cell,
-                                ProblemKind::BadKnownSex,
-                                "F, M, female or male (or a missing code)".into(),
-                            ),
-                        }
-                    }
-                }
-                ColumnRole::Trait { index, side } => {
-                    if missing {
-                        continue;
-                    }
-                    written[index] = true;
-                    let def = &catalogue.traits()[index];
-                    let parsed = match &def.kind {
-                        TraitKind::Ordinal { lowest, highest } => {
-                            parse_grade(cell, *lowest, *highest, settings.scale_map(&def.id))
-                        }
-                        TraitKind::Metric { unit, low, high } => {
-                            parse_measurement(cell, unit, *low, *high, decimal_comma).map(
-                                |(o, conv)| {
-                                    comma_cells += usize::from(conv);
-                                    o
-                                },
-                            )
-                        }
-                        TraitKind::Count => parse_count(cell),
-                    };
-                    match parsed {
-                        Ok(o) => {
-                            let slot = &mut cells[index];
-                            match side {
-                                Side::Unsided => slot.unsided = Some(o),
-                                Side::Left => slot.left = Some(o),
-                                Side::Right => slot.right = Some(o),
-                            }
-                        }
-                        Err((kind, expected)) => push(c, cell, kind, expected),
-                    }
-                }
-                ColumnRole::Carried => {}
-            }
-        }
-        let mut observations = Vec::with_capacity(catalogue.len());
-        let mut sides = Vec::with_capacity(catalogue.len());
-        for (index, sc) in cells.into_iter().enumerate() {
-            let def = &catalogue.traits()[index];
-            let (obs, side) = combine_sides(sc, settings.side_policy);
-            if let (Some(l), Some(r)) = (obs.1, obs.2) {
-                if let Some(msg) = sides_disagree(&l, &r, settings) {
-                    warnings.push(Warning {
-                        file: name.to_string(),
-                        row: Some(row),
-                        column: Some(format!("{0}_l, {0}_r", def.id)),
-                        kind: WarningKind::SidesDisagree,
-                        message: format!("{msg}; used: {}", settings.side_policy.as_str()),
-                    });
-                }
-            }
-            observations.push(obs.0);
-            sides.push(side);
-        }
-        if let (Some(x), Some(y)) = (x_idx, y_idx) {
-            if written[x] != written[y] {
-                let (have, lack) = if written[x] {
-                    ("dna_x_reads", "dna_y_reads")
-                } else {
-                    ("dna_y_reads", "dna_x_reads")
-                };
-                problems.push(Problem {
-                    file: name.to_string(),
-                    row: Some(row),
-                    column: Some(lack.to_string()),
-                    value: None,
-                    kind: ProblemKind::UnpairedReads,
-                    expected: format!("a read count beside `{have}`: X and Y read counts come as a pair (write 0 where no reads mapped)"),
-                });
-            }
-        }
-        if !id.is_empty() && observations.iter().all(Option::is_none) {
-            warnings.push(Warning {
-                file: name.to_string(),
-                row: Some(row),
-                column: None,
-                kind: WarningKind::NoEvidence,
-                message: format!(
-                    "`{id}` has no trait recorded: it will be reported as not estimable"
-                ),
-            });
-        }
-        individuals.push(Individual {
-            id,
-            row,
-            group,
-            age,
-            known_sex,
-            observations,
-            sides,
-            carried: carried_idx.iter().map(|&c| raw.cells[c].clone()).collect(),
-        });
-    }
+    let reader = RowReader {
+        name,
+        header: &table.header,
+        roles: &roles,
+        catalogue,
+        settings,
+        carried: &carried,
+        dna: catalogue
+            .position("dna_x_reads")
+            .zip(catalogue.position("dna_y_reads")),
+        decimal_comma: table.decimal_comma,
+    };
+    let mut found = Findings {
+        problems,
+        warnings,
+        seen_ids: HashMap::new(),
+        comma_cells: 0,
+    };
+    let individuals: Vec<Individual> = table
+        .rows
+        .iter()
+        .map(|raw| reader.read(raw, &mut found))
+        .collect();
+    let Findings {
+        mut problems,
+        mut warnings,
+        comma_cells,
+        ..
+    } = found;
     if table.rows.is_empty() {
         problems.push(Problem {
             file: name.to_string(),
@@ -486,11 +345,254 @@ fn build(
         sha256,
         catalogue: catalogue.clone(),
         trait_columns,
-        carried_columns: carried_idx.iter().map(|&c| col_name(c)).collect(),
+        carried_columns: carried.iter().map(|&c| reader.column(c)).collect(),
         individuals,
         warnings,
         settings: settings.clone(),
     })
+}
+
+/// What reading the rows finds, over every row: problems and warnings (after those of the
+/// header), the ids seen (by row), and how many measurements had a decimal comma.
+struct Findings {
+    problems: Vec<Problem>,
+    warnings: Vec<Warning>,
+    seen_ids: HashMap<String, usize>,
+    comma_cells: usize,
+}
+
+/// Everything needed to read one row, fixed for the whole table.
+struct RowReader<'a> {
+    name: &'a str,
+    header: &'a [String],
+    roles: &'a [ColumnRole],
+    catalogue: &'a Catalogue,
+    settings: &'a ReadSettings,
+    /// Columns carried through unchanged.
+    carried: &'a [usize],
+    /// Catalogue positions of the X and Y read counts, when the catalogue has both.
+    dna: Option<(usize, usize)>,
+    decimal_comma: bool,
+}
+
+/// The cells of one row other than traits.
+#[derive(Default)]
+struct RowFields {
+    id: String,
+    group: Option<String>,
+    age: Option<AgeAtDeath>,
+    known_sex: Option<Sex>,
+}
+
+impl RowReader<'_> {
+    fn column(&self, c: usize) -> String {
+        self.header[c].trim().to_string()
+    }
+
+    fn problem(
+        &self,
+        row: usize,
+        c: usize,
+        value: &str,
+        kind: ProblemKind,
+        expected: String,
+    ) -> Problem {
+        Problem {
+            file: self.name.to_string(),
+            row: Some(row),
+            column: Some(self.column(c)),
+            value: Some(value.to_string()),
+            kind,
+            expected,
+        }
+    }
+
+    /// One row as an individual; its problems and warnings go to `found`.
+    fn read(&self, raw: &RawRow, found: &mut Findings) -> Individual {
+        let n = self.catalogue.len();
+        let mut written = vec![false; n];
+        let mut cells: Vec<SidedCells> = (0..n)
+            .map(|_| SidedCells {
+                unsided: None,
+                left: None,
+                right: None,
+            })
+            .collect();
+        let fields = self.read_cells(raw, &mut cells, &mut written, found);
+        let (observations, sides) = self.combine(raw.row, cells, found);
+        self.check_reads_pair(raw.row, &written, found);
+        if !fields.id.is_empty() && observations.iter().all(Option::is_none) {
+            found.warnings.push(Warning {
+                file: self.name.to_string(),
+                row: Some(raw.row),
+                column: None,
+                kind: WarningKind::NoEvidence,
+                message: format!(
+                    "`{}` has no trait recorded: it will be reported as not estimable",
+                    fields.id
+                ),
+            });
+        }
+        Individual {
+            id: fields.id,
+            row: raw.row,
+            group: fields.group,
+            age: fields.age,
+            known_sex: fields.known_sex,
+            observations,
+            sides,
+            carried: self.carried.iter().map(|&c| raw.cells[c].clone()).collect(),
+        }
+    }
+
+    /// Every cell of the row by its column's role: the row's fields, and each trait's
+    /// observation on its side.
+    fn read_cells(
+        &self,
+        raw: &RawRow,
+        cells: &mut [SidedCells],
+        written: &mut [bool],
+        found: &mut Findings,
+    ) -> RowFields {
+        let (row, settings) = (raw.row, self.settings);
+        let mut f = RowFields::default();
+        for (c, cell) in raw.cells.iter().enumerate() {
+            let missing = settings.is_missing(cell);
+            let mut push = |kind, expected: String| {
+                found
+                    .problems
+                    .push(self.problem(row, c, cell, kind, expected));
+            };
+            match self.roles[c] {
+                ColumnRole::Id => {
+                    f.id = cell.trim().to_string();
+                    if f.id.is_empty() {
+                        push(
+                            ProblemKind::MissingId,
+                            "an identifier: every row needs one".into(),
+                        );
+                    } else if let Some(first) = found.seen_ids.get(&f.id) {
+                        let expected =
+                            format!("a unique identifier; `{}` is also on row {first}", f.id);
+                        found.problems.push(self.problem(
+                            row,
+                            c,
+                            cell,
+                            ProblemKind::DuplicateId,
+                            expected,
+                        ));
+                    } else {
+                        found.seen_ids.insert(f.id.clone(), row);
+                    }
+                }
+                ColumnRole::Group if !missing => f.group = Some(cell.trim().to_string()),
+                ColumnRole::Age if !missing => match parse_age(cell, self.decimal_comma) {
+                    Ok(a) => f.age = Some(a),
+                    Err(e) => push(ProblemKind::BadAge, e),
+                },
+                ColumnRole::KnownSex if !missing => match parse_known_sex(cell) {
+                    Some(s) => f.known_sex = Some(s),
+                    None => push(
+                        ProblemKind::BadKnownSex,
+                        "F, M, female or male (or a missing code)".into(),
+                    ),
+                },
+                ColumnRole::Trait { index, side } if !missing => {
+                    written[index] = true;
+                    match self.parse_trait(index, cell, &mut found.comma_cells) {
+                        Ok(o) => {
+                            let slot = &mut cells[index];
+                            match side {
+                                Side::Unsided => slot.unsided = Some(o),
+                                Side::Left => slot.left = Some(o),
+                                Side::Right => slot.right = Some(o),
+                            }
+                        }
+                        Err((kind, expected)) => found
+                            .problems
+                            .push(self.problem(row, c, cell, kind, expected)),
+                    }
+                }
+                _ => {}
+            }
+        }
+        f
+    }
+
+    /// A trait's cell read by the trait's kind; `comma_cells` counts decimal commas.
+    fn parse_trait(
+        &self,
+        index: usize,
+        cell: &str,
+        comma_cells: &mut usize,
+    ) -> Result<Observation, (ProblemKind, String)> {
+        let def = &self.catalogue.traits()[index];
+        match &def.kind {
+            TraitKind::Ordinal { lowest, highest } => {
+                parse_grade(cell, *lowest, *highest, self.settings.scale_map(&def.id))
+            }
+            TraitKind::Metric { unit, low, high } => {
+                parse_measurement(cell, unit, *low, *high, self.decimal_comma).map(|(o, conv)| {
+                    *comma_cells += usize::from(conv);
+                    o
+                })
+            }
+            TraitKind::Count => parse_count(cell),
+        }
+    }
+
+    /// Each trait's observation from its sides under the side policy, with a warning where
+    /// the two sides disagree beyond the tolerance.
+    fn combine(
+        &self,
+        row: usize,
+        cells: Vec<SidedCells>,
+        found: &mut Findings,
+    ) -> (Vec<Option<Observation>>, Vec<Option<SideUsed>>) {
+        let settings = self.settings;
+        let mut observations = Vec::with_capacity(cells.len());
+        let mut sides = Vec::with_capacity(cells.len());
+        for (index, sc) in cells.into_iter().enumerate() {
+            let def = &self.catalogue.traits()[index];
+            let (obs, side) = combine_sides(sc, settings.side_policy);
+            if let (Some(l), Some(r)) = (obs.1, obs.2) {
+                if let Some(msg) = sides_disagree(&l, &r, settings) {
+                    found.warnings.push(Warning {
+                        file: self.name.to_string(),
+                        row: Some(row),
+                        column: Some(format!("{0}_l, {0}_r", def.id)),
+                        kind: WarningKind::SidesDisagree,
+                        message: format!("{msg}; used: {}", settings.side_policy.as_str()),
+                    });
+                }
+            }
+            observations.push(obs.0);
+            sides.push(side);
+        }
+        (observations, sides)
+    }
+
+    /// X and Y read counts come as a pair.
+    fn check_reads_pair(&self, row: usize, written: &[bool], found: &mut Findings) {
+        let Some((x, y)) = self.dna else {
+            return;
+        };
+        if written[x] != written[y] {
+            let (have, lack) = if written[x] {
+                ("dna_x_reads", "dna_y_reads")
+            } else {
+                ("dna_y_reads", "dna_x_reads")
+            };
+            found.problems.push(Problem {
+                file: self.name.to_string(),
+                row: Some(row),
+                column: Some(lack.to_string()),
+                value: None,
+                kind: ProblemKind::UnpairedReads,
+                expected: format!("a read count beside `{have}`: X and Y read counts come as a pair (write 0 where no reads mapped)"),
+            });
+        }
+    }
 }
 
 type Combined = (
