@@ -334,7 +334,66 @@ pub fn recalibrate(
     settings: &RecalibrationSettings,
     progress: &dyn crate::progress::Progress,
 ) -> Recalibration {
-    // Metric-only blocks.
+    let blocks = metric_blocks(model, individuals, settings);
+    // Fixed part of each individual's ln LR: every block except the recalibrated ones.
+    let fixed: Vec<f64> = evidence
+        .iter()
+        .map(|e| {
+            e.blocks
+                .iter()
+                .enumerate()
+                .filter(|(k, b)| {
+                    b.status == crate::model::BlockStatus::Used
+                        && !blocks.iter().any(|mb| mb.block == *k)
+                })
+                .map(|(_, b)| b.ln_lr)
+                .sum()
+        })
+        .collect();
+    let active: Vec<bool> = evidence.iter().map(|e| e.estimable).collect();
+    let chains: Vec<ChainOut> = {
+        use rayon::prelude::*;
+        (0..settings.chains)
+            .into_par_iter()
+            .map(|c| run_chain(&blocks, &fixed, &active, prior, settings, c, progress))
+            .collect()
+    };
+    let mut warnings = Vec::new();
+    let means = summarise_means(&blocks, &chains, settings, &mut warnings);
+    let pi_traces: Vec<Vec<f64>> = chains.iter().map(|c| c.pi.clone()).collect();
+    let (pi_rhat, pi_ess) = (split_rhat(&pi_traces), ess(&pi_traces));
+    let fixed_pi = matches!(prior.shape, PriorShape::Fixed { .. });
+    if !fixed_pi && (!(pi_rhat <= settings.max_rhat) || !(pi_ess >= settings.min_ess)) {
+        warnings.push(format!(
+            "proportion female: R-hat {pi_rhat:.3}, effective sample size {pi_ess:.0}"
+        ));
+    }
+    let kept: f64 = chains.iter().map(|c| c.kept as f64).sum();
+    let p_female = (0..individuals.len())
+        .map(|i| active[i].then(|| chains.iter().map(|c| c.pf_sum[i]).sum::<f64>() / kept))
+        .collect();
+    let pi_mean = pi_traces.iter().flatten().sum::<f64>()
+        / pi_traces.iter().map(Vec::len).sum::<usize>().max(1) as f64;
+    let checks = predictive_checks(&blocks, pi_mean);
+    Recalibration {
+        means,
+        p_female,
+        pi_rhat,
+        pi_ess,
+        pi_mean,
+        warnings,
+        checks,
+    }
+}
+
+/// The model's blocks made only of measurements, prepared for sampling: each individual's
+/// recorded values, the reference means and covariances, and the prior variance of a shift
+/// (`settings.shift` reference SDs).
+fn metric_blocks(
+    model: &Model,
+    individuals: &[crate::data::Individual],
+    settings: &RecalibrationSettings,
+) -> Vec<MetricBlock> {
     let mut blocks: Vec<MetricBlock> = Vec::new();
     for (k, b) in model.blocks.iter().enumerate() {
         let Block::Latent(lb) = b else { continue };
@@ -386,34 +445,21 @@ pub fn recalibrate(
             y,
         });
     }
-    // Fixed part of each individual's ln LR: every block except the recalibrated ones.
-    let fixed: Vec<f64> = evidence
-        .iter()
-        .map(|e| {
-            e.blocks
-                .iter()
-                .enumerate()
-                .filter(|(k, b)| {
-                    b.status == crate::model::BlockStatus::Used
-                        && !blocks.iter().any(|mb| mb.block == *k)
-                })
-                .map(|(_, b)| b.ln_lr)
-                .sum()
-        })
-        .collect();
-    let active: Vec<bool> = evidence.iter().map(|e| e.estimable).collect();
-    let chains: Vec<ChainOut> = {
-        use rayon::prelude::*;
-        (0..settings.chains)
-            .into_par_iter()
-            .map(|c| run_chain(&blocks, &fixed, &active, prior, settings, c, progress))
-            .collect()
-    };
-    // Summaries.
+    blocks
+}
+
+/// Every recalibrated mean's posterior summary (mean, 95% interval, shift in reference SDs)
+/// with split-R̂ (Gelman et al. 2013, BDA3 §11.4) and ESS (Geyer 1992) over the chains; a
+/// warning per mean that fails the thresholds.
+fn summarise_means(
+    blocks: &[MetricBlock],
+    chains: &[ChainOut],
+    settings: &RecalibrationSettings,
+    warnings: &mut Vec<String>,
+) -> Vec<RecalibratedMean> {
     let mut means = Vec::new();
-    let mut warnings = Vec::new();
     let mut p = 0;
-    for mb in &blocks {
+    for mb in blocks {
         for s in 0..2 {
             for (j, id) in mb.ids.iter().enumerate() {
                 let traces: Vec<Vec<f64>> = chains.iter().map(|ch| ch.params[p].clone()).collect();
@@ -444,23 +490,15 @@ pub fn recalibrate(
             }
         }
     }
-    let pi_traces: Vec<Vec<f64>> = chains.iter().map(|c| c.pi.clone()).collect();
-    let (pi_rhat, pi_ess) = (split_rhat(&pi_traces), ess(&pi_traces));
-    let fixed_pi = matches!(prior.shape, PriorShape::Fixed { .. });
-    if !fixed_pi && (!(pi_rhat <= settings.max_rhat) || !(pi_ess >= settings.min_ess)) {
-        warnings.push(format!(
-            "proportion female: R-hat {pi_rhat:.3}, effective sample size {pi_ess:.0}"
-        ));
-    }
-    let kept: f64 = chains.iter().map(|c| c.kept as f64).sum();
-    let p_female = (0..individuals.len())
-        .map(|i| active[i].then(|| chains.iter().map(|c| c.pf_sum[i]).sum::<f64>() / kept))
-        .collect();
-    let pi_mean = pi_traces.iter().flatten().sum::<f64>()
-        / pi_traces.iter().map(Vec::len).sum::<usize>().max(1) as f64;
-    // Predictive check against the reference model.
+    means
+}
+
+/// Predictive check of each measurement against the reference model: the share of values
+/// outside the central 99% range of the reference mixture at the posterior mean of π, flagged
+/// above 1% plus three binomial SEs.
+fn predictive_checks(blocks: &[MetricBlock], pi_mean: f64) -> Vec<FitCheck> {
     let mut checks = Vec::new();
-    for mb in &blocks {
+    for mb in blocks {
         for (j, id) in mb.ids.iter().enumerate() {
             let vals: Vec<f64> =
                 mb.y.iter()
@@ -480,15 +518,7 @@ pub fn recalibrate(
             });
         }
     }
-    Recalibration {
-        means,
-        p_female,
-        pi_rhat,
-        pi_ess,
-        pi_mean,
-        warnings,
-        checks,
-    }
+    checks
 }
 
 /// The central 99% range of the reference predictive mixture π N(μF, σF²) + (1 − π) N(μM, σM²).

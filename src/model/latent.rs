@@ -14,7 +14,7 @@
 //! them out exactly.
 
 use super::evidence::{BlockEvidence, BlockStatus, Context};
-use super::spec::RawLatentBlock;
+use super::spec::{RawLatentBlock, RawLatentTrait};
 use super::ModelProblem;
 use crate::catalogue::{Catalogue, TraitKind};
 use crate::data::{Individual, Observation, Sex};
@@ -83,6 +83,86 @@ pub struct LatentBlock {
     pub cov: [DMatrix<f64>; 2],
 }
 
+/// An ordinal trait of a latent block: `thresholds` on the latent scale, one fewer than the
+/// `k` grades, finite and strictly increasing; no `sd` (the latent SD is 1).
+fn ordinal_kind(
+    t: &RawLatentTrait,
+    lowest: i32,
+    k: usize,
+    place: &str,
+    fail: &mut dyn FnMut(&str, String),
+) -> Option<LatentKind> {
+    let Some(th) = &t.thresholds else {
+        fail(
+            place,
+            format!(
+                "an ordinal trait needs `thresholds` ({} values for {k} grades)",
+                k - 1
+            ),
+        );
+        return None;
+    };
+    if th.len() + 1 != k {
+        fail(
+            place,
+            format!(
+                "{} thresholds given; the scale has {k} grades, so {} are needed",
+                th.len(),
+                k - 1
+            ),
+        );
+    }
+    if th.iter().any(|x| !x.is_finite()) || th.windows(2).any(|w| w[0] >= w[1]) {
+        fail(
+            place,
+            format!("thresholds must be finite and strictly increasing, found {th:?}"),
+        );
+    }
+    if t.sd.is_some() {
+        fail(
+            place,
+            "an ordinal latent has SD 1 by construction; remove `sd`".into(),
+        );
+    }
+    Some(LatentKind::Ordinal {
+        thresholds: th.clone(),
+        lowest,
+    })
+}
+
+/// A measurement of a latent block: positive finite SDs per sex and no thresholds.
+fn metric_sds(
+    t: &RawLatentTrait,
+    place: &str,
+    fail: &mut dyn FnMut(&str, String),
+) -> Option<(f64, f64)> {
+    let sds = match t.sd {
+        Some(sd)
+            if sd.female > 0.0 && sd.male > 0.0 && sd.female.is_finite() && sd.male.is_finite() =>
+        {
+            Some((sd.female, sd.male))
+        }
+        Some(sd) => {
+            fail(
+                place,
+                format!(
+                    "SDs must be positive, found female {} male {}",
+                    sd.female, sd.male
+                ),
+            );
+            None
+        }
+        None => {
+            fail(place, "a metric trait needs `sd: {female, male}`".into());
+            None
+        }
+    };
+    if t.thresholds.is_some() {
+        fail(place, "a metric trait has no thresholds".into());
+    }
+    sds
+}
+
 impl LatentBlock {
     /// Validate a raw block against the catalogue. Every problem is pushed to `problems`.
     pub(crate) fn from_raw(
@@ -124,67 +204,15 @@ impl LatentBlock {
             let kind = match &catalogue.traits()[index].kind {
                 TraitKind::Ordinal { lowest, .. } => {
                     let k = catalogue.traits()[index].kind.n_grades().unwrap_or(0);
-                    let Some(th) = &t.thresholds else {
-                        fail(
-                            &place,
-                            format!(
-                                "an ordinal trait needs `thresholds` ({} values for {k} grades)",
-                                k - 1
-                            ),
-                        );
+                    let Some(kind) = ordinal_kind(t, *lowest, k, &place, &mut fail) else {
                         continue;
                     };
-                    if th.len() + 1 != k {
-                        fail(
-                            &place,
-                            format!(
-                                "{} thresholds given; the scale has {k} grades, so {} are needed",
-                                th.len(),
-                                k - 1
-                            ),
-                        );
-                    }
-                    if th.iter().any(|x| !x.is_finite()) || th.windows(2).any(|w| w[0] >= w[1]) {
-                        fail(
-                            &place,
-                            format!(
-                                "thresholds must be finite and strictly increasing, found {th:?}"
-                            ),
-                        );
-                    }
-                    if t.sd.is_some() {
-                        fail(
-                            &place,
-                            "an ordinal latent has SD 1 by construction; remove `sd`".into(),
-                        );
-                    }
-                    LatentKind::Ordinal {
-                        thresholds: th.clone(),
-                        lowest: *lowest,
-                    }
+                    kind
                 }
                 TraitKind::Metric { .. } => {
-                    match t.sd {
-                        Some(sd)
-                            if sd.female > 0.0
-                                && sd.male > 0.0
-                                && sd.female.is_finite()
-                                && sd.male.is_finite() =>
-                        {
-                            sd_f[j] = sd.female;
-                            sd_m[j] = sd.male;
-                        }
-                        Some(sd) => fail(
-                            &place,
-                            format!(
-                                "SDs must be positive, found female {} male {}",
-                                sd.female, sd.male
-                            ),
-                        ),
-                        None => fail(&place, "a metric trait needs `sd: {female, male}`".into()),
-                    }
-                    if t.thresholds.is_some() {
-                        fail(&place, "a metric trait has no thresholds".into());
+                    if let Some((f, m)) = metric_sds(t, &place, &mut fail) {
+                        sd_f[j] = f;
+                        sd_m[j] = m;
                     }
                     LatentKind::Metric
                 }
