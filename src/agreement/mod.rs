@@ -204,6 +204,135 @@ fn bootstrap<T: Copy>(
     (q(0.025), q(0.975))
 }
 
+/// The two tables and the individuals in both, matched by id.
+struct Pairing<'a> {
+    a: &'a Assemblage,
+    b: &'a Assemblage,
+    /// (row in `a`, row in `b`) of each individual in both.
+    common: &'a [(usize, usize)],
+    seed: u64,
+}
+
+impl Pairing<'_> {
+    /// Agreement on a graded trait: weighted kappas (Cohen 1968) with bootstrap intervals,
+    /// exact agreement and the latent observer error; pairs where either observer gave a
+    /// range are left out and counted. `None` when no individual has both grades.
+    fn ordinal(
+        &self,
+        t: usize,
+        trait_id: &str,
+        lowest: i32,
+        highest: i32,
+        disagreements: &mut Vec<Disagreement>,
+    ) -> Option<TraitAgreement> {
+        let mut pairs = Vec::new();
+        let mut ranges = 0;
+        for &(i, j) in self.common {
+            if let (
+                Some(Observation::Grade { low: x, high: x2 }),
+                Some(Observation::Grade { low: y, high: y2 }),
+            ) = (
+                self.a.individuals[i].observations[t],
+                self.b.individuals[j].observations[t],
+            ) {
+                if x == x2 && y == y2 {
+                    pairs.push((x, y));
+                    if x != y {
+                        disagreements.push(Disagreement {
+                            id: self.a.individuals[i].id.clone(),
+                            trait_id: trait_id.to_string(),
+                            a: x.to_string(),
+                            b: y.to_string(),
+                        });
+                    }
+                } else {
+                    ranges += 1;
+                }
+            }
+        }
+        if pairs.is_empty() {
+            return None;
+        }
+        let (lo, hi) = (lowest, highest);
+        let lin = weighted_kappa(&pairs, lo, hi, false);
+        let quad = weighted_kappa(&pairs, lo, hi, true);
+        let bl = bootstrap(
+            &pairs,
+            |p| weighted_kappa(p, lo, hi, false),
+            2000,
+            self.seed ^ t as u64,
+        );
+        let bq = bootstrap(
+            &pairs,
+            |p| weighted_kappa(p, lo, hi, true),
+            2000,
+            self.seed ^ (t as u64 + 1000),
+        );
+        Some(TraitAgreement {
+            trait_id: trait_id.to_string(),
+            n: pairs.len(),
+            ranges_left_out: ranges,
+            first: (lin, bl.0, bl.1),
+            second: (quad, bq.0, bq.1),
+            third: pairs.iter().filter(|(x, y)| x == y).count() as f64 / pairs.len() as f64,
+            kind: "ordinal",
+            observer_error: observer_error(&pairs, lo, hi),
+        })
+    }
+
+    /// Agreement on a measurement: technical error of measurement and ICC(2,1) (Shrout &
+    /// Fleiss 1979) with bootstrap intervals, and the relative TEM; pairs more than 2 TEM apart
+    /// are listed. `None` when no individual has both measurements.
+    fn metric(
+        &self,
+        t: usize,
+        trait_id: &str,
+        disagreements: &mut Vec<Disagreement>,
+    ) -> Option<TraitAgreement> {
+        let mut pairs = Vec::new();
+        let mut ids = Vec::new();
+        for &(i, j) in self.common {
+            if let (
+                Some(Observation::Measurement { value: x }),
+                Some(Observation::Measurement { value: y }),
+            ) = (
+                self.a.individuals[i].observations[t],
+                self.b.individuals[j].observations[t],
+            ) {
+                pairs.push((x, y));
+                ids.push(self.a.individuals[i].id.clone());
+            }
+        }
+        if pairs.is_empty() {
+            return None;
+        }
+        let e = tem(&pairs);
+        for ((x, y), id) in pairs.iter().zip(&ids) {
+            if (x - y).abs() > 2.0 * e && e > 0.0 {
+                disagreements.push(Disagreement {
+                    id: id.clone(),
+                    trait_id: trait_id.to_string(),
+                    a: x.to_string(),
+                    b: y.to_string(),
+                });
+            }
+        }
+        let mean = pairs.iter().map(|(x, y)| x + y).sum::<f64>() / (2.0 * pairs.len() as f64);
+        let bt = bootstrap(&pairs, tem, 2000, self.seed ^ t as u64);
+        let bi = bootstrap(&pairs, icc_2_1, 2000, self.seed ^ (t as u64 + 1000));
+        Some(TraitAgreement {
+            trait_id: trait_id.to_string(),
+            n: pairs.len(),
+            ranges_left_out: 0,
+            first: (e, bt.0, bt.1),
+            second: (icc_2_1(&pairs), bi.0, bi.1),
+            third: 100.0 * e / mean,
+            kind: "metric",
+            observer_error: None,
+        })
+    }
+}
+
 /// Compare two observers' scorings (read with the same catalogue).
 pub fn compare(a: &Assemblage, b: &Assemblage, seed: u64) -> Agreement {
     let cat = &a.catalogue;
@@ -226,6 +355,12 @@ pub fn compare(a: &Assemblage, b: &Assemblage, seed: u64) -> Agreement {
         .filter(|i| find(a, &i.id).is_none())
         .map(|i| i.id.clone())
         .collect();
+    let pairing = Pairing {
+        a,
+        b,
+        common: &common,
+        seed,
+    };
     let mut traits = Vec::new();
     let mut disagreements = Vec::new();
     for (t, def) in cat.traits().iter().enumerate() {
@@ -234,103 +369,10 @@ pub fn compare(a: &Assemblage, b: &Assemblage, seed: u64) -> Agreement {
         }
         match &def.kind {
             TraitKind::Ordinal { lowest, highest } => {
-                let mut pairs = Vec::new();
-                let mut ranges = 0;
-                for &(i, j) in &common {
-                    if let (
-                        Some(Observation::Grade { low: x, high: x2 }),
-                        Some(Observation::Grade { low: y, high: y2 }),
-                    ) = (
-                        a.individuals[i].observations[t],
-                        b.individuals[j].observations[t],
-                    ) {
-                        if x == x2 && y == y2 {
-                            pairs.push((x, y));
-                            if x != y {
-                                disagreements.push(Disagreement {
-                                    id: a.individuals[i].id.clone(),
-                                    trait_id: def.id.clone(),
-                                    a: x.to_string(),
-                                    b: y.to_string(),
-                                });
-                            }
-                        } else {
-                            ranges += 1;
-                        }
-                    }
-                }
-                if pairs.is_empty() {
-                    continue;
-                }
-                let (lo, hi) = (*lowest, *highest);
-                let lin = weighted_kappa(&pairs, lo, hi, false);
-                let quad = weighted_kappa(&pairs, lo, hi, true);
-                let bl = bootstrap(
-                    &pairs,
-                    |p| weighted_kappa(p, lo, hi, false),
-                    2000,
-                    seed ^ t as u64,
-                );
-                let bq = bootstrap(
-                    &pairs,
-                    |p| weighted_kappa(p, lo, hi, true),
-                    2000,
-                    seed ^ (t as u64 + 1000),
-                );
-                traits.push(TraitAgreement {
-                    trait_id: def.id.clone(),
-                    n: pairs.len(),
-                    ranges_left_out: ranges,
-                    first: (lin, bl.0, bl.1),
-                    second: (quad, bq.0, bq.1),
-                    third: pairs.iter().filter(|(x, y)| x == y).count() as f64 / pairs.len() as f64,
-                    kind: "ordinal",
-                    observer_error: observer_error(&pairs, lo, hi),
-                });
+                traits.extend(pairing.ordinal(t, &def.id, *lowest, *highest, &mut disagreements))
             }
             TraitKind::Metric { .. } => {
-                let mut pairs = Vec::new();
-                let mut ids = Vec::new();
-                for &(i, j) in &common {
-                    if let (
-                        Some(Observation::Measurement { value: x }),
-                        Some(Observation::Measurement { value: y }),
-                    ) = (
-                        a.individuals[i].observations[t],
-                        b.individuals[j].observations[t],
-                    ) {
-                        pairs.push((x, y));
-                        ids.push(a.individuals[i].id.clone());
-                    }
-                }
-                if pairs.is_empty() {
-                    continue;
-                }
-                let e = tem(&pairs);
-                for ((x, y), id) in pairs.iter().zip(&ids) {
-                    if (x - y).abs() > 2.0 * e && e > 0.0 {
-                        disagreements.push(Disagreement {
-                            id: id.clone(),
-                            trait_id: def.id.clone(),
-                            a: x.to_string(),
-                            b: y.to_string(),
-                        });
-                    }
-                }
-                let mean =
-                    pairs.iter().map(|(x, y)| x + y).sum::<f64>() / (2.0 * pairs.len() as f64);
-                let bt = bootstrap(&pairs, tem, 2000, seed ^ t as u64);
-                let bi = bootstrap(&pairs, icc_2_1, 2000, seed ^ (t as u64 + 1000));
-                traits.push(TraitAgreement {
-                    trait_id: def.id.clone(),
-                    n: pairs.len(),
-                    ranges_left_out: 0,
-                    first: (e, bt.0, bt.1),
-                    second: (icc_2_1(&pairs), bi.0, bi.1),
-                    third: 100.0 * e / mean,
-                    kind: "metric",
-                    observer_error: None,
-                });
+                traits.extend(pairing.metric(t, &def.id, &mut disagreements))
             }
             TraitKind::Count => {}
         }

@@ -245,47 +245,7 @@ pub fn validate_with_progress(
             vec![m.clone()],
             vec![0; reference.len()],
         ),
-        Subject::Refit(spec, catalogue) => {
-            let sexes: Vec<Sex> = reference.iter().map(|r| r.1).collect();
-            let fold_of = assign_folds(&sexes, settings.folds, settings.seed);
-            let k = match settings.folds {
-                Folds::K(k) => k,
-                Folds::LeaveOneOut => reference.len(),
-            };
-            let models: Vec<Result<Model, ValidationError>> = (0..k)
-                .into_par_iter()
-                .map(|f| {
-                    let train: Vec<(&Individual, Sex)> = reference
-                        .iter()
-                        .zip(&fold_of)
-                        .filter(|(_, &g)| g != f)
-                        .map(|(r, _)| *r)
-                        .collect();
-                    let fitted = fit(spec, catalogue, &train, info).map_err(|source| {
-                        ValidationError::Fit {
-                            fold: f + 1,
-                            folds: k,
-                            source,
-                        }
-                    })?;
-                    let yaml = fitted
-                        .to_yaml()
-                        .map_err(|m| ValidationError::Settings(m.to_string()))?;
-                    Model::from_yaml("refitted model", &yaml).map_err(|source| {
-                        ValidationError::Model {
-                            fold: f + 1,
-                            source,
-                        }
-                    })
-                })
-                .collect();
-            let models = models.into_iter().collect::<Result<Vec<_>, _>>()?;
-            let design = match settings.folds {
-                Folds::K(k) => format!("{k}-fold cross-validation, stratified by sex"),
-                Folds::LeaveOneOut => "leave-one-out cross-validation".into(),
-            };
-            (design, models, fold_of)
-        }
+        Subject::Refit(spec, catalogue) => fold_models(spec, catalogue, reference, info, settings)?,
     };
     let blocks: Vec<String> = models[0]
         .blocks
@@ -368,6 +328,56 @@ pub fn validate_with_progress(
         by_traits,
         settings: settings.clone(),
     })
+}
+
+/// The models of a cross-validation: one fitted to each fold's training part (folds
+/// stratified by sex), with the design in words and each individual's fold.
+///
+/// # Errors
+/// [`ValidationError`] for a fold whose training part cannot be fitted.
+fn fold_models(
+    spec: &FitSpec,
+    catalogue: &Catalogue,
+    reference: &[(&Individual, Sex)],
+    info: &ReferenceInfo,
+    settings: &ValidationSettings,
+) -> Result<(String, Vec<Model>, Vec<usize>), ValidationError> {
+    let sexes: Vec<Sex> = reference.iter().map(|r| r.1).collect();
+    let fold_of = assign_folds(&sexes, settings.folds, settings.seed);
+    let k = match settings.folds {
+        Folds::K(k) => k,
+        Folds::LeaveOneOut => reference.len(),
+    };
+    let models: Vec<Result<Model, ValidationError>> = (0..k)
+        .into_par_iter()
+        .map(|f| {
+            let train: Vec<(&Individual, Sex)> = reference
+                .iter()
+                .zip(&fold_of)
+                .filter(|(_, &g)| g != f)
+                .map(|(r, _)| *r)
+                .collect();
+            let fitted =
+                fit(spec, catalogue, &train, info).map_err(|source| ValidationError::Fit {
+                    fold: f + 1,
+                    folds: k,
+                    source,
+                })?;
+            let yaml = fitted
+                .to_yaml()
+                .map_err(|m| ValidationError::Settings(m.to_string()))?;
+            Model::from_yaml("refitted model", &yaml).map_err(|source| ValidationError::Model {
+                fold: f + 1,
+                source,
+            })
+        })
+        .collect();
+    let models = models.into_iter().collect::<Result<Vec<_>, _>>()?;
+    let design = match settings.folds {
+        Folds::K(k) => format!("{k}-fold cross-validation, stratified by sex"),
+        Folds::LeaveOneOut => "leave-one-out cross-validation".into(),
+    };
+    Ok((design, models, fold_of))
 }
 
 fn logistic(x: f64) -> f64 {
