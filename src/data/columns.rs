@@ -94,17 +94,7 @@ pub fn assign_roles(
             _ => trait_role(&name, catalogue).unwrap_or(ColumnRole::Carried),
         };
         let role = if Some(name.as_str()) == group_column.as_deref() && !name.is_empty() {
-            if matches!(natural, ColumnRole::Carried | ColumnRole::Group) {
-                ColumnRole::Group
-            } else {
-                // Grouping by evidence would be circular (the trait would leave the evidence
-                // and become the grouping); by age, id or known sex, meaningless.
-                let what = match natural {
-                    ColumnRole::Id => "the id column",
-                    ColumnRole::Age => "the age column (age at death is read from it)",
-                    ColumnRole::KnownSex => "the known-sex column",
-                    _ => "a trait column (evidence of sex cannot also be the grouping)",
-                };
+            group_role(natural).unwrap_or_else(|what| {
                 problems.push(problem(
                     raw,
                     ProblemKind::MissingGroupColumn,
@@ -114,7 +104,7 @@ pub fn assign_roles(
                     ),
                 ));
                 natural
-            }
+            })
         } else {
             natural
         };
@@ -133,6 +123,50 @@ pub fn assign_roles(
         }
         roles.push(role);
     }
+    missing_columns(file, header, &roles, group_column.as_deref(), &mut problems);
+    // A trait may come unsided or sided, not both.
+    for (index, def) in catalogue.traits().iter().enumerate() {
+        let has = |side| roles.contains(&ColumnRole::Trait { index, side });
+        if has(Side::Unsided) && (has(Side::Left) || has(Side::Right)) {
+            problems.push(problem(
+                &def.id,
+                ProblemKind::AmbiguousSideColumns,
+                format!(
+                    "either `{0}` or `{0}_l` / `{0}_r`, not both: say which side the unsided value is",
+                    def.id
+                ),
+            ));
+        }
+    }
+    (roles, problems, warnings)
+}
+
+/// The role of the column named by `--group-by`, from the role its name would have had: a
+/// carried column becomes the groups; any other column cannot be one (the error says what it
+/// is).
+fn group_role(natural: ColumnRole) -> Result<ColumnRole, &'static str> {
+    match natural {
+        ColumnRole::Carried | ColumnRole::Group => Ok(ColumnRole::Group),
+        // Grouping by evidence would be circular (the trait would leave the evidence and
+        // become the grouping); by age, id or known sex, meaningless.
+        ColumnRole::Id => Err("the id column"),
+        ColumnRole::Age => Err("the age column (age at death is read from it)"),
+        ColumnRole::KnownSex => Err("the known-sex column"),
+        ColumnRole::Trait { .. } => {
+            Err("a trait column (evidence of sex cannot also be the grouping)")
+        }
+    }
+}
+
+/// The columns a header must have: `id`, and the column named by `--group-by` when one is
+/// (unless that column was already refused as a grouping).
+fn missing_columns(
+    file: &str,
+    header: &[String],
+    roles: &[ColumnRole],
+    group_column: Option<&str>,
+    problems: &mut Vec<Problem>,
+) {
     if !roles.contains(&ColumnRole::Id) {
         let first = header.first().map(|h| h.trim()).unwrap_or("");
         let hint = if header.len() == 1 && (first.contains('|') || first.contains(' ')) {
@@ -149,7 +183,7 @@ pub fn assign_roles(
             expected: format!("a column named `id` in the header row{hint}"),
         });
     }
-    if let Some(g) = &group_column {
+    if let Some(g) = group_column {
         let refused = problems
             .iter()
             .any(|p| p.kind == ProblemKind::MissingGroupColumn);
@@ -158,7 +192,7 @@ pub fn assign_roles(
                 file: file.to_string(),
                 row: Some(1),
                 column: None,
-                value: Some(g.clone()),
+                value: Some(g.to_string()),
                 kind: ProblemKind::MissingGroupColumn,
                 expected: format!(
                     "a column named `{g}` to group by; the header has: {}",
@@ -171,21 +205,6 @@ pub fn assign_roles(
             });
         }
     }
-    // A trait may come unsided or sided, not both.
-    for (index, def) in catalogue.traits().iter().enumerate() {
-        let has = |side| roles.contains(&ColumnRole::Trait { index, side });
-        if has(Side::Unsided) && (has(Side::Left) || has(Side::Right)) {
-            problems.push(problem(
-                &def.id,
-                ProblemKind::AmbiguousSideColumns,
-                format!(
-                    "either `{0}` or `{0}_l` / `{0}_r`, not both: say which side the unsided value is",
-                    def.id
-                ),
-            ));
-        }
-    }
-    (roles, problems, warnings)
 }
 
 fn trait_role(name: &str, catalogue: &Catalogue) -> Option<ColumnRole> {

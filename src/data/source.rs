@@ -66,6 +66,40 @@ pub fn detect_delimiter(header_line: &str) -> char {
     }
 }
 
+/// The bytes as UTF-8 text (a byte-order mark removed), or the line and the explanation of
+/// why they are not: UTF-16, a legacy encoding (with the offset of the first bad byte), or a
+/// binary file.
+fn as_text(bytes: &[u8]) -> Result<&str, (Option<usize>, String)> {
+    if bytes.starts_with(&[0xFF, 0xFE]) || bytes.starts_with(&[0xFE, 0xFF]) {
+        return Err((
+            None,
+            "UTF-8 text; this file is UTF-16: save it again as \"CSV UTF-8\" (or open it in a text editor and save with UTF-8 encoding)".into(),
+        ));
+    }
+    let bytes = bytes.strip_prefix(&[0xEF, 0xBB, 0xBF]).unwrap_or(bytes);
+    let text = match std::str::from_utf8(bytes) {
+        Ok(t) => t,
+        Err(e) => {
+            let offset = e.valid_up_to();
+            let line = bytes[..offset].iter().filter(|&&b| b == b'\n').count() + 1;
+            return Err((
+                Some(line),
+                format!(
+                    "UTF-8 text; the byte at offset {offset} (0x{:02X}) is not UTF-8 — the file was probably saved in a legacy encoding such as Windows-1252: save it again as \"CSV UTF-8\"",
+                    bytes[offset]
+                ),
+            ));
+        }
+    };
+    if text.contains('\0') {
+        return Err((
+            None,
+            "a text table; this file contains NUL bytes (is it a binary file, or a workbook with the wrong extension?)".into(),
+        ));
+    }
+    Ok(text)
+}
+
 /// Read delimited text from bytes. `name` is used in problems.
 ///
 /// # Errors
@@ -80,36 +114,8 @@ pub fn read_text(name: &str, bytes: &[u8]) -> Result<RawTable, Vec<Problem>> {
         kind,
         expected,
     };
-    if bytes.starts_with(&[0xFF, 0xFE]) || bytes.starts_with(&[0xFE, 0xFF]) {
-        return Err(vec![problem(
-            ProblemKind::NotUtf8,
-            None,
-            "UTF-8 text; this file is UTF-16: save it again as \"CSV UTF-8\" (or open it in a text editor and save with UTF-8 encoding)".into(),
-        )]);
-    }
-    let bytes = bytes.strip_prefix(&[0xEF, 0xBB, 0xBF]).unwrap_or(bytes);
-    let text = match std::str::from_utf8(bytes) {
-        Ok(t) => t,
-        Err(e) => {
-            let offset = e.valid_up_to();
-            let line = bytes[..offset].iter().filter(|&&b| b == b'\n').count() + 1;
-            return Err(vec![problem(
-                ProblemKind::NotUtf8,
-                Some(line),
-                format!(
-                    "UTF-8 text; the byte at offset {offset} (0x{:02X}) is not UTF-8 — the file was probably saved in a legacy encoding such as Windows-1252: save it again as \"CSV UTF-8\"",
-                    bytes[offset]
-                ),
-            )]);
-        }
-    };
-    if text.contains('\0') {
-        return Err(vec![problem(
-            ProblemKind::NotUtf8,
-            None,
-            "a text table; this file contains NUL bytes (is it a binary file, or a workbook with the wrong extension?)".into(),
-        )]);
-    }
+    let text = as_text(bytes)
+        .map_err(|(row, expected)| vec![problem(ProblemKind::NotUtf8, row, expected)])?;
     let first_line = text.lines().find(|l| !l.trim().is_empty()).unwrap_or("");
     let delimiter = detect_delimiter(first_line);
     let mut reader = csv::ReaderBuilder::new()
