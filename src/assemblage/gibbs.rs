@@ -33,6 +33,10 @@ fn ln_beta_pdf(x: f64, a: f64, b: f64) -> f64 {
 
 /// Run the sampler: `membership[i]` is individual i's group (0..groups), `ln_lrs[i]` its
 /// ln LR (0 without evidence), the prior on μ is Beta(a, b).
+///
+/// Seven arguments on purpose: this is the independent second implementation that the
+/// grid posterior is checked against, so it takes plain numbers and slices only (no type of
+/// the code it checks).
 pub fn gibbs_means(
     ln_lrs: &[f64],
     membership: &[usize],

@@ -85,6 +85,9 @@ pub fn under_prior(
 
 /// As [`under_prior`], with the groups already prepared (`prepared`, built from the same
 /// evidence and groups) so that several priors share them.
+///
+/// About 120 lines: one branch per case of the model (one population, or groups under the
+/// hierarchy), each a short sequence of summaries of the same posterior.
 pub fn under_prior_on(
     evidence: &[IndividualEvidence],
     groups: Option<&[String]>,

@@ -556,6 +556,14 @@ struct ChainOut {
     kept: usize,
 }
 
+/// One chain of the recalibration's Gibbs sampler: each iteration draws every individual's
+/// sex given the means and π, the missing measurements (data augmentation) and each sex's
+/// means given the sexes, then π.
+///
+/// Seven arguments: the sampler's fixed inputs (the blocks, every individual's fixed ln LR
+/// and whether it has evidence), the prior, the settings, which chain (its seed) and the
+/// progress listener. They are shared read-only by the chains run in parallel; a struct would
+/// only rename them.
 fn run_chain(
     blocks: &[MetricBlock],
     fixed: &[f64],

@@ -107,9 +107,7 @@ pub fn run(args: Args) -> Result<i32, Error> {
     let _ = writeln!(t, "Category columns: expected share of individuals. Simulation under the model: real cemeteries fit it less well.");
     print!("{t}");
     if let Some(out) = &args.out {
-        let mut w = csv::WriterBuilder::new()
-            .terminator(csv::Terminator::Any(b'\n'))
-            .from_writer(Vec::new());
+        let mut w = crate::report::CsvText::default();
         let mut head = vec![
             "n".to_string(),
             "replicates".into(),
@@ -122,7 +120,7 @@ pub fn run(args: Args) -> Result<i32, Error> {
                 .map(|c| format!("share_{}", c.as_str())),
         );
         head.push("error_rate_of_firm_calls".into());
-        let _ = w.write_record(&head);
+        w.row(&head);
         for r in &rows {
             let mut rec = vec![
                 r.n.to_string(),
@@ -132,9 +130,9 @@ pub fn run(args: Args) -> Result<i32, Error> {
             ];
             rec.extend(r.category_shares.iter().map(|x| format!("{x:.4}")));
             rec.push(format!("{:.4}", r.error_rate_of_firm_calls));
-            let _ = w.write_record(&rec);
+            w.row(&rec);
         }
-        write_atomic(out, &w.into_inner().unwrap_or_default(), &[])?;
+        write_atomic(out, &w.finish()?, &[])?;
     }
     Ok(0)
 }

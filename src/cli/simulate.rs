@@ -84,7 +84,7 @@ pub fn run(args: Args) -> Result<i32, Error> {
     };
     write_atomic(
         &args.out,
-        &sim.to_csv_with_sex_column(&model, column),
+        &sim.to_csv_with_sex_column(&model, column)?,
         &protected,
     )?;
     let females = sim

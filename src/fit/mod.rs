@@ -440,7 +440,6 @@ fn fit_margin(
 /// sexes; the female latent mean is 0 and the within-sex SD 1, and the model stores the
 /// thresholds centred between the sexes. Seven arguments: the block and trait name the
 /// estimates, the place names the problems, and `lowest`/`k` give the grade scale.
-#[allow(clippy::too_many_arguments)]
 fn ordinal_margin(
     b: &BlockSpec,
     t: &str,
@@ -535,7 +534,6 @@ fn ordinal_margin(
 /// A measurement's margin: per-sex means and maximum-likelihood SDs (per sex or pooled, as
 /// the block says), with their standard errors. Seven arguments, as [`ordinal_margin`]: the
 /// names of the estimates and problems, the unit, and the per-sex counts already made.
-#[allow(clippy::too_many_arguments)]
 fn metric_margin(
     b: &BlockSpec,
     t: &str,

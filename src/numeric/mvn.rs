@@ -50,6 +50,10 @@ impl Default for QmcSettings {
 /// Gauss–Legendre quadrature of Plackett's identity in the arcsine of the correlation for
 /// |r| < 0.925, and an asymptotic expansion around |r| = 1 otherwise; absolute accuracy about
 /// 1e-15.
+///
+/// Kept as one function (about 130 lines) on purpose: it follows the published algorithm
+/// step by step, with its quadrature tables, so that it can be checked line by line against
+/// Genz (2004).
 pub fn bvn_upper(h: f64, k: f64, r: f64) -> f64 {
     if h == f64::INFINITY || k == f64::INFINITY {
         return 0.0;

@@ -59,7 +59,6 @@ pub fn simulate(
         return Err(SimError::NothingToSimulate);
     }
     let mut rng = ChaCha8Rng::seed_from_u64(seed);
-    let cat = &model.catalogue;
     let mut out = Simulated {
         individuals: Vec::new(),
         true_sex: Vec::new(),
@@ -73,82 +72,9 @@ pub fn simulate(
             let sex = draw_sex(g.pi, &mut rng);
             let reads = 200 + (rng.random::<f64>() * 4800.0) as u64;
             let mut obs = draw_observations(model, sex, reads, &mut rng);
-            // Measurements within the plausible range, as recorded.
-            for (t, o) in obs.iter_mut().enumerate() {
-                if let (
-                    Some(Observation::Measurement { value }),
-                    TraitKind::Metric { low, high, .. },
-                ) = (*o, &cat.traits()[t].kind)
-                {
-                    let mut v = value;
-                    let mut tries = 0;
-                    while !(v >= *low && v <= *high) && tries < 100 {
-                        v = match draw_observations(model, sex, 0, &mut rng)[t] {
-                            Some(Observation::Measurement { value }) => value,
-                            _ => v,
-                        };
-                        tries += 1;
-                    }
-                    *o = Some(Observation::Measurement {
-                        value: recorded(v.clamp(*low, *high), *high),
-                    });
-                }
-            }
-            let subadult = rng.random::<f64>() < missing.subadult_rate;
-            let has_dna = rng.random::<f64>() < missing.dna_rate;
-            let lost: Vec<_> = missing
-                .region
-                .iter()
-                .filter_map(|(r, &rate)| (rng.random::<f64>() < rate).then_some(*r))
-                .collect();
-            for (t, o) in obs.iter_mut().enumerate() {
-                let def = &cat.traits()[t];
-                if o.is_none() {
-                    continue;
-                }
-                let keep = if def.region.is_morphological() {
-                    !subadult
-                        && !lost.contains(&def.region)
-                        && rng.random::<f64>() >= missing.trait_rate
-                } else {
-                    has_dna
-                };
-                if !keep {
-                    *o = None;
-                    continue;
-                }
-                if let (
-                    Some(Observation::Grade { low, .. }),
-                    TraitKind::Ordinal { lowest, highest },
-                ) = (*o, &def.kind)
-                {
-                    if rng.random::<f64>() < missing.range_rate {
-                        let up = rng.random::<f64>() < 0.5;
-                        let (a, b) = if (up && low < *highest) || low == *lowest {
-                            (low, low + 1)
-                        } else {
-                            (low - 1, low)
-                        };
-                        *o = Some(Observation::Grade { low: a, high: b });
-                    }
-                }
-            }
-            let age = if subadult {
-                let lo = 4.0 + (rng.random::<f64>() * 10.0).floor();
-                AgeAtDeath::Years {
-                    low: lo,
-                    high: Some(lo + 3.0),
-                }
-            } else {
-                let classes = [
-                    (18.0, Some(25.0)),
-                    (25.0, Some(35.0)),
-                    (35.0, Some(50.0)),
-                    (50.0, None),
-                ];
-                let (low, high) = classes[(rng.random::<f64>() * 4.0) as usize % 4];
-                AgeAtDeath::Years { low, high }
-            };
+            within_plausible_range(model, sex, &mut obs, &mut rng);
+            let subadult = preserve(&model.catalogue, missing, &mut obs, &mut rng);
+            let age = draw_age(subadult, &mut rng);
             let n = obs.len();
             out.individuals.push(Individual {
                 id: format!("S-{k:05}"),
@@ -166,21 +92,126 @@ pub fn simulate(
     Ok(out)
 }
 
+/// Measurements redrawn (at most 100 times) until within the trait's plausible range, then
+/// clamped to it and rounded as recorded.
+fn within_plausible_range(
+    model: &Model,
+    sex: Sex,
+    obs: &mut [Option<Observation>],
+    rng: &mut ChaCha8Rng,
+) {
+    let cat = &model.catalogue;
+    for (t, o) in obs.iter_mut().enumerate() {
+        if let (Some(Observation::Measurement { value }), TraitKind::Metric { low, high, .. }) =
+            (*o, &cat.traits()[t].kind)
+        {
+            let mut v = value;
+            let mut tries = 0;
+            while !(v >= *low && v <= *high) && tries < 100 {
+                v = match draw_observations(model, sex, 0, rng)[t] {
+                    Some(Observation::Measurement { value }) => value,
+                    _ => v,
+                };
+                tries += 1;
+            }
+            *o = Some(Observation::Measurement {
+                value: recorded(v.clamp(*low, *high), *high),
+            });
+        }
+    }
+}
+
+/// Preservation as `missing` says: whether the individual is a subadult (no skeletal
+/// evidence), whether DNA was recovered, which regions are lost, which traits are missing
+/// or recorded as a range of two grades. Returns whether the individual is a subadult.
+fn preserve(
+    cat: &crate::catalogue::Catalogue,
+    missing: &MissingSpec,
+    obs: &mut [Option<Observation>],
+    rng: &mut ChaCha8Rng,
+) -> bool {
+    let subadult = rng.random::<f64>() < missing.subadult_rate;
+    let has_dna = rng.random::<f64>() < missing.dna_rate;
+    let lost: Vec<_> = missing
+        .region
+        .iter()
+        .filter_map(|(r, &rate)| (rng.random::<f64>() < rate).then_some(*r))
+        .collect();
+    for (t, o) in obs.iter_mut().enumerate() {
+        let def = &cat.traits()[t];
+        if o.is_none() {
+            continue;
+        }
+        let keep = if def.region.is_morphological() {
+            !subadult && !lost.contains(&def.region) && rng.random::<f64>() >= missing.trait_rate
+        } else {
+            has_dna
+        };
+        if !keep {
+            *o = None;
+            continue;
+        }
+        if let (Some(Observation::Grade { low, .. }), TraitKind::Ordinal { lowest, highest }) =
+            (*o, &def.kind)
+        {
+            if rng.random::<f64>() < missing.range_rate {
+                let up = rng.random::<f64>() < 0.5;
+                let (a, b) = if (up && low < *highest) || low == *lowest {
+                    (low, low + 1)
+                } else {
+                    (low - 1, low)
+                };
+                *o = Some(Observation::Grade { low: a, high: b });
+            }
+        }
+    }
+    subadult
+}
+
+/// An age at death: a 3-year interval from 4 to 16 for a subadult, else one of four adult
+/// classes (18-25, 25-35, 35-50, 50+) with equal probability.
+fn draw_age(subadult: bool, rng: &mut ChaCha8Rng) -> AgeAtDeath {
+    if subadult {
+        let lo = 4.0 + (rng.random::<f64>() * 10.0).floor();
+        AgeAtDeath::Years {
+            low: lo,
+            high: Some(lo + 3.0),
+        }
+    } else {
+        let classes = [
+            (18.0, Some(25.0)),
+            (25.0, Some(35.0)),
+            (35.0, Some(50.0)),
+            (50.0, None),
+        ];
+        let (low, high) = classes[(rng.random::<f64>() * 4.0) as usize % 4];
+        AgeAtDeath::Years { low, high }
+    }
+}
+
 impl Simulated {
     /// The assemblage as CSV in the input contract: `id`, `group` (when named), `age`, one
     /// column per simulated trait, and `true_sex` (a carried column, never evidence).
-    pub fn to_csv(&self, model: &Model) -> Vec<u8> {
+    ///
+    /// # Errors
+    /// [`RenderError`](crate::report::RenderError) when a row cannot be written.
+    pub fn to_csv(&self, model: &Model) -> Result<Vec<u8>, crate::report::RenderError> {
         self.to_csv_with_sex_column(model, "true_sex")
     }
 
     /// As [`Simulated::to_csv`], with the sex in a column of the given name: `known_sex` makes
     /// a simulated reference collection of documented sex (for `tessera fit` and `validate`).
-    pub fn to_csv_with_sex_column(&self, model: &Model, sex_column: &str) -> Vec<u8> {
+    ///
+    /// # Errors
+    /// As [`Simulated::to_csv`].
+    pub fn to_csv_with_sex_column(
+        &self,
+        model: &Model,
+        sex_column: &str,
+    ) -> Result<Vec<u8>, crate::report::RenderError> {
         let cat = &model.catalogue;
         let grouped = self.individuals.iter().any(|i| i.group.is_some());
-        let mut w = csv::WriterBuilder::new()
-            .terminator(csv::Terminator::Any(b'\n'))
-            .from_writer(Vec::new());
+        let mut w = crate::report::CsvText::default();
         let mut head = vec!["id".to_string()];
         if grouped {
             head.push("group".into());
@@ -192,7 +223,7 @@ impl Simulated {
                 .map(|&t| cat.traits()[t].id.clone()),
         );
         head.push(sex_column.into());
-        let _ = w.write_record(&head);
+        w.row(&head);
         for (ind, sex) in self.individuals.iter().zip(&self.true_sex) {
             let mut r = vec![ind.id.clone()];
             if grouped {
@@ -221,9 +252,9 @@ impl Simulated {
                 Sex::Female => "F".into(),
                 Sex::Male => "M".into(),
             });
-            let _ = w.write_record(&r);
+            w.row(&r);
         }
-        w.into_inner().unwrap_or_default()
+        w.finish()
     }
 }
 

@@ -98,6 +98,9 @@ pub fn draw_sex(pi: f64, rng: &mut ChaCha8Rng) -> Sex {
 
 /// Simulate one population (`group`: its size and proportion female), evaluate every individual
 /// (through a shared cache) and compute the posterior of π under `prior`.
+///
+/// Seven arguments: the model, the population, its preservation and seed, and the three
+/// things shared by every replicate run in parallel (context, evidence cache, prior).
 pub(crate) fn simulate_and_evaluate(
     model: &crate::model::Model,
     group: GroupSpec,

@@ -19,7 +19,7 @@ fn simulated_tables_pass_the_reader_and_keep_the_truth_out_of_the_evidence() {
         },
     ];
     let s = simulate(&m, &groups, &MissingSpec::fragmentary(), 9).unwrap();
-    let csv = s.to_csv(&m);
+    let csv = s.to_csv(&m).unwrap();
     let a = read_assemblage_text("sim.csv", &csv, &m.catalogue, &ReadSettings::default()).unwrap();
     assert_eq!(a.individuals.len(), 100);
     assert_eq!(a.carried_columns, vec!["true_sex"]);
@@ -32,7 +32,8 @@ fn simulated_tables_pass_the_reader_and_keep_the_truth_out_of_the_evidence() {
     assert_eq!(
         simulate(&m, &groups, &MissingSpec::fragmentary(), 9)
             .unwrap()
-            .to_csv(&m),
+            .to_csv(&m)
+            .unwrap(),
         csv
     );
 }
