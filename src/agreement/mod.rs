@@ -76,6 +76,53 @@ pub fn icc_2_1(pairs: &[(f64, f64)]) -> f64 {
     (msr - mse) / (msr + mse + 2.0 * (msc - mse) / n)
 }
 
+/// A statistic with its 95% bootstrap interval.
+#[derive(Debug, Clone, Copy, PartialEq, Serialize)]
+pub struct WithInterval {
+    /// The estimate.
+    pub value: f64,
+    /// Lower end of the 95% interval.
+    pub lo: f64,
+    /// Upper end of the 95% interval.
+    pub hi: f64,
+}
+
+impl WithInterval {
+    fn new(value: f64, (lo, hi): (f64, f64)) -> Self {
+        WithInterval { value, lo, hi }
+    }
+}
+
+/// What agreement on one trait is measured by, by the trait's kind.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+#[serde(rename_all = "snake_case")]
+pub enum AgreementMeasures {
+    /// A graded trait.
+    Grades {
+        /// Linear-weighted kappa (Cohen 1968).
+        kappa_linear: WithInterval,
+        /// Quadratic-weighted kappa (Cohen 1968).
+        kappa_quadratic: WithInterval,
+        /// Share of pairs with the same grade.
+        exact_agreement: f64,
+        /// Pairs left out because one observer gave a grade range.
+        ranges_left_out: usize,
+        /// The polychoric correlation r of the two observers' scores (thresholds from each
+        /// observer's own marginal shares) and the observer-error SD as a share of the scored
+        /// latent SD, √(1 − r) (see [`observer_error`]).
+        observer_error: Option<(f64, f64)>,
+    },
+    /// A measurement.
+    Measurements {
+        /// Technical error of measurement, in the trait's unit.
+        tem: WithInterval,
+        /// Intraclass correlation ICC(2,1) (Shrout & Fleiss 1979).
+        icc: WithInterval,
+        /// TEM in % of the mean of the measurements.
+        relative_tem: f64,
+    },
+}
+
 /// Agreement on one trait.
 #[derive(Debug, Clone, PartialEq, Serialize)]
 pub struct TraitAgreement {
@@ -83,20 +130,18 @@ pub struct TraitAgreement {
     pub trait_id: String,
     /// Pairs with both observers recording an exact value.
     pub n: usize,
-    /// Pairs left out because one observer gave a grade range.
-    pub ranges_left_out: usize,
-    /// Ordinal: linear-weighted kappa and 95% interval; metric: TEM (and interval).
-    pub first: (f64, f64, f64),
-    /// Ordinal: quadratic-weighted kappa; metric: ICC(2,1).
-    pub second: (f64, f64, f64),
-    /// Metric: relative TEM in % of the mean; ordinal: share of exact agreement.
-    pub third: f64,
-    /// `ordinal` or `metric`.
-    pub kind: &'static str,
-    /// Ordinal: the polychoric correlation r of the two observers' scores (thresholds from
-    /// each observer's own marginal shares) and the observer-error SD as a share of the
-    /// scored latent SD, √(1 − r) (see [`observer_error`]).
-    pub observer_error: Option<(f64, f64)>,
+    /// The measures of agreement.
+    pub measures: AgreementMeasures,
+}
+
+impl TraitAgreement {
+    /// `ordinal` or `metric`, as the catalogue names the kinds.
+    pub fn kind(&self) -> &'static str {
+        match self.measures {
+            AgreementMeasures::Grades { .. } => "ordinal",
+            AgreementMeasures::Measurements { .. } => "metric",
+        }
+    }
 }
 
 /// The latent noise of scoring, from two observers' scores of the same individuals.
@@ -271,12 +316,14 @@ impl Pairing<'_> {
         Some(TraitAgreement {
             trait_id: trait_id.to_string(),
             n: pairs.len(),
-            ranges_left_out: ranges,
-            first: (lin, bl.0, bl.1),
-            second: (quad, bq.0, bq.1),
-            third: pairs.iter().filter(|(x, y)| x == y).count() as f64 / pairs.len() as f64,
-            kind: "ordinal",
-            observer_error: observer_error(&pairs, lo, hi),
+            measures: AgreementMeasures::Grades {
+                kappa_linear: WithInterval::new(lin, bl),
+                kappa_quadratic: WithInterval::new(quad, bq),
+                exact_agreement: pairs.iter().filter(|(x, y)| x == y).count() as f64
+                    / pairs.len() as f64,
+                ranges_left_out: ranges,
+                observer_error: observer_error(&pairs, lo, hi),
+            },
         })
     }
 
@@ -323,12 +370,11 @@ impl Pairing<'_> {
         Some(TraitAgreement {
             trait_id: trait_id.to_string(),
             n: pairs.len(),
-            ranges_left_out: 0,
-            first: (e, bt.0, bt.1),
-            second: (icc_2_1(&pairs), bi.0, bi.1),
-            third: 100.0 * e / mean,
-            kind: "metric",
-            observer_error: None,
+            measures: AgreementMeasures::Measurements {
+                tem: WithInterval::new(e, bt),
+                icc: WithInterval::new(icc_2_1(&pairs), bi),
+                relative_tem: 100.0 * e / mean,
+            },
         })
     }
 }

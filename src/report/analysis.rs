@@ -36,22 +36,14 @@ use serde::Serialize;
 use std::f64::consts::LN_10;
 use std::fmt::Write as _;
 
-fn f6(x: f64) -> String {
-    format!("{x:.6}")
-}
+use super::number::probability as prob;
 
-/// A probability: six decimals, or two significant digits in scientific form below 1e-6 so
-/// that strong evidence does not print as a bare zero.
-fn prob(x: f64) -> String {
-    if x > 0.0 && x < 1e-6 {
-        format!("{x:.1e}")
-    } else {
-        format!("{x:.6}")
-    }
+fn f6(x: f64) -> String {
+    super::number::cell(x, 6)
 }
 
 fn f4(x: f64) -> String {
-    format!("{x:.4}")
+    super::number::cell(x, 4)
 }
 
 /// (reads on X and Y, reads on Y) of an individual under the model's DNA block, when both

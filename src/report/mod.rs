@@ -3,6 +3,7 @@
 pub mod agreement;
 pub mod analysis;
 pub mod figures;
+pub mod number;
 pub mod publication;
 pub mod validation;
 

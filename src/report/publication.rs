@@ -13,19 +13,11 @@ use std::f64::consts::LN_10;
 use std::fmt::Write as _;
 
 fn f3(x: f64) -> String {
-    if x.is_finite() {
-        format!("{x:.3}")
-    } else {
-        "–".into()
-    }
+    super::number::text(x, 3)
 }
 
 fn f1(x: f64) -> String {
-    if x.is_finite() {
-        format!("{x:.1}")
-    } else {
-        "–".into()
-    }
+    super::number::text(x, 1)
 }
 
 /// "estimate (low–high)": `dash` is "–" in Markdown and "--" in LaTeX.

@@ -89,11 +89,7 @@ fn sex_word(s: Sex) -> &'static str {
 }
 
 fn num(x: f64) -> String {
-    if x.is_finite() {
-        format!("{x:.4}")
-    } else {
-        String::new()
-    }
+    super::number::cell(x, 4)
 }
 
 fn score_header(first: &str) -> Vec<String> {
