@@ -297,6 +297,15 @@ pub fn fit(
             minimum_age: Some(minimum_age),
             traits,
             blocks,
+            fitted_to: Some(crate::model::spec::FitOrigin {
+                file: std::path::Path::new(&info.file)
+                    .file_name()
+                    .map(|n| n.to_string_lossy().into_owned())
+                    .unwrap_or_else(|| info.file.clone()),
+                sha256: info.sha256.clone(),
+                females: n_female,
+                males: n_male,
+            }),
         },
         estimates,
         warnings,

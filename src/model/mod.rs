@@ -118,6 +118,9 @@ pub struct Model {
     pub catalogue: Catalogue,
     /// Blocks in file order.
     pub blocks: Vec<Block>,
+    /// The reference collection a fitted model was fitted to (`None` for a model written from
+    /// published values).
+    pub fitted_to: Option<spec::FitOrigin>,
     /// SHA-256 of the model text.
     pub sha256: String,
 }
@@ -317,6 +320,7 @@ impl Model {
             minimum_age,
             catalogue,
             blocks,
+            fitted_to: raw.fitted_to,
             sha256: crate::data::sha256_hex(text.as_bytes()),
         })
     }

@@ -48,6 +48,24 @@ pub struct RawModel {
     pub traits: Vec<RawTrait>,
     /// Evidence blocks.
     pub blocks: Vec<RawBlock>,
+    /// Where a fitted model's parameters come from (written by `tessera fit`; absent in a
+    /// model written by hand from published values).
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub fitted_to: Option<FitOrigin>,
+}
+
+/// The documented reference collection a model was fitted to.
+#[derive(Debug, Clone, PartialEq, Eq, Deserialize, Serialize)]
+#[serde(deny_unknown_fields)]
+pub struct FitOrigin {
+    /// The reference file's name (without its folder).
+    pub file: String,
+    /// SHA-256 of the reference file.
+    pub sha256: String,
+    /// Females of documented sex used.
+    pub females: usize,
+    /// Males of documented sex used.
+    pub males: usize,
 }
 
 /// One block as written.

@@ -2,6 +2,7 @@
 
 pub mod agreement;
 pub mod analysis;
+pub mod citations;
 pub mod figures;
 pub mod number;
 pub mod publication;

@@ -1,9 +1,8 @@
 //! What goes into the paper: `report.md`, `tables.tex`, `methods.md`, the by-sex CSV tables
 //! and the figures.
 
-use super::{figures, RenderError};
+use super::{citations, figures, RenderError};
 use crate::assemblage::Category;
-use crate::catalogue::Region;
 use crate::model::{Block, BlockStatus, IndividualEvidence, Model};
 use crate::output::OutputSet;
 use crate::results::{AnalysisResult, BySex};
@@ -237,10 +236,9 @@ pub fn references_used(
     model: &Model,
     evidence: &[IndividualEvidence],
     by_sex: &BySex,
-) -> Vec<&'static str> {
+) -> Vec<String> {
     let mut used_traits: BTreeSet<String> = BTreeSet::new();
     let mut used_latent = false;
-    let mut used_dna = false;
     for e in evidence {
         for (b, be) in model.blocks.iter().zip(&e.blocks) {
             if be.status != BlockStatus::Used {
@@ -249,57 +247,38 @@ pub fn references_used(
             used_traits.extend(be.traits_used.iter().cloned());
             match b {
                 Block::Latent(_) => used_latent = true,
-                Block::Dna(_) => used_dna = true,
-                Block::Equations(_) => {}
+                Block::Dna(_) | Block::Equations(_) => {}
             }
         }
     }
-    let region_used = |r: Region| {
-        used_traits
-            .iter()
-            .any(|t| model.catalogue.get(t).is_some_and(|d| d.region == r))
-    };
     let mut refs = Vec::new();
     if used_latent {
-        refs.push("Konigsberg, L. W., & Hens, S. M. (1998). American Journal of Physical Anthropology, 107, 97–112.");
+        refs.push("Konigsberg, L. W., & Hens, S. M. (1998). American Journal of Physical Anthropology, 107, 97–112.".to_string());
         refs.push(
-            "Genz, A. (1992). Journal of Computational and Graphical Statistics, 1, 141–149.",
+            "Genz, A. (1992). Journal of Computational and Graphical Statistics, 1, 141–149."
+                .to_string(),
         );
-        refs.push("Genz, A. (2004). Statistics and Computing, 14, 251–260.");
+        refs.push("Genz, A. (2004). Statistics and Computing, 14, 251–260.".to_string());
     }
-    if [
-        "glabella",
-        "mastoid",
-        "supraorbital_margin",
-        "mental_eminence",
-        "nuchal_crest",
-    ]
-    .iter()
-    .any(|t| used_traits.contains(*t))
-    {
-        refs.push("Walker, P. L. (2008). American Journal of Physical Anthropology, 136, 39–50.");
-    }
-    if ["ventral_arc", "subpubic_concavity", "ischiopubic_ramus"]
-        .iter()
-        .any(|t| used_traits.contains(*t))
-    {
-        refs.push("Klales, A. R., Ousley, S. D., & Vollner, J. M. (2012). American Journal of Physical Anthropology, 149, 104–114.");
-        refs.push("Phenice, T. W. (1969). American Journal of Physical Anthropology, 30, 297–301.");
-    }
-    if used_traits.contains("sciatic_notch") {
-        refs.push("Walker, P. L. (2005). American Journal of Physical Anthropology, 127, 385–391.");
-    }
-    if region_used(Region::Postcranial)
-        || region_used(Region::Dental)
-        || used_traits.contains("preauricular_sulcus")
-    {
-        refs.push("Buikstra, J. E., & Ubelaker, D. H. (Eds.). (1994). Standards for data collection from human skeletal remains. Arkansas Archeological Survey Research Series 44.");
+    // The works behind each trait used, from the catalogue's sources, in catalogue order.
+    for d in model.catalogue.traits() {
+        if !used_traits.contains(&d.id) {
+            continue;
+        }
+        for (key, as_written) in citations::citation_keys(&d.source) {
+            let r = citations::reference(&key, &as_written);
+            if !refs.contains(&r) {
+                refs.push(r);
+            }
+        }
     }
     let fitted = is_fitted(model);
     if fitted && used_latent {
-        refs.push("McCullagh, P. (1980). Journal of the Royal Statistical Society, Series B, 42, 109–142.");
-        refs.push("Olsson, U. (1979). Psychometrika, 44, 443–460.");
-        refs.push("Olsson, U., Drasgow, F., & Dorans, N. J. (1982). Psychometrika, 47, 337–347.");
+        refs.push("McCullagh, P. (1980). Journal of the Royal Statistical Society, Series B, 42, 109–142.".into());
+        refs.push("Olsson, U. (1979). Psychometrika, 44, 443–460.".into());
+        refs.push(
+            "Olsson, U., Drasgow, F., & Dorans, N. J. (1982). Psychometrika, 47, 337–347.".into(),
+        );
     }
     // The default model's femoral means come from Noussios et al.; a fitted model's do not.
     if !fitted
@@ -307,48 +286,39 @@ pub fn references_used(
             || used_traits.contains("femur_midshaft_circumference"))
     {
         refs.push(
-            "Noussios, G., et al. (2019). Journal of Clinical Medicine Research, 11, 740–744.",
+            "Noussios, G., et al. (2019). Journal of Clinical Medicine Research, 11, 740–744."
+                .into(),
         );
     }
-    if used_dna {
-        refs.push("Skoglund, P., et al. (2013). Journal of Archaeological Science, 40, 4477–4482.");
-    }
     refs.push(
-        "Bruzek, J., et al. (2017). American Journal of Physical Anthropology, 164, 440–449.",
+        "Bruzek, J., et al. (2017). American Journal of Physical Anthropology, 164, 440–449."
+            .into(),
     );
-    refs.push("ENFSI (2015). Guideline for evaluative reporting in forensic science. European Network of Forensic Science Institutes.");
+    refs.push("ENFSI (2015). Guideline for evaluative reporting in forensic science. European Network of Forensic Science Institutes.".into());
     if !by_sex.prevalence.is_empty() {
         refs.push(
-            "Rubin, D. B. (1987). Multiple Imputation for Nonresponse in Surveys. New York: Wiley.",
+            "Rubin, D. B. (1987). Multiple Imputation for Nonresponse in Surveys. New York: Wiley."
+                .into(),
         );
     }
     refs
 }
 
-/// Whether the model was written by `tessera fit` (its provenance says so in its first words).
-/// The program's name and version in that line are informational: a model fitted by an
-/// earlier build, under whatever name, is recognised the same way.
+/// Whether the model was written by `tessera fit` (it then records what it was fitted to).
 fn is_fitted(model: &Model) -> bool {
-    let first = model.provenance.lines().next().unwrap_or_default();
-    first.starts_with("FITTED by ") && first.contains(" to the reference file ")
+    model.fitted_to.is_some()
 }
 
-/// "file `x.csv`, SHA-256 `…`; 116 females and 124 males", read back from the provenance that
-/// `tessera fit` writes; a pointer to the provenance where it cannot be read.
-fn fitted_reference(provenance: &str) -> String {
-    let first = provenance.lines().next().unwrap_or_default();
-    let parsed = (|| {
-        let rest = first.split_once(" to the reference file ")?.1;
-        let (file, rest) = rest.split_once(" (SHA-256 ")?;
-        let (sha, rest) = rest.split_once("), ")?;
-        let (counts, _) = rest.split_once(" of documented sex")?;
-        let name = std::path::Path::new(file)
-            .file_name()
-            .map(|n| n.to_string_lossy().into_owned())
-            .unwrap_or_else(|| file.to_string());
-        Some(format!("file `{name}`, SHA-256 `{sha}`; {counts}"))
-    })();
-    parsed.unwrap_or_else(|| "see the model's provenance".to_string())
+/// "file `x.csv`, SHA-256 `…`; 116 females and 124 males": the reference a fitted model
+/// records.
+fn fitted_reference(model: &Model) -> String {
+    match &model.fitted_to {
+        Some(o) => format!(
+            "file `{}`, SHA-256 `{}`; {} females and {} males",
+            o.file, o.sha256, o.females, o.males
+        ),
+        None => "see the model's provenance".to_string(),
+    }
 }
 
 /// The methods paragraph and its reference list.
@@ -407,7 +377,7 @@ pub fn methods_md(r: &AnalysisResult) -> String {
     if has_latent {
         let _ = write!(s, "Ordinal trait scores and measurements were modelled jointly by a multivariate cumulative probit with correlated latent traits (Konigsberg & Hens, 1998), extended to measurements; unobserved traits were integrated out, and probabilities of ordinal score combinations were computed exactly in one and two dimensions (Genz, 2004) and by Genz's separation-of-variables method with randomised quasi-Monte Carlo in three or more (Genz, 1992). ");
         if is_fitted(model) {
-            let _ = write!(s, "The model's parameters were estimated with tessera from a documented reference collection ({}) by two-step maximum likelihood: cumulative probit margins for the ordinal traits (McCullagh, 1980), per-sex means and standard deviations of the measurements, and polychoric, polyserial or Pearson within-sex correlations given the margins (Olsson, 1979; Olsson, Drasgow & Dorans, 1982). ", fitted_reference(&model.provenance));
+            let _ = write!(s, "The model's parameters were estimated with tessera from a documented reference collection ({}) by two-step maximum likelihood: cumulative probit margins for the ordinal traits (McCullagh, 1980), per-sex means and standard deviations of the measurements, and polychoric, polyserial or Pearson within-sex correlations given the margins (Olsson, 1979; Olsson, Drasgow & Dorans, 1982). ", fitted_reference(model));
         }
     }
     let _ = write!(
