@@ -26,6 +26,29 @@
 //! assert_eq!(a.carried_columns, vec!["grave_goods"]);
 //! # Ok::<(), Box<dyn std::error::Error>>(())
 //! ```
+//!
+//! ## A whole analysis
+//!
+//! What `tessera analyse` does, as library calls ([`pipeline`]): options (plain data whose
+//! defaults are the command line's) checked all at once, a table read from bytes, the
+//! analysis, and its files in memory.
+//!
+//! ```
+//! use tessera::pipeline::{render, AnalysisOptions};
+//! use tessera::progress::Silent;
+//!
+//! let table = "id,glabella,mastoid_l,femur_head_diameter_r\n\
+//!              T-01,4,3-4,46.5\n\
+//!              T-02,1,2,41.0\n";
+//! let options = AnalysisOptions { priors: "flat,fixed:0.5".into(), ..AnalysisOptions::default() };
+//! let run = options.validate()?;
+//! let a = run.read_bytes("demo.csv", table.as_bytes())?;
+//! let result = run.analyse(a, vec!["example".into()], &Silent)?;
+//! let files = render(&result)?;
+//! assert!(files.get("individuals.csv").is_some());
+//! assert_eq!(files.get("report.md").map(|f| f.media_type), Some("text/markdown"));
+//! # Ok::<(), Box<dyn std::error::Error>>(())
+//! ```
 #![forbid(unsafe_code)]
 #![warn(missing_docs)]
 // `!(x > 0.0)` is used on purpose: it rejects NaN as well as non-positive values.
