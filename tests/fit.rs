@@ -182,6 +182,7 @@ fn fit_and_validate_from_the_command_line() {
         "scores.csv",
         "scores_by_block.csv",
         "scores_by_traits.csv",
+        "scores_by_category.csv",
         "reliability.csv",
         "calibration.svg",
         "report.md",
@@ -194,10 +195,43 @@ fn fit_and_validate_from_the_command_line() {
     }
     let report = std::fs::read_to_string(dir.path().join("v1/report.md")).unwrap();
     assert!(report.contains("not identifications"));
-    // A fixed model is checked as it stands.
+    assert!(report.contains("What each call is worth"), "{report}");
+    // Calls per category: every scored individual is in exactly one category, and the share
+    // of females is within its own Wilson interval.
+    let calls = std::fs::read_to_string(dir.path().join("v1/scores_by_category.csv")).unwrap();
+    let mut r = csv::Reader::from_reader(calls.as_bytes());
+    let mut called = 0;
+    for row in r.records() {
+        let row = row.unwrap();
+        called += row[1].parse::<usize>().unwrap();
+        if let (Ok(s), Ok(lo), Ok(hi)) = (
+            row[3].parse::<f64>(),
+            row[4].parse::<f64>(),
+            row[5].parse::<f64>(),
+        ) {
+            assert!(
+                lo <= s && s <= hi && (0.0..=1.0).contains(&lo) && hi <= 1.0,
+                "{row:?}"
+            );
+        }
+    }
+    let scores = std::fs::read_to_string(dir.path().join("v1/scores.csv")).unwrap();
+    let n: usize = scores
+        .lines()
+        .nth(1)
+        .unwrap()
+        .split(',')
+        .nth(1)
+        .unwrap()
+        .parse()
+        .unwrap();
+    assert_eq!(called, n);
+    // A fixed model is checked as it stands; on the file it was fitted to, the rates are
+    // resubstitution rates, and the run says so.
     let o = tessera(&["validate", &p("ref.csv"), "--model", &p("m.yaml")]);
     assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
     assert!(stdout(&o).contains("fixed model (not cross-validated)"));
+    assert!(stdout(&o).contains("resubstitution"), "{}", stdout(&o));
     // Neither a spec nor a model: a usage error.
     assert_eq!(tessera(&["validate", &p("ref.csv")]).status.code(), Some(2));
 }

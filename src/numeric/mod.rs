@@ -3,5 +3,6 @@
 
 pub mod mvn;
 pub mod normal;
+pub mod proportion;
 
 pub use mvn::{ln_box_probability, LnProbability, MvnError, QmcSettings};

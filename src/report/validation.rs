@@ -68,6 +68,25 @@ pub fn validation_files(
         ]);
     }
     files.push("reliability.csv", csv_bytes(r)?);
+    let mut c = vec![header(&[
+        "category",
+        "n",
+        "n_female",
+        "share_female",
+        "share_female_lo",
+        "share_female_hi",
+    ])];
+    for x in &v.by_category {
+        c.push(vec![
+            x.category.as_str().to_string(),
+            x.n.to_string(),
+            x.n_female.to_string(),
+            num(x.share_female),
+            num(x.share_female_lo),
+            num(x.share_female_hi),
+        ]);
+    }
+    files.push("scores_by_category.csv", csv_bytes(c)?);
     let bins: Vec<(f64, f64, usize)> = v
         .reliability
         .iter()
@@ -106,6 +125,8 @@ fn score_header(first: &str) -> Vec<String> {
         "accuracy_determinate",
         "brier",
         "log_loss",
+        "accuracy_lo",
+        "accuracy_hi",
     ])
 }
 
@@ -123,6 +144,8 @@ fn score_row(label: &str, s: &Scores) -> Vec<String> {
         num(s.accuracy_determinate),
         num(s.brier),
         num(s.log_loss),
+        num(s.accuracy_lo),
+        num(s.accuracy_hi),
     ]
 }
 
@@ -139,6 +162,9 @@ pub fn headline(v: &Validation) -> String {
     let s = &v.overall;
     let t = &v.settings.thresholds;
     let mut m = String::new();
+    for w in &v.warnings {
+        let _ = writeln!(m, "Warning: {w}.");
+    }
     let _ = writeln!(
         m,
         "{}: {} individuals of documented sex scored ({} females, {} males); {} without usable evidence.",
@@ -150,8 +176,10 @@ pub fn headline(v: &Validation) -> String {
     );
     let _ = writeln!(
         m,
-        "Correct at P(female) = 0.5: {} (females {}, males {}; sex bias {:+.1} points).",
+        "Correct at P(female) = 0.5: {} (95% interval {} to {}; females {}, males {}; sex bias {:+.1} points).",
         pct(s.accuracy),
+        pct(s.accuracy_lo),
+        pct(s.accuracy_hi),
         pct(s.accuracy_female),
         pct(s.accuracy_male),
         100.0 * s.sex_bias
@@ -189,6 +217,25 @@ fn report_md(v: &Validation, reference: &str, sha: &str, subject: &str, command:
     table(&mut m, "block", &v.by_block);
     let _ = writeln!(m, "\n## By number of traits that entered\n");
     table(&mut m, "traits", &v.by_traits);
+    let _ = writeln!(m, "\n## What each call is worth\n");
+    let _ = writeln!(m, "Of the individuals given each category, the share documented as female (95% Wilson interval):\n");
+    let _ = writeln!(
+        m,
+        "| category | calls | documented female | share female (95% interval) |"
+    );
+    let _ = writeln!(m, "|---|---:|---:|---:|");
+    for x in &v.by_category {
+        let _ = writeln!(
+            m,
+            "| {} | {} | {} | {} ({}–{}) |",
+            x.category.label(),
+            x.n,
+            x.n_female,
+            pct(x.share_female),
+            pct(x.share_female_lo),
+            pct(x.share_female_hi)
+        );
+    }
     let _ = writeln!(m, "\n## Reliability\n");
     let _ = writeln!(m, "| P(female) | n | mean predicted | share female |");
     let _ = writeln!(m, "|---|---:|---:|---:|");
@@ -205,7 +252,7 @@ fn report_md(v: &Validation, reference: &str, sha: &str, subject: &str, command:
     }
     let _ = writeln!(m, "\n![Calibration](calibration.svg)\n");
     let _ = writeln!(m, "## How the numbers were made\n");
-    let _ = writeln!(m, "Each individual was classified by a model that did not see it (except with a fixed model file, which is an external check of that file on this collection). P(female) combines the likelihood ratio with a prior probability of female of {}. Accuracy counts P(female) > 0.5 as female and < 0.5 as male. The Brier score (Brier 1950) is the mean squared difference between P(female) and the documented sex (0 is perfect, 0.25 is a coin); log loss is the mean of −ln P(documented sex). Individuals between the probable-male and probable-female thresholds are reported as indeterminate. Files: predictions.csv, scores.csv, scores_by_block.csv, scores_by_traits.csv, reliability.csv, calibration.svg.", v.settings.prior_female);
+    let _ = writeln!(m, "Each individual was classified by a model that did not see it (except with a fixed model file, which is an external check of that file on this collection). P(female) combines the likelihood ratio with a prior probability of female of {}. Accuracy counts P(female) > 0.5 as female and < 0.5 as male. The Brier score (Brier 1950) is the mean squared difference between P(female) and the documented sex (0 is perfect, 0.25 is a coin); log loss is the mean of −ln P(documented sex). Individuals between the probable-male and probable-female thresholds are reported as indeterminate. Intervals of shares are Wilson score intervals (Wilson 1927). Files: predictions.csv, scores.csv, scores_by_block.csv, scores_by_traits.csv, scores_by_category.csv, reliability.csv, calibration.svg.", v.settings.prior_female);
     if !v.no_evidence.is_empty() {
         let _ = writeln!(
             m,

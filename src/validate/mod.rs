@@ -13,11 +13,12 @@
 //! accuracy of the others; the Brier score, mean (P(F) − [female])² (Brier 1950, reference details from memory: Mon Weather
 //! Rev 78:1–3); log loss, −mean ln P(documented sex); a reliability table in ten bins of P(F).
 
-use crate::assemblage::category::Thresholds;
+use crate::assemblage::category::{Category, Thresholds};
 use crate::catalogue::Catalogue;
 use crate::data::{Individual, Sex};
 use crate::fit::{fit, FitError, FitSpec, ReferenceInfo};
 use crate::model::{BlockStatus, Context, EvidenceCache, Model, ModelError};
+use crate::numeric::proportion::{wilson_interval, Z95};
 use rand::seq::SliceRandom;
 use rand::SeedableRng;
 use rand_chacha::ChaCha8Rng;
@@ -96,6 +97,10 @@ pub struct Scores {
     pub n_male: usize,
     /// Share correct at P(F) = ½ (ties count as wrong).
     pub accuracy: f64,
+    /// Wilson 95% interval of the accuracy (Wilson 1927): lower end.
+    pub accuracy_lo: f64,
+    /// Upper end.
+    pub accuracy_hi: f64,
     /// Share of females correct.
     pub accuracy_female: f64,
     /// Share of males correct.
@@ -110,6 +115,64 @@ pub struct Scores {
     pub brier: f64,
     /// Log loss (natural log).
     pub log_loss: f64,
+}
+
+/// The calls of one category and how many of them were right: "of the probable-female
+/// calls, x% were female".
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct CategoryCalls {
+    /// The category.
+    pub category: Category,
+    /// Individuals called so.
+    pub n: usize,
+    /// Documented females among them.
+    pub n_female: usize,
+    /// Share of documented females (NaN when no individual was called so).
+    pub share_female: f64,
+    /// Wilson 95% interval of that share (Wilson 1927).
+    pub share_female_lo: f64,
+    /// Upper end.
+    pub share_female_hi: f64,
+}
+
+/// The calls per category of `v` (P(female), documented sex) under the cut-offs `t`.
+pub fn calls_by_category(v: &[(f64, Sex)], t: &Thresholds) -> Vec<CategoryCalls> {
+    Category::ALL
+        .iter()
+        .filter(|c| **c != Category::NotEstimable)
+        .map(|&category| {
+            let called: Vec<&(f64, Sex)> =
+                v.iter().filter(|x| t.categorise(x.0) == category).collect();
+            let n = called.len();
+            let n_female = called.iter().filter(|x| x.1 == Sex::Female).count();
+            let (lo, hi) = wilson_interval(n_female, n, Z95).unwrap_or((f64::NAN, f64::NAN));
+            CategoryCalls {
+                category,
+                n,
+                n_female,
+                share_female: if n == 0 {
+                    f64::NAN
+                } else {
+                    n_female as f64 / n as f64
+                },
+                share_female_lo: lo,
+                share_female_hi: hi,
+            }
+        })
+        .collect()
+}
+
+/// A warning when a fixed model is checked on the very collection it was fitted to (same
+/// SHA-256): the error rates are then resubstitution rates, optimistic for new individuals.
+pub fn resubstitution(subject: &Subject, info: &ReferenceInfo) -> Option<String> {
+    let Subject::Fixed(m) = subject else {
+        return None;
+    };
+    let origin = m.fitted_to.as_ref()?;
+    (origin.sha256 == info.sha256).then(|| format!(
+        "the model was fitted to this very file (`{}`, same SHA-256): these are resubstitution error rates, optimistic for individuals the model has not seen; validate with --traits SPEC (cross-validation) for honest rates",
+        origin.file
+    ))
 }
 
 /// One bin of the reliability table.
@@ -146,6 +209,11 @@ pub struct Validation {
     pub by_traits: Vec<(String, Scores)>,
     /// Reliability table in ten bins.
     pub reliability: Vec<ReliabilityBin>,
+    /// The calls of each category and the share of documented females among them.
+    pub by_category: Vec<CategoryCalls>,
+    /// What a reader must know before trusting the error rates (a fixed model checked on its
+    /// own reference collection).
+    pub warnings: Vec<String>,
     /// The settings used.
     #[serde(skip)]
     pub settings: ValidationSettings,
@@ -321,6 +389,8 @@ pub fn validate_with_progress(
         design,
         blocks,
         reliability: reliability(&pairs(&all)),
+        by_category: calls_by_category(&pairs(&all), &settings.thresholds),
+        warnings: resubstitution(&subject, info).into_iter().collect(),
         predictions,
         no_evidence,
         overall,
@@ -429,11 +499,15 @@ pub fn scores(v: &[(f64, Sex)], t: &Thresholds) -> Scores {
         / n.max(1) as f64;
     let accuracy_female = share(right_f, females);
     let accuracy_male = share(right_m, n - females);
+    let (accuracy_lo, accuracy_hi) =
+        wilson_interval(right_f + right_m, n, Z95).unwrap_or((f64::NAN, f64::NAN));
     Scores {
         n,
         n_female: females,
         n_male: n - females,
         accuracy: share(right_f + right_m, n),
+        accuracy_lo,
+        accuracy_hi,
         accuracy_female,
         accuracy_male,
         sex_bias: accuracy_female - accuracy_male,
