@@ -11,11 +11,18 @@ pub const Z95: f64 = 1.959_963_984_540_054;
 /// It stays inside [0, 1] and keeps its coverage near 0 and 1, where the Wald interval
 /// collapses (Newcombe 1998, Statistics in Medicine 17:857–872, method 3). `None` for n = 0.
 pub fn wilson_interval(k: usize, n: usize, z: f64) -> Option<(f64, f64)> {
-    if n == 0 || k > n {
+    if k > n {
         return None;
     }
-    let (k, n) = (k as f64, n as f64);
-    let p = k / n;
+    wilson_interval_of_share(k as f64 / n.max(1) as f64, n, z)
+}
+
+/// As [`wilson_interval`], from the observed share p̂ of `n` trials.
+pub fn wilson_interval_of_share(p: f64, n: usize, z: f64) -> Option<(f64, f64)> {
+    if n == 0 || !(0.0..=1.0).contains(&p) {
+        return None;
+    }
+    let n = n as f64;
     let z2 = z * z;
     let denom = 1.0 + z2 / n;
     let centre = (p + z2 / (2.0 * n)) / denom;
@@ -41,6 +48,25 @@ mod tests {
             assert!(
                 (l - lo).abs() < 6e-5 && (h - hi).abs() < 6e-5,
                 "{k}/{n}: {l:.5} to {h:.5}"
+            );
+        }
+    }
+
+    /// Check values: statsmodels 0.15.0 `proportion_confint(count, n, alpha=0.05,
+    /// method="wilson")`, computed for this test.
+    #[test]
+    fn wilson_interval_equals_statsmodels() {
+        let cases = [
+            (7, 10, 0.396_778_147_461_145_37, 0.892_208_732_593_698_9),
+            (0, 12, 0.0, 0.242_494_006_655_240_96),
+            (45, 50, 0.786_397_685_625_203_4, 0.956_524_235_068_109_5),
+            (1, 3, 0.061_491_944_720_396_26, 0.792_340_399_197_952_3),
+        ];
+        for (count, n, lo, hi) in cases {
+            let (a, b) = wilson_interval(count, n, Z95).unwrap();
+            assert!(
+                (a - lo).abs() < 1e-12 && (b - hi).abs() < 1e-12,
+                "{count}/{n}: {a} {b}"
             );
         }
     }

@@ -387,18 +387,10 @@ pub fn calibration_figure(bins: &[(f64, f64, usize)]) -> Result<String, FigureEr
     Ok(s)
 }
 
-/// 95% Wilson score interval of a proportion (Wilson 1927, J Am Stat Assoc 22:209–212;
-/// reference details from memory). Checked against statsmodels in the tests.
-pub fn wilson(share: f64, n: usize) -> (f64, f64) {
-    if n == 0 {
-        return (0.0, 1.0);
-    }
-    // Φ⁻¹(0.975), as scipy 1.16.3 `norm.ppf(0.975)` gives it.
-    let z = 1.959_963_984_540_054_f64;
-    let n = n as f64;
-    let centre = (share + z * z / (2.0 * n)) / (1.0 + z * z / n);
-    let half = z / (1.0 + z * z / n) * (share * (1.0 - share) / n + z * z / (4.0 * n * n)).sqrt();
-    ((centre - half).max(0.0), (centre + half).min(1.0))
+/// 95% Wilson score interval of an observed share of `n` (Wilson 1927); (0, 1) when n = 0.
+fn wilson(share: f64, n: usize) -> (f64, f64) {
+    use crate::numeric::proportion::{wilson_interval_of_share, Z95};
+    wilson_interval_of_share(share, n, Z95).unwrap_or((0.0, 1.0))
 }
 
 #[cfg(test)]
