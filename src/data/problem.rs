@@ -122,6 +122,9 @@ pub enum WarningKind {
     DecimalComma,
     /// A row has no trait observed at all (`no_evidence`).
     NoEvidence,
+    /// Both sides of a trait were recorded and the side policy used one
+    /// (`second_side_unused`).
+    SecondSideUnused,
 }
 
 /// Something a person should look at; the run goes on.

@@ -297,6 +297,7 @@ fn build(
         warnings,
         seen_ids: HashMap::new(),
         comma_cells: 0,
+        second_side_unused: vec![0; catalogue.len()],
     };
     let individuals: Vec<Individual> = table
         .rows
@@ -307,8 +308,15 @@ fn build(
         mut problems,
         mut warnings,
         comma_cells,
+        second_side_unused,
         ..
     } = found;
+    warnings.extend(second_sides_unused(
+        name,
+        catalogue,
+        settings,
+        &second_side_unused,
+    ));
     if table.rows.is_empty() {
         problems.push(Problem {
             file: name.to_string(),
@@ -352,6 +360,40 @@ fn build(
     })
 }
 
+/// One warning per trait whose two sides were both recorded for some individuals while the
+/// side policy used one: the other side is not evidence, and the reader must know it.
+fn second_sides_unused(
+    name: &str,
+    catalogue: &Catalogue,
+    settings: &ReadSettings,
+    counts: &[usize],
+) -> Vec<Warning> {
+    let (used, other) = match settings.side_policy {
+        SidePolicy::LeftFirst => ("left", "right"),
+        SidePolicy::RightFirst => ("right", "left"),
+        SidePolicy::Both => return Vec::new(),
+    };
+    counts
+        .iter()
+        .enumerate()
+        .filter(|(_, &n)| n > 0)
+        .map(|(k, &n)| {
+            let id = &catalogue.traits()[k].id;
+            Warning {
+                file: name.to_string(),
+                row: None,
+                column: Some(format!("{id}_l, {id}_r")),
+                kind: WarningKind::SecondSideUnused,
+                message: format!(
+                    "both sides recorded for {n} individual{}: under {} only the {used} is used (one side per trait, as is common practice) and the {other} is not evidence (--sides both combines the two)",
+                    if n == 1 { "" } else { "s" },
+                    settings.side_policy.as_str()
+                ),
+            }
+        })
+        .collect()
+}
+
 /// What reading the rows finds, over every row: problems and warnings (after those of the
 /// header), the ids seen (by row), and how many measurements had a decimal comma.
 struct Findings {
@@ -359,6 +401,8 @@ struct Findings {
     warnings: Vec<Warning>,
     seen_ids: HashMap<String, usize>,
     comma_cells: usize,
+    /// Per trait, rows with both sides recorded of which the side policy used one.
+    second_side_unused: Vec<usize>,
 }
 
 /// Everything needed to read one row, fixed for the whole table.
@@ -556,6 +600,9 @@ impl RowReader<'_> {
             let def = &self.catalogue.traits()[index];
             let (obs, side) = combine_sides(sc, settings.side_policy);
             if let (Some(l), Some(r)) = (obs.1, obs.2) {
+                if settings.side_policy != SidePolicy::Both {
+                    found.second_side_unused[index] += 1;
+                }
                 if let Some(msg) = sides_disagree(&l, &r, settings) {
                     found.warnings.push(Warning {
                         file: self.name.to_string(),

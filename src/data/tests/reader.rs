@@ -145,3 +145,32 @@ fn header_only_is_empty() {
         ProblemKind::Empty
     );
 }
+
+#[test]
+fn a_second_side_left_out_by_the_side_policy_is_said_once_per_trait() {
+    let text = "id,mastoid_l,mastoid_r,glabella\nA,2,3,4\nB,2,,4\nC,4,4,3\n";
+    let a = read(text).unwrap();
+    let w: Vec<&Warning> = a
+        .warnings
+        .iter()
+        .filter(|w| w.kind == WarningKind::SecondSideUnused)
+        .collect();
+    assert_eq!(w.len(), 1, "{:?}", a.warnings);
+    assert!(
+        w[0].message.starts_with(
+            "both sides recorded for 2 individuals: under left-first only the left is used"
+        ),
+        "{}",
+        w[0].message
+    );
+    let both = ReadSettings {
+        side_policy: SidePolicy::Both,
+        ..ReadSettings::default()
+    };
+    let b =
+        read_assemblage_text("t", text.as_bytes(), &Catalogue::standard().unwrap(), &both).unwrap();
+    assert!(!b
+        .warnings
+        .iter()
+        .any(|w| w.kind == WarningKind::SecondSideUnused));
+}
