@@ -8,8 +8,8 @@ use crate::model::{BlockStatus, Context, IndividualEvidence, Model};
 use crate::output::write_all_atomic;
 use crate::pipeline::{load_model, with_minimum_age};
 use crate::progress::Progress as _;
+use crate::results::RunInfo;
 use crate::Error;
-use serde::Serialize;
 use std::path::{Path, PathBuf};
 
 /// Arguments of `tessera evidence`.
@@ -33,20 +33,6 @@ pub struct Args {
     /// How to read the table.
     #[command(flatten)]
     pub input: InputArgs,
-}
-
-#[derive(Serialize)]
-struct RunRecord<'a> {
-    program: &'static str,
-    version: &'static str,
-    command: Vec<String>,
-    input: &'a str,
-    input_sha256: &'a str,
-    model: &'a str,
-    model_file: String,
-    model_sha256: &'a str,
-    seed: u64,
-    side_policy: &'static str,
 }
 
 /// Run the command; returns the exit code.
@@ -74,21 +60,22 @@ pub fn run(args: Args) -> Result<i32, Error> {
         protected.push(m.as_path());
     }
     let record_path = run_record_path(&args.out);
-    let record = RunRecord {
+    // The same record as an analysis's run.json, without its priors and cut-offs.
+    let record = RunInfo {
         program: "tessera",
         version: crate::VERSION,
         command: crate::cli::command_line(),
-        input: &a.file,
-        input_sha256: &a.sha256,
-        model: &model.name,
+        input: a.file.clone(),
+        input_sha256: a.sha256.clone(),
+        model: model.name.clone(),
         model_file: args
             .model
             .as_ref()
             .map(|p| p.display().to_string())
             .unwrap_or_else(|| "embedded default".into()),
-        model_sha256: &model.sha256,
+        model_sha256: model.sha256.clone(),
         seed: args.seed,
-        side_policy: settings.side_policy.as_str(),
+        side_policy: settings.side_policy.as_str().into(),
     };
     let json = serde_json::to_vec_pretty(&record).map_err(|e| Error::Io {
         path: record_path.clone(),

@@ -116,17 +116,7 @@ pub fn read_assemblage(
     // Bounded whatever the metadata says: a pipe or a device has no length.
     let bytes = crate::limits::read_bounded(path, MAX_INPUT_BYTES).map_err(|e| {
         fail(vec![match e {
-            crate::limits::BoundedReadError::TooLarge { .. } => Problem {
-                file: name.clone(),
-                row: None,
-                column: None,
-                value: Some(format!("more than {} MiB", MAX_INPUT_BYTES >> 20)),
-                kind: ProblemKind::Unreadable,
-                expected: format!(
-                    "a table of at most {} MiB (about three million individuals); split larger files by site, phase or zone and analyse them as groups of one study",
-                    MAX_INPUT_BYTES >> 20
-                ),
-            },
+            crate::limits::BoundedReadError::TooLarge { .. } => too_large(&name),
             crate::limits::BoundedReadError::Io(e) => Problem {
                 file: name.clone(),
                 row: None,
@@ -138,6 +128,21 @@ pub fn read_assemblage(
         }])
     })?;
     read_assemblage_bytes(&name, &bytes, catalogue, settings)
+}
+
+/// The problem of a table larger than [`MAX_INPUT_BYTES`].
+fn too_large(name: &str) -> Problem {
+    Problem {
+        file: name.to_string(),
+        row: None,
+        column: None,
+        value: Some(format!("more than {} MiB", MAX_INPUT_BYTES >> 20)),
+        kind: ProblemKind::Unreadable,
+        expected: format!(
+            "a table of at most {} MiB (about three million individuals); split larger files by site, phase or zone and analyse them as groups of one study",
+            MAX_INPUT_BYTES >> 20
+        ),
+    }
 }
 
 /// Read and validate a table held in memory (an upload): a workbook when `name` ends in a
@@ -158,17 +163,7 @@ pub fn read_assemblage_bytes(
         warnings: Vec::new(),
     };
     if bytes.len() as u64 > MAX_INPUT_BYTES {
-        return Err(fail(vec![Problem {
-            file: name.to_string(),
-            row: None,
-            column: None,
-            value: Some(format!("more than {} MiB", MAX_INPUT_BYTES >> 20)),
-            kind: ProblemKind::Unreadable,
-            expected: format!(
-                "a table of at most {} MiB (about three million individuals); split larger files by site, phase or zone and analyse them as groups of one study",
-                MAX_INPUT_BYTES >> 20
-            ),
-        }]));
+        return Err(fail(vec![too_large(name)]));
     }
     let path = Path::new(name);
     let table = if is_workbook(path) {

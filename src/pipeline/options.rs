@@ -264,13 +264,17 @@ impl AnalysisOptions {
         model_file: String,
     ) -> Result<ValidatedOptions, Error> {
         let mut problems = Vec::new();
-        let model = match super::with_minimum_age(model.clone(), self.minimum_age) {
-            Ok(m) => m,
-            Err(Error::Options(mut p)) => {
-                problems.append(&mut p.0);
-                model
-            }
-            Err(e) => return Err(e),
+        // The model is cloned only when an age is to be tried on it.
+        let model = match self.minimum_age {
+            None => model,
+            Some(y) => match super::with_minimum_age(model.clone(), Some(y)) {
+                Ok(m) => m,
+                Err(Error::Options(mut p)) => {
+                    problems.append(&mut p.0);
+                    model
+                }
+                Err(e) => return Err(e),
+            },
         };
         let prior = match parse_prior_set(&self.prior) {
             Ok(mut v) if v.len() == 1 => v.pop(),

@@ -17,9 +17,7 @@ pub fn render(r: &AnalysisResult) -> Result<OutputSet, Error> {
     files.append(by_sex_tables(r)?);
     files.append(figures_svg(r)?);
     files.push("methods.md", methods_md(r));
-    if let Some(recal) = &r.recalibration {
-        files.append(recalibration_files(r, recal)?);
-    }
+    files.append(recalibration_files(r)?);
     let mut names: Vec<String> = files.names().into_iter().map(String::from).collect();
     names.push("report.md".into());
     names.push("tables.tex".into());

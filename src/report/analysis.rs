@@ -579,14 +579,15 @@ pub fn terminal_summary(r: &AnalysisResult) -> String {
 /// The recalibration's files: `recalibration.csv` (trait, sex, reference_mean,
 /// recalibrated_mean, lo, hi, shift_sd, rhat, ess), `recalibration_check.csv` (trait, n,
 /// share_outside_99, flagged) and `recalibrated_individuals.csv` (id, p_female_reference,
-/// p_female_recalibrated, category_reference, category_recalibrated, category_changed).
+/// p_female_recalibrated, category_reference, category_recalibrated, category_changed); none
+/// without a recalibration.
 ///
 /// # Errors
 /// [`RenderError`] when a table cannot be built.
-pub fn recalibration_files(
-    result: &AnalysisResult,
-    r: &crate::assemblage::recalibration::Recalibration,
-) -> Result<OutputSet, RenderError> {
+pub fn recalibration_files(result: &AnalysisResult) -> Result<OutputSet, RenderError> {
+    let Some(r) = &result.recalibration else {
+        return Ok(OutputSet::default());
+    };
     let (a, analysis) = (&result.assemblage, &result.results);
     let mut rows = vec![header(&[
         "trait",
