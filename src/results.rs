@@ -45,6 +45,49 @@ pub struct BySex {
     pub prevalence: Vec<PrevalenceBySex>,
     /// Age interval of each individual.
     pub ages: Vec<Option<(f64, f64)>>,
+    /// Who the tables by sex leave out (counted beside them, never sexed in them).
+    pub left_out: LeftOut,
+    /// Sentences on the chains of the prevalences (convergence), empty when all is well.
+    pub notes: Vec<String>,
+}
+
+/// Individuals that the tables by sex leave out: no usable evidence of sex, or a subadult
+/// (an age below the model's minimum age; sexed by DNA or not). They are counted, not sexed.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Default)]
+pub struct LeftOut {
+    /// Without usable evidence of sex.
+    pub no_evidence: usize,
+    /// Subadults with evidence (DNA): sexed in the individual table, not in the tables by sex.
+    pub subadult: usize,
+}
+
+impl LeftOut {
+    /// "3 individuals without evidence of sex and 2 subadults", or `None` when nobody is
+    /// left out.
+    pub fn sentence(&self) -> Option<String> {
+        let plural =
+            |n: usize, one: &str, many: &str| format!("{n} {}", if n == 1 { one } else { many });
+        let parts: Vec<String> = [
+            (self.no_evidence > 0).then(|| {
+                plural(
+                    self.no_evidence,
+                    "individual without evidence of sex",
+                    "individuals without evidence of sex",
+                )
+            }),
+            (self.subadult > 0).then(|| {
+                plural(
+                    self.subadult,
+                    "subadult sexed by DNA",
+                    "subadults sexed by DNA",
+                )
+            }),
+        ]
+        .into_iter()
+        .flatten()
+        .collect();
+        (!parts.is_empty()).then(|| parts.join(" and "))
+    }
 }
 
 /// Everything one analysis found.

@@ -1,6 +1,7 @@
-//! Numerical building blocks: the normal distribution in log space and multivariate normal
-//! box probabilities.
+//! Numerical building blocks: the normal distribution in log space, multivariate normal
+//! box probabilities, proportions' intervals and the convergence diagnostics of chains.
 
+pub mod mcmc;
 pub mod mvn;
 pub mod normal;
 pub mod proportion;

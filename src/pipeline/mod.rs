@@ -24,15 +24,22 @@ pub use render::render;
 use crate::assemblage::analyse as posteriors;
 use crate::assemblage::draws::Draws;
 use crate::assemblage::recalibration::recalibrate;
+use crate::assemblage::PriorSetResults;
 use crate::catalogue::Catalogue;
-use crate::data::{read_assemblage, read_assemblage_bytes, Assemblage, InputError, ReadSettings};
+use crate::data::{
+    read_assemblage, read_assemblage_bytes, Assemblage, InputError, Maturity, ReadSettings,
+};
 use crate::error::{OptionProblem, OptionProblems};
 use crate::likelihood::evaluate_with_progress;
-use crate::model::{Context, Model};
+use crate::model::{Context, IndividualEvidence, Model};
+use crate::prior::PriorShape;
 use crate::progress::Progress;
-use crate::results::{AnalysisResult, BySex, RunInfo};
+use crate::results::{AnalysisResult, BySex, LeftOut, RunInfo};
 use crate::summary::by_sex::{age_interval, ConditionColumn};
-use crate::summary::{age_by_sex, condition_column, prevalence_by_sex};
+use crate::summary::{
+    age_by_sex, condition_column, prevalence_by_sex, ChainLength, PrevalenceBySex, SexEvidence,
+    SexRatioPrior,
+};
 use crate::Error;
 use std::path::Path;
 
@@ -206,6 +213,83 @@ impl ValidatedOptions {
         })
     }
 
+    /// The analyses by sex: age at death over the joint draws and the prevalence of each
+    /// condition from the joint posterior of sex and prevalence, both on the individuals with
+    /// evidence of sex who are not subadults (the others are counted beside).
+    fn by_sex(
+        &self,
+        a: &Assemblage,
+        evidence: &[IndividualEvidence],
+        results: &PriorSetResults,
+        columns: &[ConditionColumn],
+        ages: Vec<Option<(f64, f64)>>,
+        draws: &Draws,
+    ) -> BySex {
+        let model = &self.model;
+        let estimable: Vec<bool> = evidence.iter().map(|e| e.estimable).collect();
+        let subadult: Vec<bool> = a
+            .individuals
+            .iter()
+            .map(|i| i.age.map(|g| g.maturity(model.minimum_age)) == Some(Maturity::Subadult))
+            .collect();
+        let in_tables: Vec<bool> = estimable
+            .iter()
+            .zip(&subadult)
+            .map(|(&e, &s)| e && !s)
+            .collect();
+        let left_out = LeftOut {
+            no_evidence: estimable.iter().filter(|&&e| !e).count(),
+            subadult: estimable
+                .iter()
+                .zip(&subadult)
+                .filter(|(&e, &s)| e && s)
+                .count(),
+        };
+        let hier = results.fitted.hierarchy.as_ref();
+        let membership =
+            hier.map_or_else(|| vec![0; a.individuals.len()], |h| h.membership.clone());
+        let prior = match (hier, &self.prior.shape) {
+            (Some(h), _) => SexRatioPrior::Groups(&h.hyper, h.groups.len()),
+            (None, PriorShape::Beta { a, b }) => SexRatioPrior::Beta(*a, *b),
+            (None, PriorShape::Fixed { pi }) => SexRatioPrior::Fixed(*pi),
+        };
+        let ev = SexEvidence {
+            ln_lrs: &results.fitted.ln_lrs,
+            estimable: &estimable,
+            membership: &membership,
+            in_tables: &in_tables,
+            prior,
+        };
+        let seed = self.options.seed;
+        let prevalence: Vec<PrevalenceBySex> = columns
+            .iter()
+            .enumerate()
+            .map(|(k, (c, v))| {
+                let len = ChainLength::default_with_seed(seed.wrapping_add(k as u64));
+                prevalence_by_sex(&ev, c, v, &len)
+            })
+            .collect();
+        let notes = prevalence
+            .iter()
+            .filter_map(PrevalenceBySex::convergence_note)
+            .collect();
+        let table_ages: Vec<Option<(f64, f64)>> = ages
+            .iter()
+            .zip(&in_tables)
+            .map(|(g, &t)| if t { *g } else { None })
+            .collect();
+        BySex {
+            age: table_ages
+                .iter()
+                .any(Option::is_some)
+                .then(|| age_by_sex(&table_ages, &draws.female, seed)),
+            prevalence,
+            ages,
+            left_out,
+            notes,
+        }
+    }
+
     /// Analyse a table: every individual's evidence, the posteriors under the prior and the
     /// sensitivity set, the joint draws, the analyses by sex and (when asked for) the
     /// recalibration. `command` is the front door's record of how the run was asked for
@@ -254,17 +338,7 @@ impl ValidatedOptions {
             .iter()
             .map(|i| age_interval(i.age, model.minimum_age))
             .collect();
-        let by_sex = BySex {
-            age: ages
-                .iter()
-                .any(Option::is_some)
-                .then(|| age_by_sex(&ages, &draws.female, o.seed)),
-            prevalence: columns
-                .iter()
-                .map(|(c, v)| prevalence_by_sex(c, v, &draws.female))
-                .collect(),
-            ages,
-        };
+        let by_sex = self.by_sex(&a, &evidence, &results, &columns, ages, &draws);
         let recalibration = self.recalibration.as_ref().map(|st| {
             progress.stage(
                 "recalibrating measurements",

@@ -54,3 +54,35 @@ fn recalibration_changes_count_only_individuals_whose_category_moves() {
     });
     assert_eq!(r.recalibration_changes(), 1);
 }
+
+#[test]
+fn the_tables_by_sex_leave_out_subadults_and_the_evidence_free_and_count_them() {
+    let run = AnalysisOptions {
+        by_sex: vec!["lesion".into()],
+        ..Default::default()
+    }
+    .validate()
+    .unwrap();
+    // C is a child sexed by DNA, D has nothing that speaks of sex.
+    let a = table(
+        "id,age,glabella,mastoid_l,dna_x_reads,dna_y_reads,lesion\n\
+         A,30,1,1,,,1\nB,40,5,5,,,0\nC,8,,,5000,0,1\nD,50,,,,,1\nE,35,2,1,,,0\n",
+    );
+    let r = run.analyse(a, vec![], &crate::progress::Silent).unwrap();
+    assert!(r.evidence[2].estimable, "the child is sexed by DNA");
+    assert_eq!(
+        r.by_sex.left_out,
+        LeftOut {
+            no_evidence: 1,
+            subadult: 1
+        }
+    );
+    let p = &r.by_sex.prevalence[0];
+    assert_eq!((p.n_recorded, p.n_left_out), (3, 2));
+    assert!((p.n_female + p.n_male - 3.0).abs() < 1e-9);
+    assert_eq!(r.by_sex.age.as_ref().unwrap().n_with_age, 3);
+    assert_eq!(
+        r.by_sex.left_out.sentence().unwrap(),
+        "1 individual without evidence of sex and 1 subadult sexed by DNA"
+    );
+}

@@ -100,6 +100,7 @@ pub fn by_sex_tables(r: &AnalysisResult) -> Result<OutputSet, RenderError> {
             "condition",
             "n_recorded",
             "n_present",
+            "n_left_out",
             "n_female",
             "n_male",
             "prevalence_female",
@@ -111,15 +112,19 @@ pub fn by_sex_tables(r: &AnalysisResult) -> Result<OutputSet, RenderError> {
             "difference",
             "difference_lo",
             "difference_hi",
-            "odds_ratio",
+            "p_female_higher",
+            "odds_ratio_median",
             "odds_ratio_lo",
             "odds_ratio_hi",
+            "rhat",
+            "effective_draws",
         ])];
         for p in &by_sex.prevalence {
             rows.push(vec![
                 p.column.clone(),
                 p.n_recorded.to_string(),
                 p.n_present.to_string(),
+                p.n_left_out.to_string(),
                 f1(p.n_female),
                 f1(p.n_male),
                 f3(p.female.0),
@@ -131,9 +136,12 @@ pub fn by_sex_tables(r: &AnalysisResult) -> Result<OutputSet, RenderError> {
                 f3(p.difference.0),
                 f3(p.difference.1),
                 f3(p.difference.2),
+                f3(p.p_female_higher),
                 f3(p.odds_ratio.0),
                 f3(p.odds_ratio.1),
                 f3(p.odds_ratio.2),
+                format!("{:.3}", p.rhat),
+                format!("{:.0}", p.ess),
             ]);
         }
         files.push("by_sex_prevalence.csv", csv_bytes(rows)?);
@@ -297,7 +305,11 @@ pub fn references_used(
     refs.push("ENFSI (2015). Guideline for evaluative reporting in forensic science. European Network of Forensic Science Institutes.".into());
     if !by_sex.prevalence.is_empty() {
         refs.push(
-            "Rubin, D. B. (1987). Multiple Imputation for Nonresponse in Surveys. New York: Wiley."
+            "Tanner, M. A., & Wong, W. H. (1987). Journal of the American Statistical Association, 82, 528–540."
+                .into(),
+        );
+        refs.push(
+            "Gelman, A., et al. (2013). Bayesian Data Analysis (3rd ed.). Boca Raton: CRC Press."
                 .into(),
         );
     }
@@ -412,10 +424,14 @@ pub fn methods_md(r: &AnalysisResult) -> String {
     if by_sex.age.is_some() || !by_sex.prevalence.is_empty() {
         let _ = write!(
             s,
-            "Analyses by sex (age at death{}) were computed over {} joint posterior draws of every individual's sex, so that uncertainty in sex is carried into them{}. ",
-            if by_sex.prevalence.is_empty() { String::new() } else { format!("; prevalence of {}", by_sex.prevalence.iter().map(|p| p.column.replace('_', " ")).collect::<Vec<_>>().join(", ")) },
-            draws.mu.len(),
-            if by_sex.prevalence.is_empty() { "" } else { "; prevalence estimates were pooled with Rubin's rules (Rubin, 1987)" }
+            "Analyses by sex left out individuals without evidence of sex and subadults (counted beside each table){}{}. ",
+            if by_sex.age.is_some() { format!("; age at death by sex was computed over {} joint posterior draws of every individual's sex, so that uncertainty in sex is carried into it", draws.mu.len()) } else { String::new() },
+            if by_sex.prevalence.is_empty() { String::new() } else { format!(
+                "; the prevalence of {} by sex was estimated from the joint posterior of every individual's sex and the two prevalences (uniform priors), by Gibbs sampling with data augmentation (Tanner & Wong, 1987), so that the condition informs each sex and the comparison is not diluted toward no difference; {} chains of {} kept draws each were checked by split-R-hat and effective sample size (Gelman et al., 2013)",
+                by_sex.prevalence.iter().map(|p| p.column.replace('_', " ")).collect::<Vec<_>>().join(", "),
+                crate::summary::ChainLength::default_with_seed(0).chains,
+                crate::summary::ChainLength::default_with_seed(0).iterations - crate::summary::ChainLength::default_with_seed(0).burn_in,
+            ) }
         );
     }
     let _ = writeln!(
@@ -644,7 +660,7 @@ fn groups_section(r: &AnalysisResult, m: &mut String, t: &mut String) {
 fn age_section(r: &AnalysisResult, m: &mut String, t: &mut String) {
     let by_sex = &r.by_sex;
     if let Some(age) = &by_sex.age {
-        let _ = writeln!(m, "## Age at death by sex\n\nOver the joint draws ({} individuals with a recorded age; interval ages imputed uniformly within their interval, open classes closed at {} years):\n", age.n_with_age, crate::summary::OPEN_CLASS_END);
+        let _ = writeln!(m, "## Age at death by sex\n\nOver the joint draws ({} individuals with evidence of sex and a recorded age; interval ages imputed uniformly within their interval, open classes closed at {} years){}:\n", age.n_with_age, crate::summary::OPEN_CLASS_END, left_out_clause(by_sex));
         let _ = writeln!(m, "| | mean | 95% interval |\n|---|---|---|");
         for (q, v) in [
             ("females", age.mean_female),
@@ -684,13 +700,22 @@ fn age_section(r: &AnalysisResult, m: &mut String, t: &mut String) {
     }
 }
 
+/// "; left out and counted beside: 3 individuals without evidence of sex", or nothing.
+fn left_out_clause(by_sex: &BySex) -> String {
+    by_sex
+        .left_out
+        .sentence()
+        .map(|s| format!("; left out and counted beside: {s}"))
+        .unwrap_or_default()
+}
+
 /// Prevalence by sex of each condition column.
 fn prevalence_section(r: &AnalysisResult, m: &mut String, t: &mut String) {
     let by_sex = &r.by_sex;
     if !by_sex.prevalence.is_empty() {
-        let _ = writeln!(m, "## Prevalence by sex\n\nPooled over the joint draws with Rubin's rules (sampling and sex uncertainty together):\n");
-        let _ = writeln!(m, "| condition | recorded | females | males | difference | odds ratio F:M |\n|---|---|---|---|---|---|");
-        let _ = writeln!(t, "\\begin{{table}}\n\\centering\n\\caption{{Prevalence by sex (pooled over joint posterior draws, 95\\% intervals).}}\n\\begin{{tabular}}{{lrrrr}}\n\\toprule\nCondition & Females & Males & Difference & Odds ratio \\\\\n\\midrule");
+        let _ = writeln!(m, "## Prevalence by sex\n\nFrom the joint posterior of every individual's sex and the prevalences: the condition informs each sex, so the comparison is not diluted toward no difference. Posterior means with 95% intervals; the odds ratio is the posterior median{}.\n", left_out_clause(by_sex));
+        let _ = writeln!(m, "| condition | recorded | left out | females | males | difference F − M | P(higher in females) | odds ratio F:M |\n|---|---|---|---|---|---|---|---|");
+        let _ = writeln!(t, "\\begin{{table}}\n\\centering\n\\caption{{Prevalence by sex from the joint posterior of sex and prevalence (posterior means, odds ratio median; 95\\% intervals).}}\n\\begin{{tabular}}{{lrrrr}}\n\\toprule\nCondition & Females & Males & Difference & Odds ratio \\\\\n\\midrule");
         for p in &by_sex.prevalence {
             let cells = |dash: &str| {
                 [p.female, p.male, p.difference, p.odds_ratio].map(|v| ci(v, f3, dash))
@@ -698,9 +723,11 @@ fn prevalence_section(r: &AnalysisResult, m: &mut String, t: &mut String) {
             let [f, ml, d, or] = cells("–");
             let _ = writeln!(
                 m,
-                "| {} | {} | {f} | {ml} | {d} | {or} |",
+                "| {} | {} | {} | {f} | {ml} | {d} | {} | {or} |",
                 md(&p.column),
-                p.n_recorded
+                p.n_recorded,
+                p.n_left_out,
+                f3(p.p_female_higher)
             );
             let [f, ml, d, or] = cells("--");
             let _ = writeln!(t, "{} & {f} & {ml} & {d} & {or} \\\\", tex(&p.column));
@@ -710,6 +737,12 @@ fn prevalence_section(r: &AnalysisResult, m: &mut String, t: &mut String) {
             m,
             "\nOutcome columns are never used as evidence of sex: that would be circular.\n"
         );
+        for n in &by_sex.notes {
+            let _ = writeln!(m, "- {n}");
+        }
+        if !by_sex.notes.is_empty() {
+            let _ = writeln!(m);
+        }
     }
 }
 

@@ -1,4 +1,5 @@
-//! Age at death and prevalence by sex, pooled over joint draws of everyone's sex.
+//! Age at death by sex over joint draws of everyone's sex, and the condition columns read
+//! for prevalence by sex (see `prevalence`).
 
 use crate::assemblage::Category;
 use crate::data::{AgeAtDeath, Assemblage, InputError, Problem, ProblemKind};
@@ -194,111 +195,6 @@ pub fn condition_column(
             problems,
             warnings: Vec::new(),
         })
-    }
-}
-
-/// Prevalence of a 0/1 condition by sex, pooled over the draws by Rubin's rules.
-#[derive(Debug, Clone, PartialEq, Serialize)]
-pub struct PrevalenceBySex {
-    /// The condition column.
-    pub column: String,
-    /// Individuals with the condition recorded (0 or 1).
-    pub n_recorded: usize,
-    /// Individuals with it present.
-    pub n_present: usize,
-    /// Females recorded, mean over draws.
-    pub n_female: f64,
-    /// Males recorded, mean over draws.
-    pub n_male: f64,
-    /// Prevalence among females: pooled estimate and 95% interval (Rubin).
-    pub female: (f64, f64, f64),
-    /// Prevalence among males.
-    pub male: (f64, f64, f64),
-    /// Difference female − male.
-    pub difference: (f64, f64, f64),
-    /// Odds ratio female : male (0.5 added to every cell; pooled on the log scale).
-    pub odds_ratio: (f64, f64, f64),
-}
-
-/// Rubin's rules (Rubin 1987, *Multiple Imputation for Nonresponse in Surveys*): pooled
-/// estimate Q̄ = mean of the draws' estimates, total variance T = Ū + (1 + 1/m) B with Ū the
-/// mean within-draw variance and B the between-draw variance; 95% interval Q̄ ± 1.96 √T.
-pub fn rubin(estimates: &[f64], variances: &[f64]) -> (f64, f64, f64) {
-    let m = estimates.len() as f64;
-    if m < 1.0 {
-        return (f64::NAN, f64::NAN, f64::NAN);
-    }
-    let q = estimates.iter().sum::<f64>() / m;
-    let u = variances.iter().sum::<f64>() / m;
-    let b = if m > 1.0 {
-        estimates.iter().map(|x| (x - q) * (x - q)).sum::<f64>() / (m - 1.0)
-    } else {
-        0.0
-    };
-    let t = u + (1.0 + 1.0 / m) * b;
-    (q, q - 1.96 * t.sqrt(), q + 1.96 * t.sqrt())
-}
-
-/// Prevalence by sex of a condition recorded as `Some(true/false)` (None where not recorded).
-pub fn prevalence_by_sex(
-    column: &str,
-    present: &[Option<bool>],
-    female: &[Vec<bool>],
-) -> PrevalenceBySex {
-    let (mut pf, mut vf, mut pm, mut vm, mut pd, mut vd, mut lor, mut vlor) = (
-        vec![],
-        vec![],
-        vec![],
-        vec![],
-        vec![],
-        vec![],
-        vec![],
-        vec![],
-    );
-    let (mut nfs, mut nms) = (0.0, 0.0);
-    for sexes in female {
-        let (mut af, mut nf, mut am, mut nm): (f64, f64, f64, f64) = (0.0, 0.0, 0.0, 0.0);
-        for (p, &f) in present.iter().zip(sexes) {
-            let Some(p) = p else { continue };
-            let x = if *p { 1.0 } else { 0.0 };
-            if f {
-                af += x;
-                nf += 1.0;
-            } else {
-                am += x;
-                nm += 1.0;
-            }
-        }
-        nfs += nf;
-        nms += nm;
-        if nf > 0.0 && nm > 0.0 {
-            let (a, b) = (af / nf, am / nm);
-            let (va, vb) = (a * (1.0 - a) / nf, b * (1.0 - b) / nm);
-            pf.push(a);
-            vf.push(va);
-            pm.push(b);
-            vm.push(vb);
-            pd.push(a - b);
-            vd.push(va + vb);
-            // Log odds ratio with 0.5 added to each cell (Haldane); Woolf's variance.
-            let (c1, c2, c3, c4) = (af + 0.5, nf - af + 0.5, am + 0.5, nm - am + 0.5);
-            lor.push((c1 * c4 / (c2 * c3)).ln());
-            vlor.push(1.0 / c1 + 1.0 / c2 + 1.0 / c3 + 1.0 / c4);
-        }
-    }
-    let clamp = |(a, b, c): (f64, f64, f64)| (a, b.max(0.0), c.min(1.0));
-    let (l, lo, hi) = rubin(&lor, &vlor);
-    let d = female.len().max(1) as f64;
-    PrevalenceBySex {
-        column: column.to_string(),
-        n_recorded: present.iter().filter(|p| p.is_some()).count(),
-        n_present: present.iter().filter(|p| **p == Some(true)).count(),
-        n_female: nfs / d,
-        n_male: nms / d,
-        female: clamp(rubin(&pf, &vf)),
-        male: clamp(rubin(&pm, &vm)),
-        difference: rubin(&pd, &vd),
-        odds_ratio: (l.exp(), lo.exp(), hi.exp()),
     }
 }
 

@@ -1,13 +1,16 @@
 //! Analyses by sex over the joint draws, so that the uncertainty in every individual's sex
-//! is carried into age at death, prevalence of conditions, and the tables of a publication.
+//! is carried into age at death, prevalence of conditions (from the joint posterior of sex
+//! and prevalence, so that the comparison is not diluted), and the tables of a publication.
 //!
 //! Outcome columns (age, conditions) are never evidence of sex: using them would make the
 //! comparison circular (a grave good or a lesion read as "male" would then "show" that males
 //! have it).
 
 pub mod by_sex;
+pub mod prevalence;
 
 pub use by_sex::{
-    age_by_sex, category_by_age, condition_column, prevalence_by_sex, AgeBySex, AgeClassRow,
-    PrevalenceBySex, AGE_CLASSES, OPEN_CLASS_END,
+    age_by_sex, category_by_age, condition_column, AgeBySex, AgeClassRow, AGE_CLASSES,
+    OPEN_CLASS_END,
 };
+pub use prevalence::{prevalence_by_sex, ChainLength, PrevalenceBySex, SexEvidence, SexRatioPrior};

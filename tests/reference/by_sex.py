@@ -1,11 +1,11 @@
-"""Reference values for the analyses by sex over joint draws.
+"""Reference values for age at death by sex over joint draws.
 
 A small set of joint draws of sex (seeded numpy), point ages and a 0/1 condition are written to
-tests/reference/fixtures/by_sex_draws.csv; the expected pooled results — prevalence by sex with
-Rubin's rules (Rubin 1987: T = U + (1 + 1/m) B), the difference, the odds ratio with 0.5 added
-to each cell (Woolf variance, pooled on the log scale), mean age by sex over draws with
-2.5%/97.5% order statistics, and the share of draws in which females die younger — are written
-to tests/reference/fixtures/by_sex_expected.csv, computed independently with numpy.
+tests/reference/fixtures/by_sex_draws.csv; the expected results — mean age by sex over draws
+with 2.5%/97.5% order statistics, and the share of draws in which females die younger — are
+written to tests/reference/fixtures/by_sex_expected.csv, computed independently with numpy.
+(Prevalence by sex comes from the joint posterior, not from these draws: see
+prevalence_by_sex.py.)
 Run: python tests/reference/by_sex.py [OUTDIR]
 """
 import csv
@@ -15,15 +15,6 @@ import sys
 import numpy as np
 
 HERE = os.path.dirname(os.path.abspath(__file__))
-
-
-def rubin(q, u):
-    q, u = np.asarray(q), np.asarray(u)
-    m = len(q)
-    qbar = q.mean()
-    b = q.var(ddof=1)
-    t = u.mean() + (1 + 1 / m) * b
-    return qbar, qbar - 1.96 * np.sqrt(t), qbar + 1.96 * np.sqrt(t)
 
 
 def order_stat(v, p):
@@ -47,30 +38,14 @@ def main():
         w.writerow(["condition"] + ["NA" if cond_missing[i] else str(cond[i]) for i in range(n)])
         for d in range(m):
             w.writerow([d + 1] + ["F" if x else "M" for x in draws[d]])
-    pf, vf, pm, vm, pd, vd, lor, vlor, mf, mm, diff = ([] for _ in range(11))
+    mf, mm, diff = [], [], []
     younger = 0
-    obs = ~cond_missing
     for d in range(m):
         fem = draws[d]
-        af, nf = cond[obs & fem].sum(), (obs & fem).sum()
-        am, nm = cond[obs & ~fem].sum(), (obs & ~fem).sum()
-        a, b = af / nf, am / nm
-        pf.append(a); vf.append(a * (1 - a) / nf)
-        pm.append(b); vm.append(b * (1 - b) / nm)
-        pd.append(a - b); vd.append(a * (1 - a) / nf + b * (1 - b) / nm)
-        c = np.array([af + 0.5, nf - af + 0.5, am + 0.5, nm - am + 0.5])
-        lor.append(np.log(c[0] * c[3] / (c[1] * c[2]))); vlor.append((1 / c).sum())
         x, y = ages[fem].mean(), ages[~fem].mean()
         mf.append(x); mm.append(y); diff.append(x - y)
         younger += x < y
     rows = []
-    for name, (q, u) in {"female": (pf, vf), "male": (pm, vm), "difference": (pd, vd)}.items():
-        e, lo, hi = rubin(q, u)
-        if name != "difference":
-            lo, hi = max(lo, 0.0), min(hi, 1.0)
-        rows += [(f"prevalence_{name}", e), (f"prevalence_{name}_lo", lo), (f"prevalence_{name}_hi", hi)]
-    e, lo, hi = rubin(lor, vlor)
-    rows += [("odds_ratio", np.exp(e)), ("odds_ratio_lo", np.exp(lo)), ("odds_ratio_hi", np.exp(hi))]
     for name, v in {"mean_age_female": mf, "mean_age_male": mm, "age_difference": diff}.items():
         rows += [(name, np.mean(v)), (name + "_lo", order_stat(v, 0.025)), (name + "_hi", order_stat(v, 0.975))]
     rows.append(("p_females_die_younger", younger / m))

@@ -19,6 +19,9 @@ guarantees, not from what one machine happened to print:
 - by_sex_expected.csv, absolute 1e-10: numpy means and variances over a few hundred draws of
   values up to ~100, summed pairwise in an order set by the SIMD width: the rounding bound
   n * eps * max|x| is ~1e-11.
+- prevalence_by_sex_expected.csv, absolute 1e-12: a 16^3-point Gauss-Legendre sum (exact for
+  the polynomial integrand) of ~4 000 terms of size <= 1 in an order set by numpy; rounding is
+  ~1e-14 (checked: a 24-point rule agrees to 6e-16).
 - agreement_expected.csv, absolute 1e-12: kappa from integer confusion matrices of 5 grades
   and ANOVA sums over ~100 pairs; rounding is ~1e-15.
 - ordered_probit_expected.csv: thresholds and shift, absolute 1e-7: statsmodels' fit stops
@@ -62,6 +65,7 @@ SCRIPTS = {
     "mvn_boxes.py": ("mvn_boxes.csv", "ln_p", lambda row: probability_from_log(2e-8), ("cov", "lower", "upper")),
     "pi_posterior.py": ("pi_posterior.csv", "expected", lambda row: absolute(1e-9), ()),
     "by_sex.py": ("by_sex_expected.csv", "expected", lambda row: absolute(1e-10), ()),
+    "prevalence_by_sex.py": ("prevalence_by_sex_expected.csv", "expected", lambda row: absolute(1e-12), ()),
     "agreement.py": ("agreement_expected.csv", "expected", lambda row: absolute(1e-12), ()),
     "ordered_probit.py": ("ordered_probit_expected.csv", "expected", ordered_probit, ()),
 }
