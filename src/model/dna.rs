@@ -9,6 +9,16 @@
 //! 40:4477–4482). A count whose z-score, (k − n·mₛ)/sdₛ with the beta-binomial mean and SD, is
 //! beyond `atypical_z` under both sexes fits neither (atypical karyotype, contamination): the
 //! block is then flagged and not used, never forced to a sex.
+//!
+//! # Contamination and mix-up
+//! With probability ε (`contamination`, default [`DEFAULT_CONTAMINATION`]) a sample's reads
+//! are not the individual's own: contamination by another person's DNA, a sample mix-up or
+//! a library dominated by mis-mapped reads. The reads then come from someone of either sex
+//! with equal probability, so
+//! P(k | n, s) = (1 − ε) BB(k; n, αₛ, βₛ) + ε ½ [BB(k; n, α_F, β_F) + BB(k; n, α_M, β_M)].
+//! The likelihood ratio is then bounded by what one sample can support, whatever the read
+//! count: LR ≤ (2 − ε)/ε (199 at ε = 0.01), and its inverse from below. ε = 0 gives the plain
+//! beta-binomial.
 
 use super::evidence::{BlockEvidence, BlockStatus};
 use super::spec::RawDnaBlock;
@@ -39,6 +49,11 @@ pub fn ln_gamma_difference(x: f64, a: f64, b: f64) -> f64 {
         + 1.0 / (360.0 * zb.powi(3))
 }
 
+/// Default ε: the probability that a sample's reads are not the individual's own. A stated
+/// assumption of ours (no published rate of whole-sample contamination or mix-up is used
+/// here); set `contamination` in the model file to the laboratory's own figure.
+pub const DEFAULT_CONTAMINATION: f64 = 0.01;
+
 /// A validated DNA block.
 #[derive(Debug, Clone, PartialEq)]
 pub struct DnaBlock {
@@ -56,6 +71,8 @@ pub struct DnaBlock {
     pub beta: [(f64, f64); 2],
     /// z beyond which a count fits a sex badly.
     pub atypical_z: f64,
+    /// ε: probability that the reads are someone else's (see the module documentation).
+    pub contamination: f64,
 }
 
 impl DnaBlock {
@@ -97,6 +114,12 @@ impl DnaBlock {
         if !(z > 0.0) {
             fail("atypical_z must be positive".into());
         }
+        let contamination = raw.contamination.unwrap_or(DEFAULT_CONTAMINATION);
+        if !(0.0..1.0).contains(&contamination) {
+            fail(format!(
+                "contamination is a probability from 0 up to (not including) 1, found {contamination}"
+            ));
+        }
         if problems.len() > start {
             return None;
         }
@@ -111,7 +134,31 @@ impl DnaBlock {
                 (raw.male.alpha, raw.male.beta),
             ],
             atypical_z: z,
+            contamination,
         })
+    }
+
+    /// ln P(k | n, s) with the contamination mixture:
+    /// ln[(1 − ε) BBₛ + ε ½ (BB_F + BB_M)], by log-sum-exp of the beta-binomial terms.
+    pub fn ln_likelihood(&self, s: usize, k: u64, n: u64) -> f64 {
+        let own = [self.ln_pmf(0, k, n), self.ln_pmf(1, k, n)];
+        let eps = self.contamination;
+        if eps == 0.0 {
+            return own[s];
+        }
+        let terms = [
+            (1.0 - eps).ln() + own[s],
+            (0.5 * eps).ln() + own[0],
+            (0.5 * eps).ln() + own[1],
+        ];
+        let m = terms.iter().copied().fold(f64::NEG_INFINITY, f64::max);
+        m + terms.iter().map(|t| (t - m).exp()).sum::<f64>().ln()
+    }
+
+    /// The largest likelihood ratio one sample can give either way: (2 − ε)/ε (infinite at
+    /// ε = 0).
+    pub fn lr_bound(&self) -> f64 {
+        (2.0 - self.contamination) / self.contamination
     }
 
     /// ln P(k | n, s) for sex index s (0 female, 1 male), written so that nothing cancels for
@@ -168,11 +215,18 @@ impl DnaBlock {
         }
         let mut e = BlockEvidence::from_likelihoods(
             used,
-            self.ln_pmf(0, ny, n),
-            self.ln_pmf(1, ny, n),
+            self.ln_likelihood(0, ny, n),
+            self.ln_likelihood(1, ny, n),
             0.0,
         );
         e.note = format!("Y fraction {:.4} of {n} reads", ny as f64 / n as f64);
+        if self.contamination > 0.0 && e.ln_lr.abs() > self.lr_bound().ln() - 0.01 {
+            e.note.push_str(&format!(
+                "; at the ceiling of {:.0} that a contamination rate of {} allows",
+                self.lr_bound(),
+                self.contamination
+            ));
+        }
         e
     }
 }

@@ -24,7 +24,8 @@
 //!
 //! **dna** — `x_reads`, `y_reads` (trait ids, default `dna_x_reads` / `dna_y_reads`),
 //! `female: {alpha, beta}` and `male: {alpha, beta}` (Beta distribution of the fraction of Y
-//! reads among X and Y reads), `atypical_z` (default 4).
+//! reads among X and Y reads), `atypical_z` (default 4), `contamination` (default 0.01: the
+//! probability that a sample's reads are someone else's, which bounds the block's LR).
 
 use crate::catalogue::RawTrait;
 use serde::{Deserialize, Serialize};
@@ -199,6 +200,10 @@ pub struct RawDnaBlock {
     /// published cut-off).
     #[serde(default)]
     pub atypical_z: Option<f64>,
+    /// Probability that a sample's reads are not the individual's own (contamination,
+    /// mix-up); default 0.01, a stated assumption. It bounds the block's LR at (2 − ε)/ε.
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub contamination: Option<f64>,
 }
 
 fn default_x() -> String {

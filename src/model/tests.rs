@@ -330,16 +330,22 @@ fn dna_block_uses_the_beta_binomial_and_flags_misfits() {
     };
     let female = &m.evaluate(&reads(2000, 4), &ctx).blocks[k];
     let male = &m.evaluate(&reads(1820, 180), &ctx).blocks[k];
+    // Clear counts reach the ceiling (2 − ε)/ε = 199 that ε = 0.01 sets, and no further.
+    let ceiling = 199.0f64.ln();
     assert!(
-        female.ln_lr > 20.0 && male.ln_lr < -20.0,
+        (female.ln_lr - ceiling).abs() < 0.02 && (male.ln_lr + ceiling).abs() < 0.02,
         "{} {}",
         female.ln_lr,
         male.ln_lr
     );
-    // Closed form for n = 1, k = 0: P = β/(α + β).
+    assert!(female.ln_lr <= ceiling && male.ln_lr >= -ceiling);
+    assert!(female.note.contains("ceiling of 199"), "{}", female.note);
+    // Closed form for n = 1, k = 0: BB_F = β/(α + β) = 600/602, BB_M = 1820/2000, and
+    // P(k | F) = (1 − ε) BB_F + ε/2 (BB_F + BB_M).
+    let (bf, bm) = (600.0f64 / 602.0, 1820.0f64 / 2000.0);
     let e = &m.evaluate(&reads(1, 0), &ctx).blocks[k];
-    assert!((e.ln_l_female.unwrap() - (600.0f64 / 602.0).ln()).abs() < 1e-12);
-    assert!((e.ln_l_male.unwrap() - (1820.0f64 / 2000.0).ln()).abs() < 1e-12);
+    assert!((e.ln_l_female.unwrap() - (0.99 * bf + 0.005 * (bf + bm)).ln()).abs() < 1e-12);
+    assert!((e.ln_l_male.unwrap() - (0.99 * bm + 0.005 * (bf + bm)).ln()).abs() < 1e-12);
     // Half a male fraction with many reads fits neither sex: flagged, not forced.
     let e = &m.evaluate(&reads(9550, 450), &ctx).blocks[k];
     assert_eq!(e.status, BlockStatus::Atypical);
@@ -405,8 +411,36 @@ fn read_counts_of_any_size_give_the_beta_binomial_without_cancellation() {
             &ctx,
         )
         .blocks[k];
-    assert!(e.ln_lr > 1000.0, "{}", e.ln_lr);
+    // With the contamination component the ceiling holds at any read count...
+    assert!((e.ln_lr - 199.0f64.ln()).abs() < 1e-9, "{}", e.ln_lr);
     assert!(e.ln_l_female.unwrap() < 0.0 && e.ln_l_male.unwrap() < 0.0);
+    // ...and without it (ε = 0) the plain beta-binomial is overwhelming, never infinite.
+    let text = DEFAULT_MODEL_YAML.replace("contamination: 0.01", "contamination: 0");
+    let plain = Model::from_yaml("plain.yaml", &text).unwrap();
+    let ind = person(
+        &plain,
+        &[
+            (
+                "dna_x_reads",
+                Some(Observation::Count {
+                    value: 100_000_000_000_000_000,
+                }),
+            ),
+            ("dna_y_reads", Some(Observation::Count { value: 0 })),
+        ],
+    );
+    let e = &plain.evaluate(&ind, &ctx).blocks[k];
+    assert!(e.ln_lr > 1000.0 && e.ln_lr.is_finite(), "{}", e.ln_lr);
+}
+
+#[test]
+fn a_contamination_rate_outside_zero_to_one_is_a_model_problem() {
+    for bad in ["1", "-0.1", "1.5"] {
+        let text =
+            DEFAULT_MODEL_YAML.replace("contamination: 0.01", &format!("contamination: {bad}"));
+        let e = Model::from_yaml("bad.yaml", &text).unwrap_err();
+        assert!(e.to_string().contains("contamination"), "{e}");
+    }
 }
 
 #[test]
@@ -559,7 +593,8 @@ fn recorded_evidence_that_the_model_leaves_out_is_named() {
     // The default model without its DNA block: the read counts are recorded but unused.
     let text = crate::model::DEFAULT_MODEL_YAML;
     let start = text.find("  - id: dna\n").unwrap();
-    let end = start + text[start..].find("atypical_z: 4\n").unwrap() + "atypical_z: 4\n".len();
+    let last = "contamination: 0.01\n";
+    let end = start + text[start..].find(last).unwrap() + last.len();
     let without = format!("{}{}", &text[..start], &text[end..]);
     let m = Model::from_yaml("no-dna.yaml", &without).unwrap();
     let table = "id,glabella,dna_x_reads,dna_y_reads\nA,3,1000,2\nB,4,,\n";

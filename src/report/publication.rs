@@ -392,6 +392,19 @@ pub fn methods_md(r: &AnalysisResult) -> String {
             let _ = write!(s, "The model's parameters were estimated with tessera from a documented reference collection ({}) by two-step maximum likelihood: cumulative probit margins for the ordinal traits (McCullagh, 1980), per-sex means and standard deviations of the measurements, and polychoric, polyserial or Pearson within-sex correlations given the margins (Olsson, 1979; Olsson, Drasgow & Dorans, 1982). ", fitted_reference(model));
         }
     }
+    for (k, b) in model.blocks.iter().enumerate() {
+        let used = evidence
+            .iter()
+            .any(|e| e.blocks[k].status == BlockStatus::Used);
+        if let (Block::Dna(d), true) = (b, used) {
+            let _ = write!(
+                s,
+                "Ancient-DNA read counts were modelled as beta-binomial in the fraction of reads mapped to Y among those mapped to X and Y, per sex (after the Y-ratio reasoning of Skoglund et al., 2013), mixed with a probability of {} that a sample's reads are not the individual's own (contamination or mix-up, from someone of either sex; a stated assumption), which bounds the likelihood ratio of one sample at {:.0} either way; counts fitting neither sex were flagged and not used. ",
+                d.contamination,
+                d.lr_bound()
+            );
+        }
+    }
     let _ = write!(
         s,
         "Morphological evidence was not used for individuals younger than {} years. ",

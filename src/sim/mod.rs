@@ -54,7 +54,14 @@ pub fn draw_observations(
                 }
             }
             Block::Dna(db) => {
-                let (a, bb) = db.beta[s];
+                // With probability ε the reads are someone else's, of either sex (the
+                // model's contamination component).
+                let source = if rng.random::<f64>() < db.contamination {
+                    usize::from(rng.random::<f64>() < 0.5)
+                } else {
+                    s
+                };
+                let (a, bb) = db.beta[source];
                 let (Ok(beta), n) = (Beta::new(a, bb), reads) else {
                     continue;
                 };
