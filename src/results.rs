@@ -11,6 +11,22 @@ use crate::model::{IndividualEvidence, Model};
 use crate::summary::{AgeBySex, PrevalenceBySex};
 use serde::Serialize;
 
+/// `default (SHA-256 …): dna` for each model whose blocks `model` includes.
+pub fn model_includes(model: &Model) -> Vec<String> {
+    model
+        .included
+        .iter()
+        .map(|f| {
+            format!(
+                "{} (SHA-256 {}): {}",
+                f.model,
+                f.sha256,
+                f.blocks.join(", ")
+            )
+        })
+        .collect()
+}
+
 /// Facts about the run written into `run.json`.
 #[derive(Debug, Clone, PartialEq, Serialize)]
 pub struct RunInfo {
@@ -30,6 +46,9 @@ pub struct RunInfo {
     pub model_file: String,
     /// Model SHA-256.
     pub model_sha256: String,
+    /// Models whose blocks the model includes: `name (SHA-256 …): blocks`.
+    #[serde(skip_serializing_if = "Vec::is_empty")]
+    pub model_includes: Vec<String>,
     /// Seed of every random stream.
     pub seed: u64,
     /// Side policy used reading the input.

@@ -54,12 +54,23 @@ fn a_model_fitted_to_a_simulated_reference_classifies_as_well_as_the_true_model(
         command: "test".into(),
     };
     let fitted = fit(&spec, &truth.catalogue, &refs, &info).unwrap();
+    // `include: []` writes a model of the fitted blocks only.
+    let mut bare = spec.clone();
+    bare.include = Some(Vec::new());
+    let only = fit(&bare, &truth.catalogue, &refs, &info).unwrap();
+    let only = Model::from_yaml("fitted", &only.to_yaml().unwrap()).unwrap();
+    assert!(only.blocks.iter().all(|b| matches!(b, Block::Latent(_))));
     let fitted = Model::from_yaml("fitted", &fitted.to_yaml().unwrap()).unwrap();
+    // The fitted model takes the shipped DNA block by default (`include:`), unfitted.
+    assert!(matches!(fitted.blocks.last(), Some(Block::Dna(_))));
+    assert_eq!(fitted.included[0].blocks, vec!["dna".to_string()]);
     // The true model restricted to the same blocks, for a fair comparison.
     let mut same_blocks = truth.clone();
-    same_blocks
-        .blocks
-        .retain(|b| matches!(b, Block::Latent(l) if l.id != "dental"));
+    same_blocks.blocks.retain(|b| match b {
+        Block::Latent(l) => l.id != "dental",
+        Block::Dna(_) => true,
+        Block::Equations(_) => false,
+    });
     let cemetery = simulate(&truth, &one_group(3000), &MissingSpec::fragmentary(), 202).unwrap();
     let (a_true, n) = accuracy(&same_blocks, &cemetery);
     let (a_fit, n2) = accuracy(&fitted, &cemetery);

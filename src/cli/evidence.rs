@@ -74,6 +74,7 @@ pub fn run(args: Args) -> Result<i32, Error> {
             .map(|p| p.display().to_string())
             .unwrap_or_else(|| "embedded default".into()),
         model_sha256: model.sha256.clone(),
+        model_includes: crate::results::model_includes(&model),
         seed: args.seed,
         side_policy: settings.side_policy.as_str().into(),
     };

@@ -89,7 +89,7 @@ pub fn run(args: Args) -> Result<i32, Error> {
         message: m,
     })?;
     // The written model must load as any model does.
-    crate::model::Model::from_yaml(&args.out.display().to_string(), &yaml)?;
+    crate::model::Model::from_yaml_in(&args.out.display().to_string(), &yaml, args.out.parent())?;
     let protected: Vec<&Path> = vec![args.reference.as_path(), args.traits.as_path()];
     let estimates = estimates_path(&args.out);
     let table = fitted.estimates_csv()?;
@@ -110,6 +110,13 @@ pub fn run(args: Args) -> Result<i32, Error> {
             "  block {:<14} {n} trait{}",
             b.id,
             if n == 1 { "" } else { "s" }
+        );
+    }
+    for inc in spec.includes() {
+        println!(
+            "  block {:<14} taken as it is from model `{}` (not fitted; `include:` in the specification)",
+            inc.blocks.join(", "),
+            inc.model
         );
     }
     let mut warnings: Vec<String> = a.warnings.iter().map(|w| w.to_string()).collect();

@@ -276,13 +276,26 @@ pub fn fit(
          measurements, then polychoric (Olsson 1979), polyserial (Olsson, Drasgow & Dorans \
          1982) or Pearson correlations given the margins, repaired to positive definite by \
          eigenvalue clipping where needed. Standard errors are in the table of estimates \
-         written beside this file.{}\n",
+         written beside this file.{}{}\n",
         env!("CARGO_PKG_VERSION"),
         info.file,
         info.sha256,
         n_female,
         n_male,
         info.command,
+        if spec.includes().is_empty() {
+            String::new()
+        } else {
+            format!(
+                "\nNot fitted: the blocks named under `include` ({}) are taken as they are from \
+                 the models named there; their provenance follows.",
+                spec.includes()
+                    .iter()
+                    .map(|i| format!("{} from {}", i.blocks.join(", "), i.model))
+                    .collect::<Vec<_>>()
+                    .join("; ")
+            )
+        },
         if warnings.is_empty() {
             String::new()
         } else {
@@ -297,6 +310,7 @@ pub fn fit(
             minimum_age: Some(minimum_age),
             traits,
             blocks,
+            include: spec.includes(),
             fitted_to: Some(crate::model::spec::FitOrigin {
                 file: std::path::Path::new(&info.file)
                     .file_name()

@@ -6,6 +6,8 @@
 //! description: One paragraph.       # optional
 //! traits: []                        # optional: definitions of traits not in the catalogue,
 //!                                   # in the catalogue's form (id, name, region, kind, …)
+//! include:                         # optional: blocks taken from another model (default:
+//!   - {model: default, blocks: [dna]}  # the shipped DNA block; `include: []` for none)
 //! blocks:
 //!   - id: cranium
 //!     label: Cranial traits          # optional
@@ -81,6 +83,26 @@ pub struct FitSpec {
     pub traits: Vec<RawTrait>,
     /// Blocks to fit.
     pub blocks: Vec<BlockSpec>,
+    /// Blocks the written model takes from another model. Absent: the shipped DNA block
+    /// (read counts are not fitted from a reference, and a fitted model without them would
+    /// leave DNA unused); `[]` for none.
+    #[serde(default)]
+    pub include: Option<Vec<crate::model::include::RawInclude>>,
+}
+
+impl FitSpec {
+    /// The `include:` the written model gets: as written, or by default the shipped DNA
+    /// block unless a fitted block is already called `dna`.
+    pub fn includes(&self) -> Vec<crate::model::include::RawInclude> {
+        match &self.include {
+            Some(v) => v.clone(),
+            None if self.blocks.iter().any(|b| b.id == "dna") => Vec::new(),
+            None => vec![crate::model::include::RawInclude {
+                model: "default".into(),
+                blocks: vec!["dna".into()],
+            }],
+        }
+    }
 }
 
 impl FitSpec {

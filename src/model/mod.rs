@@ -7,6 +7,7 @@
 pub mod dna;
 pub mod equation;
 pub mod evidence;
+pub mod include;
 pub mod latent;
 pub mod spec;
 
@@ -123,6 +124,8 @@ pub struct Model {
     pub fitted_to: Option<spec::FitOrigin>,
     /// SHA-256 of the model text.
     pub sha256: String,
+    /// Models whose blocks this one includes.
+    pub included: Vec<include::IncludedFrom>,
 }
 
 /// Latent-block evidence already computed in a run, by block and observation pattern. It can
@@ -201,7 +204,7 @@ impl Model {
                 message: e.to_string(),
             }],
         })?;
-        Model::from_yaml(&name, &text)
+        Model::from_yaml_in(&name, &text, path.parent())
     }
 
     /// Parse and validate a model document.
@@ -209,6 +212,18 @@ impl Model {
     /// # Errors
     /// [`ModelError`] listing every problem found.
     pub fn from_yaml(file: &str, text: &str) -> Result<Model, ModelError> {
+        Model::from_yaml_in(file, text, None)
+    }
+
+    /// Parse and validate a model document whose `include:` files are relative to `base`.
+    ///
+    /// # Errors
+    /// [`ModelError`] listing every problem found.
+    pub fn from_yaml_in(
+        file: &str,
+        text: &str,
+        base: Option<&std::path::Path>,
+    ) -> Result<Model, ModelError> {
         let fail = |problems| ModelError {
             file: file.to_string(),
             problems,
@@ -219,13 +234,14 @@ impl Model {
                 message,
             }])
         })?;
-        let raw: RawModel = serde_yaml::from_str(text).map_err(|e| {
+        let mut raw: RawModel = serde_yaml::from_str(text).map_err(|e| {
             fail(vec![ModelProblem {
                 place: String::new(),
                 message: format!("not a valid model document: {e}"),
             }])
         })?;
         let mut problems = Vec::new();
+        let included = include::resolve(&mut raw, base, &mut problems);
         let mut catalogue = Catalogue::standard().map_err(|e| {
             fail(vec![ModelProblem {
                 place: "trait catalogue".into(),
@@ -316,12 +332,13 @@ impl Model {
         Ok(Model {
             name: raw.name,
             description: raw.description,
-            provenance: raw.provenance,
+            provenance: include::joined_provenance(&raw.provenance, &included),
             minimum_age,
             catalogue,
             blocks,
             fitted_to: raw.fitted_to,
             sha256: crate::data::sha256_hex(text.as_bytes()),
+            included,
         })
     }
 

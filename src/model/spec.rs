@@ -49,6 +49,9 @@ pub struct RawModel {
     pub traits: Vec<RawTrait>,
     /// Evidence blocks.
     pub blocks: Vec<RawBlock>,
+    /// Blocks taken from another model (see [`super::include`]).
+    #[serde(default, skip_serializing_if = "Vec::is_empty")]
+    pub include: Vec<super::include::RawInclude>,
     /// Where a fitted model's parameters come from (written by `tessera fit`; absent in a
     /// model written by hand from published values).
     #[serde(default, skip_serializing_if = "Option::is_none")]

@@ -361,6 +361,7 @@ impl ValidatedOptions {
             model: model.name.clone(),
             model_file: self.model_file.clone(),
             model_sha256: model.sha256.clone(),
+            model_includes: crate::results::model_includes(model),
             seed: o.seed,
             side_policy: self.read.side_policy.as_str().into(),
         };

@@ -392,6 +392,17 @@ pub fn methods_md(r: &AnalysisResult) -> String {
             let _ = write!(s, "The model's parameters were estimated with tessera from a documented reference collection ({}) by two-step maximum likelihood: cumulative probit margins for the ordinal traits (McCullagh, 1980), per-sex means and standard deviations of the measurements, and polychoric, polyserial or Pearson within-sex correlations given the margins (Olsson, 1979; Olsson, Drasgow & Dorans, 1982). ", fitted_reference(model));
         }
     }
+    for f in &model.included {
+        let _ = write!(
+            s,
+            "The block{} {} {} taken unchanged from model `{}` (SHA-256 `{}`), not estimated from this model's own sources. ",
+            if f.blocks.len() == 1 { "" } else { "s" },
+            f.blocks.iter().map(|b| format!("`{b}`")).collect::<Vec<_>>().join(", "),
+            if f.blocks.len() == 1 { "was" } else { "were" },
+            f.name,
+            f.sha256
+        );
+    }
     for (k, b) in model.blocks.iter().enumerate() {
         let used = evidence
             .iter()

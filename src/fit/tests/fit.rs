@@ -97,10 +97,12 @@ fn fitting_a_simulated_reference_recovers_the_model_within_its_intervals() {
     println!("95% intervals covering the truth: {covered}/{total}");
     // 95% nominal; measurements are recorded to 0.1 mm, which costs a little.
     assert!(share >= 0.85, "{covered}/{total}");
-    // The written model loads, and keeps the block structure.
+    // The written model loads, and keeps the block structure (the fitted blocks, then the
+    // shipped DNA block it includes by default).
     let text = fitted.to_yaml().unwrap();
     let back = Model::from_yaml("refit.yaml", &text).unwrap();
-    assert_eq!(back.blocks.len(), 3);
+    assert_eq!(back.blocks.len(), 4);
+    assert!(matches!(back.blocks[3], crate::model::Block::Dna(_)));
     assert!(back.provenance.contains("FITTED"));
 }
 
