@@ -22,7 +22,8 @@ pub struct Draws {
     pub female: Vec<Vec<bool>>,
 }
 
-fn pick(rng: &mut ChaCha8Rng, mass: &[f64]) -> usize {
+/// An index drawn with probability proportional to `mass`.
+pub(crate) fn pick(rng: &mut ChaCha8Rng, mass: &[f64]) -> usize {
     let u: f64 = rng.random::<f64>() * mass.iter().sum::<f64>();
     let mut acc = 0.0;
     for (k, &m) in mass.iter().enumerate() {

@@ -20,7 +20,7 @@ use super::posterior::p_female_given;
 use crate::data::Observation;
 use crate::model::latent::LatentKind;
 use crate::model::{Block, IndividualEvidence, Model};
-use crate::numeric::mcmc::{ess, split_rhat};
+use crate::numeric::mcmc::{ess, split_rhat, MAX_RHAT, MIN_ESS};
 use crate::prior::{Prior, PriorShape};
 use nalgebra::{DMatrix, DVector};
 use rand::distr::Distribution;
@@ -59,8 +59,8 @@ impl Default for RecalibrationSettings {
             chains: 4,
             iterations: 2000,
             burn_in: 500,
-            max_rhat: 1.01,
-            min_ess: 400.0,
+            max_rhat: MAX_RHAT,
+            min_ess: MIN_ESS,
             seed: 1,
         }
     }

@@ -267,6 +267,7 @@ pub fn fit(
     // Every definition is kept, in order, so that the model's catalogue has the same trait
     // order as the catalogue the reference was read with.
     let traits = spec.traits.clone();
+    let include = spec.includes();
     let provenance = format!(
         "FITTED by tessera {} to the reference file {} (SHA-256 {}), {} females and {} males \
          of documented sex aged {minimum_age} years or more (or of unknown age).\n\
@@ -283,13 +284,13 @@ pub fn fit(
         n_female,
         n_male,
         info.command,
-        if spec.includes().is_empty() {
+        if include.is_empty() {
             String::new()
         } else {
             format!(
                 "\nNot fitted: the blocks named under `include` ({}) are taken as they are from \
                  the models named there; their provenance follows.",
-                spec.includes()
+                include
                     .iter()
                     .map(|i| format!("{} from {}", i.blocks.join(", "), i.model))
                     .collect::<Vec<_>>()
@@ -310,7 +311,7 @@ pub fn fit(
             minimum_age: Some(minimum_age),
             traits,
             blocks,
-            include: spec.includes(),
+            include,
             fitted_to: Some(crate::model::spec::FitOrigin {
                 file: std::path::Path::new(&info.file)
                     .file_name()

@@ -25,6 +25,7 @@ use super::spec::RawDnaBlock;
 use super::ModelProblem;
 use crate::catalogue::{Catalogue, TraitKind};
 use crate::data::{Individual, Observation};
+use crate::numeric::normal::ln_add_exp;
 use statrs::function::beta::ln_beta;
 use statrs::function::gamma::ln_gamma;
 
@@ -138,21 +139,17 @@ impl DnaBlock {
         })
     }
 
-    /// ln P(k | n, s) with the contamination mixture:
-    /// ln[(1 − ε) BBₛ + ε ½ (BB_F + BB_M)], by log-sum-exp of the beta-binomial terms.
-    pub fn ln_likelihood(&self, s: usize, k: u64, n: u64) -> f64 {
+    /// ln P(k | n, female) and ln P(k | n, male) with the contamination mixture:
+    /// ln[(1 − ε) BBₛ + ε ½ (BB_F + BB_M)], by log-sum-exp of the two beta-binomial terms
+    /// (each computed once for both sexes).
+    pub fn ln_likelihoods(&self, k: u64, n: u64) -> [f64; 2] {
         let own = [self.ln_pmf(0, k, n), self.ln_pmf(1, k, n)];
         let eps = self.contamination;
         if eps == 0.0 {
-            return own[s];
+            return own;
         }
-        let terms = [
-            (1.0 - eps).ln() + own[s],
-            (0.5 * eps).ln() + own[0],
-            (0.5 * eps).ln() + own[1],
-        ];
-        let m = terms.iter().copied().fold(f64::NEG_INFINITY, f64::max);
-        m + terms.iter().map(|t| (t - m).exp()).sum::<f64>().ln()
+        let other = (0.5 * eps).ln() + ln_add_exp(own[0], own[1]);
+        own.map(|l| ln_add_exp((1.0 - eps).ln() + l, other))
     }
 
     /// The largest likelihood ratio one sample can give either way: (2 − ε)/ε (infinite at
@@ -213,12 +210,8 @@ impl DnaBlock {
                 )
             };
         }
-        let mut e = BlockEvidence::from_likelihoods(
-            used,
-            self.ln_likelihood(0, ny, n),
-            self.ln_likelihood(1, ny, n),
-            0.0,
-        );
+        let [ln_f, ln_m] = self.ln_likelihoods(ny, n);
+        let mut e = BlockEvidence::from_likelihoods(used, ln_f, ln_m, 0.0);
         e.note = format!("Y fraction {:.4} of {n} reads", ny as f64 / n as f64);
         if self.contamination > 0.0 && e.ln_lr.abs() > self.lr_bound().ln() - 0.01 {
             e.note.push_str(&format!(

@@ -62,14 +62,6 @@ fn included_text(name: &str, base: Option<&Path>) -> Result<(String, String), St
         .map_err(|e| format!("`{name}`: {e}"))
 }
 
-fn block_id(b: &RawBlock) -> &str {
-    match b {
-        RawBlock::Latent(x) => &x.id,
-        RawBlock::Equations(x) => &x.id,
-        RawBlock::Dna(x) => &x.id,
-    }
-}
-
 /// Add the blocks (and the trait definitions they may need) that `raw.include` names to
 /// `raw`, and say where they came from. Problems (an unknown model or block, an included
 /// model that includes others, a block id already used) go to `problems`.
@@ -115,19 +107,19 @@ pub(crate) fn resolve(
             fail("name the blocks to take (`blocks: [dna]`)".into());
         }
         for id in &inc.blocks {
-            let Some(b) = other.blocks.iter().find(|b| block_id(b) == id) else {
+            let Some(b) = other.blocks.iter().find(|b| b.id() == id) else {
                 fail(format!(
                     "no block `{id}` in {file}; its blocks are {}",
                     other
                         .blocks
                         .iter()
-                        .map(block_id)
+                        .map(RawBlock::id)
                         .collect::<Vec<_>>()
                         .join(", ")
                 ));
                 continue;
             };
-            if raw.blocks.iter().any(|o| block_id(o) == id) {
+            if raw.blocks.iter().any(|o| o.id() == id) {
                 fail(format!(
                     "block `{id}` is already a block of this model; block ids must be unique"
                 ));

@@ -279,22 +279,14 @@ impl Model {
         }
         let mut blocks = Vec::new();
         for (i, b) in raw.blocks.iter().enumerate() {
-            let id = match b {
-                RawBlock::Latent(x) => &x.id,
-                RawBlock::Equations(x) => &x.id,
-                RawBlock::Dna(x) => &x.id,
-            };
+            let id = b.id();
             if let Err(m) = crate::catalogue::valid_id(id) {
                 problems.push(ModelProblem {
                     place: format!("block {}", i + 1),
                     message: format!("block id `{id}`: {m}"),
                 });
             }
-            if raw.blocks[..i].iter().any(|o| match o {
-                RawBlock::Latent(x) => &x.id == id,
-                RawBlock::Equations(x) => &x.id == id,
-                RawBlock::Dna(x) => &x.id == id,
-            }) {
+            if raw.blocks[..i].iter().any(|o| o.id() == id) {
                 problems.push(ModelProblem {
                     place: format!("block `{id}`"),
                     message: "block ids must be unique".into(),
@@ -342,6 +334,12 @@ impl Model {
         })
     }
 
+    /// Whether the individual's recorded age is below the model's minimum age (its
+    /// morphological evidence is then not used).
+    pub fn is_subadult(&self, ind: &Individual) -> bool {
+        ind.age.map(|g| g.maturity(self.minimum_age)) == Some(Maturity::Subadult)
+    }
+
     /// The same model with another minimum age for its morphological blocks (years, 0 to 100).
     ///
     /// # Errors
@@ -369,7 +367,7 @@ impl Model {
         a.individuals
             .iter()
             .filter(|ind| {
-                ind.age.map(|g| g.maturity(self.minimum_age)) == Some(Maturity::Subadult)
+                self.is_subadult(ind)
                     && ind.observations.iter().enumerate().any(|(k, o)| {
                         o.is_some() && traits.get(k).is_some_and(|t| morphological.contains(&t.id))
                     })

@@ -84,6 +84,17 @@ pub enum RawBlock {
     Dna(RawDnaBlock),
 }
 
+impl RawBlock {
+    /// The block's id, whatever its type.
+    pub fn id(&self) -> &str {
+        match self {
+            RawBlock::Latent(x) => &x.id,
+            RawBlock::Equations(x) => &x.id,
+            RawBlock::Dna(x) => &x.id,
+        }
+    }
+}
+
 /// A pair of per-sex values.
 #[derive(Debug, Clone, Copy, Deserialize, Serialize)]
 #[serde(deny_unknown_fields)]

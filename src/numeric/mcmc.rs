@@ -2,6 +2,13 @@
 //! (Gelman et al. 2013, *Bayesian Data Analysis*, 3rd ed., §11.4–11.5; Geyer 1992,
 //! *Statistical Science* 7, 473–483, for the initial positive sequence).
 
+/// R̂ above which a quantity is said not to have converged (Vehtari et al. 2021, *Bayesian
+/// Analysis* 16, 667–718; from memory).
+pub const MAX_RHAT: f64 = 1.01;
+/// Effective sample size below which a quantity is said to need longer chains (Vehtari et al.
+/// 2021; from memory).
+pub const MIN_ESS: f64 = 400.0;
+
 /// Split-R̂ of several chains of one scalar.
 pub fn split_rhat(chains: &[Vec<f64>]) -> f64 {
     let halves: Vec<&[f64]> = chains

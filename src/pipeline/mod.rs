@@ -26,9 +26,7 @@ use crate::assemblage::draws::Draws;
 use crate::assemblage::recalibration::recalibrate;
 use crate::assemblage::PriorSetResults;
 use crate::catalogue::Catalogue;
-use crate::data::{
-    read_assemblage, read_assemblage_bytes, Assemblage, InputError, Maturity, ReadSettings,
-};
+use crate::data::{read_assemblage, read_assemblage_bytes, Assemblage, InputError, ReadSettings};
 use crate::error::{OptionProblem, OptionProblems};
 use crate::likelihood::evaluate_with_progress;
 use crate::model::{Context, IndividualEvidence, Model};
@@ -227,11 +225,7 @@ impl ValidatedOptions {
     ) -> BySex {
         let model = &self.model;
         let estimable: Vec<bool> = evidence.iter().map(|e| e.estimable).collect();
-        let subadult: Vec<bool> = a
-            .individuals
-            .iter()
-            .map(|i| i.age.map(|g| g.maturity(model.minimum_age)) == Some(Maturity::Subadult))
-            .collect();
+        let subadult: Vec<bool> = a.individuals.iter().map(|i| model.is_subadult(i)).collect();
         let in_tables: Vec<bool> = estimable
             .iter()
             .zip(&subadult)

@@ -450,11 +450,11 @@ pub fn methods_md(r: &AnalysisResult) -> String {
             s,
             "Analyses by sex left out individuals without evidence of sex and subadults (counted beside each table){}{}. ",
             if by_sex.age.is_some() { format!("; age at death by sex was computed over {} joint posterior draws of every individual's sex, so that uncertainty in sex is carried into it", draws.mu.len()) } else { String::new() },
-            if by_sex.prevalence.is_empty() { String::new() } else { format!(
+            if by_sex.prevalence.is_empty() { String::new() } else { let chain = crate::summary::ChainLength::default_with_seed(run.seed); format!(
                 "; the prevalence of {} by sex was estimated from the joint posterior of every individual's sex and the two prevalences (uniform priors), by Gibbs sampling with data augmentation (Tanner & Wong, 1987), so that the condition informs each sex and the comparison is not diluted toward no difference; {} chains of {} kept draws each were checked by split-R-hat and effective sample size (Gelman et al., 2013)",
                 by_sex.prevalence.iter().map(|p| p.column.replace('_', " ")).collect::<Vec<_>>().join(", "),
-                crate::summary::ChainLength::default_with_seed(0).chains,
-                crate::summary::ChainLength::default_with_seed(0).iterations - crate::summary::ChainLength::default_with_seed(0).burn_in,
+                chain.chains,
+                chain.kept(),
             ) }
         );
     }

@@ -30,6 +30,7 @@
 //! the bytes do not depend on the number of threads), and are checked by split-R̂ and the
 //! effective sample size (`numeric::mcmc`).
 
+use crate::assemblage::draws::pick;
 use crate::assemblage::hierarchy::HyperGrid;
 use crate::numeric::mcmc::{ess, split_rhat};
 use rand::distr::Distribution;
@@ -92,12 +93,14 @@ impl ChainLength {
             seed,
         }
     }
+
+    /// Draws kept per chain.
+    pub fn kept(&self) -> usize {
+        self.iterations.saturating_sub(self.burn_in)
+    }
 }
 
-/// R̂ above which a prevalence is said not to have converged (Vehtari et al. 2021, from memory).
-pub const MAX_RHAT: f64 = 1.01;
-/// Effective sample size below which a prevalence is said to need longer chains.
-pub const MIN_ESS: f64 = 400.0;
+pub use crate::numeric::mcmc::{MAX_RHAT, MIN_ESS};
 
 /// Prevalence of a 0/1 condition by sex.
 #[derive(Debug, Clone, PartialEq, Serialize)]
@@ -174,15 +177,7 @@ fn beta_draw(rng: &mut ChaCha8Rng, a: f64, b: f64) -> f64 {
 fn pick_ln(rng: &mut ChaCha8Rng, ln_w: &[f64]) -> usize {
     let m = ln_w.iter().copied().fold(f64::NEG_INFINITY, f64::max);
     let w: Vec<f64> = ln_w.iter().map(|v| (v - m).exp()).collect();
-    let u = rng.random::<f64>() * w.iter().sum::<f64>();
-    let mut acc = 0.0;
-    for (k, x) in w.iter().enumerate() {
-        acc += x;
-        if u < acc {
-            return k;
-        }
-    }
-    w.len() - 1
+    pick(rng, &w)
 }
 
 /// The hyper-grid as (μ, κ, constant part of ln weight) per cell.
@@ -225,7 +220,7 @@ fn run_chain(ev: &SexEvidence, outcome: &[Option<bool>], len: &ChainLength, c: u
             (ev.ln_lrs[i], ev.membership[i].min(groups - 1), y)
         })
         .collect();
-    let kept = len.iterations.saturating_sub(len.burn_in);
+    let kept = len.kept();
     let mut chain = Chain {
         p_f: Vec::with_capacity(kept),
         p_m: Vec::with_capacity(kept),
@@ -333,12 +328,13 @@ pub fn prevalence_by_sex(
         .into_par_iter()
         .map(|c| run_chain(ev, present, len, c))
         .collect();
-    let pf: Vec<Vec<f64>> = chains.iter().map(|c| c.p_f.clone()).collect();
-    let pm: Vec<Vec<f64>> = chains.iter().map(|c| c.p_m.clone()).collect();
+    let n_f: f64 = chains.iter().flat_map(|c| &c.n_f).sum();
     let diff: Vec<Vec<f64>> = chains
         .iter()
         .map(|c| c.p_f.iter().zip(&c.p_m).map(|(a, b)| a - b).collect())
         .collect();
+    let (pf, pm): (Vec<Vec<f64>>, Vec<Vec<f64>>) =
+        chains.into_iter().map(|c| (c.p_f, c.p_m)).unzip();
     let rhat = [&pf, &pm, &diff]
         .iter()
         .map(|c| split_rhat(c))
@@ -356,7 +352,7 @@ pub fn prevalence_by_sex(
         .collect();
     let recorded_in = |i: usize| ev.in_tables[i] && present[i].is_some();
     let n_recorded = (0..present.len()).filter(|&i| recorded_in(i)).count();
-    let n_f: f64 = chains.iter().flat_map(|c| &c.n_f).sum::<f64>() / f.len().max(1) as f64;
+    let n_f = n_f / f.len().max(1) as f64;
     PrevalenceBySex {
         column: column.to_string(),
         n_recorded,
