@@ -18,7 +18,7 @@
 //! p(μ, κ | D) ∝ p(μ) p(κ) ∏g mg(μ, κ); group and individual posteriors are mixtures over the
 //! hyper-grid.
 
-use super::posterior::{locate_region, p_female_on_grid, MixtureSum, PiSummary};
+use super::posterior::{locate_region, p_female_on_grid, MixtureSum, PiPosterior, PiSummary};
 use crate::numeric::normal::ln_add_exp;
 use crate::prior::{Prior, PriorShape};
 use serde::Serialize;
@@ -30,10 +30,15 @@ use std::f64::consts::{FRAC_PI_2, PI};
 pub const KAPPA_MIN: f64 = 1.0;
 /// Largest κ of the hyper-prior.
 pub const KAPPA_MAX: f64 = 1000.0;
-/// Points of the κ grid (uniform in ln κ).
-const KAPPA_POINTS: usize = 32;
-/// Cells of the μ grid.
+/// Cells of the first, coarse hyper-grid over the whole prior: μ (uniform in t), κ (uniform
+/// in ln κ).
+const COARSE_MU_CELLS: usize = 40;
+const COARSE_KAPPA_CELLS: usize = 16;
+/// Cells of the refined hyper-grid over where the posterior lives.
 const MU_CELLS: usize = 100;
+const KAPPA_CELLS: usize = 96;
+/// ln distance below the largest hyper-grid cell at which the refined region ends.
+const REGION_CUTOFF: f64 = 30.0;
 /// Cells of each group's π grid.
 const GROUP_CELLS: usize = 240;
 /// Cells of the coarse pass that locates a group's likelihood.
@@ -79,19 +84,20 @@ impl GroupGrid {
         let data = MixtureSum::new(ln_lrs);
         let ell = |pi: f64| data.ln_sum(pi);
         let (lo, hi) = locate_region(|t| ell(pi_of(t)), COARSE_CELLS, LN_CUTOFF);
-        let h = (hi - lo) / GROUP_CELLS as f64;
-        let edges: Vec<f64> = (0..=GROUP_CELLS)
-            .map(|i| pi_of(lo + i as f64 * h))
-            .collect();
-        let pi: Vec<f64> = (0..GROUP_CELLS)
+        GroupGrid::uniform_in_t(lo, hi, GROUP_CELLS, ell)
+    }
+
+    /// `cells` cells uniform in t on [lo, hi] (π = sin²(πt/2)), with `ell` at the midpoints.
+    fn uniform_in_t(lo: f64, hi: f64, cells: usize, ell: impl Fn(f64) -> f64) -> GroupGrid {
+        let h = (hi - lo) / cells as f64;
+        let edges: Vec<f64> = (0..=cells).map(|i| pi_of(lo + i as f64 * h)).collect();
+        let pi: Vec<f64> = (0..cells)
             .map(|i| pi_of(lo + (i as f64 + 0.5) * h))
             .collect();
         let ln_lik = pi.iter().map(|&p| ell(p)).collect();
         let ln_p = pi.iter().map(|p| p.ln()).collect();
         let ln_q = pi.iter().map(|p| (1.0 - p).ln()).collect();
-        let ln_width = (0..GROUP_CELLS)
-            .map(|j| (edges[j + 1] - edges[j]).ln())
-            .collect();
+        let ln_width = (0..cells).map(|j| (edges[j + 1] - edges[j]).ln()).collect();
         GroupGrid {
             pi,
             edges,
@@ -155,28 +161,38 @@ impl GroupGrid {
     }
 }
 
-/// The hyper-grid: μ points with their prior weights, κ points with theirs.
+/// The hyper-grid: μ cells with their prior masses, κ cells (uniform in ln κ) with theirs.
+///
+/// The masses are the prior's own, not renormalised over the grid: a grid that covers only
+/// where the posterior lives (see [`Hierarchy::fit_on`]) still gives ln p(D).
 #[derive(Debug, Clone, PartialEq)]
 pub struct HyperGrid {
-    /// μ values.
+    /// μ at cell midpoints.
     pub mu: Vec<f64>,
-    /// ln prior weight of each μ (cell mass).
+    /// μ at cell edges (one more than `mu`; a fixed μ has the two edges equal).
+    pub mu_edges: Vec<f64>,
+    /// The same edges in t (μ = sin²(πt/2)).
+    t_edges: Vec<f64>,
+    /// ln prior mass of each μ cell.
     pub ln_w_mu: Vec<f64>,
-    /// κ values.
+    /// κ at cell midpoints (in ln κ).
     pub kappa: Vec<f64>,
-    /// ln prior weight of each κ.
+    /// ln κ at cell edges.
+    pub ln_kappa_edges: Vec<f64>,
+    /// ln prior mass of each κ cell.
     pub ln_w_kappa: Vec<f64>,
 }
 
 impl HyperGrid {
-    /// Grids for a prior on μ and the log-uniform prior on κ.
+    /// A coarse grid over the whole prior: μ where its prior density in t is within e⁻⁴⁰ of
+    /// its maximum, κ over [`KAPPA_MIN`], [`KAPPA_MAX`].
     pub fn new(prior: &Prior) -> HyperGrid {
-        let (mu, ln_w_mu) = match prior.shape {
-            PriorShape::Fixed { pi } => (vec![pi], vec![0.0]),
+        let t = match prior.shape {
+            PriorShape::Fixed { .. } => (0.0, 1.0),
             PriorShape::Beta { a, b } => {
                 let ln_dens = |t: f64| {
                     let p = pi_of(t);
-                    (a - 1.0) * p.ln() + (b - 1.0) * (1.0 - p).ln() - ln_beta(a, b) + ln_jacobian(t)
+                    (a - 1.0) * p.ln() + (b - 1.0) * (1.0 - p).ln() + ln_jacobian(t)
                 };
                 let n0 = 2000;
                 let coarse: Vec<f64> = (0..n0)
@@ -188,29 +204,83 @@ impl HyperGrid {
                     .iter()
                     .rposition(|&v| v > max - 40.0)
                     .unwrap_or(n0 - 1);
-                let lo = first.saturating_sub(1) as f64 / n0 as f64;
-                let hi = (last + 2).min(n0) as f64 / n0 as f64;
-                let h = (hi - lo) / MU_CELLS as f64;
-                let ts: Vec<f64> = (0..MU_CELLS).map(|i| lo + (i as f64 + 0.5) * h).collect();
-                let lw: Vec<f64> = ts.iter().map(|&t| ln_dens(t) + h.ln()).collect();
-                let z = ln_sum_exp(lw.iter().copied());
                 (
-                    ts.iter().map(|&t| pi_of(t)).collect(),
-                    lw.iter().map(|w| w - z).collect(),
+                    first.saturating_sub(1) as f64 / n0 as f64,
+                    (last + 2).min(n0) as f64 / n0 as f64,
                 )
             }
         };
+        HyperGrid::within(
+            prior,
+            t,
+            (KAPPA_MIN.ln(), KAPPA_MAX.ln()),
+            (COARSE_MU_CELLS, COARSE_KAPPA_CELLS),
+        )
+    }
+
+    /// A grid of `cells.0` μ cells uniform in t on `t` and `cells.1` κ cells uniform in ln κ on
+    /// `ln_kappa`, with the prior's masses.
+    pub fn within(
+        prior: &Prior,
+        t: (f64, f64),
+        ln_kappa: (f64, f64),
+        cells: (usize, usize),
+    ) -> HyperGrid {
+        let (mu, mu_edges, t_edges, ln_w_mu) = match prior.shape {
+            PriorShape::Fixed { pi } => (vec![pi], vec![pi, pi], vec![t.0, t.1], vec![0.0]),
+            PriorShape::Beta { a, b } => {
+                let g = GroupGrid::uniform_in_t(t.0, t.1, cells.0, |_| 0.0);
+                let h = (t.1 - t.0) / cells.0 as f64;
+                let t_edges = (0..=cells.0).map(|i| t.0 + i as f64 * h).collect();
+                let w = g.ln_prior_mass(a, b);
+                (g.pi, g.edges, t_edges, w)
+            }
+        };
         let (l0, l1) = (KAPPA_MIN.ln(), KAPPA_MAX.ln());
-        let kappa: Vec<f64> = (0..KAPPA_POINTS)
-            .map(|i| (l0 + (i as f64 + 0.5) * (l1 - l0) / KAPPA_POINTS as f64).exp())
+        let dk = (ln_kappa.1 - ln_kappa.0) / cells.1 as f64;
+        let ln_kappa_edges: Vec<f64> = (0..=cells.1).map(|i| ln_kappa.0 + i as f64 * dk).collect();
+        let kappa = (0..cells.1)
+            .map(|i| (ln_kappa.0 + (i as f64 + 0.5) * dk).exp())
             .collect();
-        let ln_w_kappa = vec![-(KAPPA_POINTS as f64).ln(); KAPPA_POINTS];
+        let ln_w_kappa = vec![(dk / (l1 - l0)).ln(); cells.1];
         HyperGrid {
             mu,
+            mu_edges,
+            t_edges,
             ln_w_mu,
             kappa,
+            ln_kappa_edges,
             ln_w_kappa,
         }
+    }
+
+    /// A finer grid over where the posterior mass `w` ([μ][κ]) on this grid is within e⁻³⁰ of
+    /// its largest cell (one cell of margin each side), in each of μ and κ.
+    fn refined(&self, prior: &Prior, w: &[Vec<f64>]) -> HyperGrid {
+        let m_mu: Vec<f64> = w.iter().map(|r| r.iter().sum()).collect();
+        let m_kappa: Vec<f64> = (0..self.kappa.len())
+            .map(|j| w.iter().map(|r| r[j]).sum())
+            .collect();
+        let span = |m: &[f64], edges: &[f64]| {
+            let max = m.iter().copied().fold(0.0, f64::max);
+            let keep = |v: &f64| *v > max * (-REGION_CUTOFF).exp();
+            let first = m.iter().position(keep).unwrap_or(0);
+            let last = m.iter().rposition(keep).unwrap_or(m.len() - 1);
+            (
+                edges[first.saturating_sub(1)],
+                edges[(last + 2).min(m.len())],
+            )
+        };
+        let t = match prior.shape {
+            PriorShape::Fixed { .. } => (self.t_edges[0], self.t_edges[1]),
+            PriorShape::Beta { .. } => span(&m_mu, &self.t_edges),
+        };
+        HyperGrid::within(
+            prior,
+            t,
+            span(&m_kappa, &self.ln_kappa_edges),
+            (MU_CELLS, KAPPA_CELLS),
+        )
     }
 }
 
@@ -260,24 +330,31 @@ pub struct GroupData {
     pub membership: Vec<usize>,
     /// Each group's likelihood grid.
     pub grids: Vec<GroupGrid>,
-    /// Every individual's data term, for the shared-π alternative.
-    pub all: MixtureSum,
+    /// Every individual's ln LR (0 without evidence), for the shared-π alternative.
+    pub ln_lrs: Vec<f64>,
+}
+
+/// The distinct group names in order of first appearance, and each individual's index into
+/// them.
+pub fn group_index(groups: &[String]) -> (Vec<String>, Vec<usize>) {
+    let mut names: Vec<String> = Vec::new();
+    let membership = groups
+        .iter()
+        .map(|g| match names.iter().position(|n| n == g) {
+            Some(k) => k,
+            None => {
+                names.push(g.clone());
+                names.len() - 1
+            }
+        })
+        .collect();
+    (names, membership)
 }
 
 impl GroupData {
     /// Prepare the groups. `ln_lrs[i]` is 0 for individuals without evidence.
     pub fn new(ln_lrs: &[f64], groups: &[String]) -> GroupData {
-        let mut names: Vec<String> = Vec::new();
-        let membership: Vec<usize> = groups
-            .iter()
-            .map(|g| match names.iter().position(|n| n == g) {
-                Some(k) => k,
-                None => {
-                    names.push(g.clone());
-                    names.len() - 1
-                }
-            })
-            .collect();
+        let (names, membership) = group_index(groups);
         let grids: Vec<GroupGrid> = (0..names.len())
             .map(|k| {
                 let l: Vec<f64> = ln_lrs
@@ -293,7 +370,7 @@ impl GroupData {
             names,
             membership,
             grids,
-            all: MixtureSum::new(ln_lrs),
+            ln_lrs: ln_lrs.to_vec(),
         }
     }
 }
@@ -307,11 +384,26 @@ impl Hierarchy {
 
     /// Fit the hierarchy on groups prepared once (the groups' likelihood grids do not depend
     /// on the prior, so a sensitivity analysis prepares them once for all its priors).
+    ///
+    /// Two passes: a coarse hyper-grid over the whole prior locates the posterior of (μ, κ),
+    /// then a finer grid covers only where it is within e⁻³⁰ of its largest cell, so that a
+    /// posterior narrow in μ (a large assemblage) or pushed to one end of κ (a prior far from
+    /// the data) is resolved as finely as a broad one.
     pub fn fit_on(data: &GroupData, prior: &Prior) -> Hierarchy {
+        let coarse = Hierarchy::fit_grid(data, HyperGrid::new(prior));
+        let fine = coarse.hyper.refined(prior, &coarse.w);
+        let mut h = Hierarchy::fit_grid(data, fine);
+        // Shared π: every group's π equals μ, the single-population evidence (computed on its
+        // own adaptive grid, DESIGN §2).
+        h.ln_evidence_shared = PiPosterior::compute(&data.ln_lrs, prior).ln_evidence;
+        h
+    }
+
+    /// The hierarchy on one hyper-grid (its `ln_evidence_shared` is left for the caller).
+    fn fit_grid(data: &GroupData, hyper: HyperGrid) -> Hierarchy {
         let names = data.names.clone();
         let membership = data.membership.clone();
         let grids = data.grids.clone();
-        let hyper = HyperGrid::new(prior);
         let (nm, nk) = (hyper.mu.len(), hyper.kappa.len());
         // One pass over the hyper-grid: each group's cell posteriors and marginal for (μ, κ),
         // the joint ln p(μ, κ, D), and the running, rescaled mixture of group posteriors.
@@ -365,15 +457,6 @@ impl Hierarchy {
                 *m /= t;
             }
         }
-        // Shared π: every group's π equals μ.
-        let all = &data.all;
-        let ln_evidence_shared = ln_sum_exp(
-            hyper
-                .mu
-                .iter()
-                .zip(&hyper.ln_w_mu)
-                .map(|(&mu, &lw)| lw + all.ln_sum(mu)),
-        );
         Hierarchy {
             groups: names,
             membership,
@@ -382,7 +465,7 @@ impl Hierarchy {
             w,
             group_mass,
             ln_evidence,
-            ln_evidence_shared,
+            ln_evidence_shared: f64::NAN,
         }
     }
 
@@ -396,25 +479,30 @@ impl Hierarchy {
         summarise(&self.grids[g].pi, &self.grids[g].edges, &self.group_mass[g])
     }
 
-    /// Posterior mean and 95% interval of μ.
-    pub fn mu_summary(&self) -> (f64, f64, f64) {
+    /// Posterior of μ, the population's proportion female: mean, median, intervals (linear
+    /// within the hyper-grid's cells, as for π).
+    pub fn mu(&self) -> PiSummary {
         let m: Vec<f64> = self.w.iter().map(|r| r.iter().sum()).collect();
-        weighted_summary(&self.hyper.mu, &m)
+        summarise(&self.hyper.mu, &self.hyper.mu_edges, &m)
     }
 
-    /// Posterior median and 95% interval of κ.
+    /// Posterior median and 95% interval of κ (the CDF linear in ln κ within each cell).
     pub fn kappa_summary(&self) -> (f64, f64, f64) {
         let nk = self.hyper.kappa.len();
         let m: Vec<f64> = (0..nk).map(|j| self.w.iter().map(|r| r[j]).sum()).collect();
+        let t: f64 = m.iter().sum();
+        let edges = &self.hyper.ln_kappa_edges;
         let q = |p: f64| {
             let mut acc = 0.0;
             for (k, &x) in m.iter().enumerate() {
-                acc += x;
-                if acc >= p {
-                    return self.hyper.kappa[k];
+                let x = x / t;
+                if acc + x >= p {
+                    let frac = if x > 0.0 { (p - acc) / x } else { 0.5 };
+                    return (edges[k] + frac * (edges[k + 1] - edges[k])).exp();
                 }
+                acc += x;
             }
-            self.hyper.kappa[nk - 1]
+            edges[nk].exp()
         };
         (q(0.5), q(0.025), q(0.975))
     }
@@ -423,22 +511,6 @@ impl Hierarchy {
     pub fn ln_bf_groups_differ(&self) -> f64 {
         self.ln_evidence - self.ln_evidence_shared
     }
-}
-
-fn weighted_summary(x: &[f64], m: &[f64]) -> (f64, f64, f64) {
-    let t: f64 = m.iter().sum();
-    let mean = x.iter().zip(m).map(|(a, b)| a * b).sum::<f64>() / t;
-    let q = |p: f64| {
-        let mut acc = 0.0;
-        for (k, &w) in m.iter().enumerate() {
-            acc += w / t;
-            if acc >= p {
-                return x[k];
-            }
-        }
-        x[x.len() - 1]
-    };
-    (mean, q(0.025), q(0.975))
 }
 
 /// Summary of a posterior given by cell masses on cells with the given edges.

@@ -18,12 +18,8 @@ use serde::Serialize;
 /// Hyper-parameters of the group hierarchy (under one prior).
 #[derive(Debug, Clone, Copy, PartialEq, Serialize)]
 pub struct HyperSummary {
-    /// Posterior mean of μ (the population's proportion female).
-    pub mu_mean: f64,
-    /// 2.5% quantile of μ.
-    pub mu_lo: f64,
-    /// 97.5% quantile of μ.
-    pub mu_hi: f64,
+    /// Posterior of μ, the proportion female of the population behind the groups.
+    pub mu: PiSummary,
     /// Posterior median of κ (how alike the groups are).
     pub kappa_median: f64,
     /// 2.5% quantile of κ.
@@ -53,11 +49,14 @@ pub struct PriorResult {
     /// Expected number of females among all individuals: Σ P(F) over the estimable, plus
     /// E[π | D] (of the individual's group, with groups) for each one without usable evidence.
     pub expected_females: f64,
+    /// The same under the model of one population (equal to `expected_females` without
+    /// groups): Σ P(F | one π) over the estimable plus E[π | D] for each of the others.
+    pub expected_females_one_population: f64,
     /// ln Bayes factor: a community of one sex against a mixed one.
     pub ln_bf_one_sex: f64,
-    /// Per group, with groups.
+    /// Per group, with groups (under a fixed prior every group's π is the fixed value).
     pub groups: Vec<hierarchy::GroupSummary>,
-    /// The hierarchy's hyper-parameters, with groups.
+    /// The hierarchy's hyper-parameters, with groups and a prior that is not fixed.
     pub hyper: Option<HyperSummary>,
 }
 
@@ -106,33 +105,35 @@ pub fn under_prior_on(
         .collect();
     let post = PiPosterior::compute(&informative, prior);
     let pi = post.summary();
-    // Distinct groups: known from the prepared groups, counted here only without them.
-    let distinct = match prepared {
-        Some(d) => Some(d.names.len()),
-        None => groups.map(|g| {
-            let mut v: Vec<&String> = g.iter().collect();
-            v.sort();
-            v.dedup();
-            v.len()
-        }),
-    };
-    let hier = match (groups, distinct) {
-        (Some(g), Some(k)) if k >= 2 && g.len() == evidence.len() => Some(match prepared {
+    // Groups (two or more distinct): names and membership, from the prepared groups if any.
+    let layout: Option<(Vec<String>, Vec<usize>)> = match (prepared, groups) {
+        (Some(d), _) => Some((d.names.clone(), d.membership.clone())),
+        (None, Some(g)) => Some(hierarchy::group_index(g)),
+        _ => None,
+    }
+    .filter(|(names, m)| names.len() >= 2 && m.len() == evidence.len());
+    // A fixed prior fixes the proportion of every group (the groups are not let to differ
+    // around a fixed μ), so a fixed-π row of the sensitivity analysis asks the same question
+    // with groups as without: what if the proportion female were exactly this, everywhere?
+    let hier = match (&layout, prior.shape) {
+        (Some(_), crate::prior::PriorShape::Beta { .. }) => Some(match prepared {
             Some(d) => hierarchy::Hierarchy::fit_on(d, prior),
-            None => hierarchy::Hierarchy::fit(&ln_lrs, g, prior),
+            None => hierarchy::Hierarchy::fit(&ln_lrs, groups.unwrap_or_default(), prior),
         }),
         _ => None,
     };
-    let p_female: Vec<Option<f64>> = evidence
+    let p_one: Vec<Option<f64>> = evidence
         .iter()
-        .enumerate()
-        .map(|(i, e)| {
-            e.estimable.then(|| match &hier {
-                Some(h) => h.p_female(h.membership[i], e.ln_lr),
-                None => post.p_female(e.ln_lr),
-            })
-        })
+        .map(|e| e.estimable.then(|| post.p_female(e.ln_lr)))
         .collect();
+    let p_female: Vec<Option<f64>> = match &hier {
+        None => p_one.clone(),
+        Some(h) => evidence
+            .iter()
+            .enumerate()
+            .map(|(i, e)| e.estimable.then(|| h.p_female(h.membership[i], e.ln_lr)))
+            .collect(),
+    };
     let categories = p_female
         .iter()
         .map(|p| {
@@ -140,12 +141,13 @@ pub fn under_prior_on(
                 .unwrap_or(Category::NotEstimable)
         })
         .collect();
-    let group_pis: Vec<PiSummary> = hier
-        .as_ref()
-        .map(|h| (0..h.groups.len()).map(|g| h.group_pi(g)).collect())
-        .unwrap_or_default();
-    let fill = |i: usize| match &hier {
-        Some(h) => group_pis[h.membership[i]].mean,
+    let group_pis: Vec<PiSummary> = match (&layout, &hier) {
+        (_, Some(h)) => (0..h.groups.len()).map(|g| h.group_pi(g)).collect(),
+        (Some((names, _)), None) => vec![pi; names.len()],
+        _ => Vec::new(),
+    };
+    let fill = |i: usize| match &layout {
+        Some((_, m)) => group_pis[m[i]].mean,
         None => pi.mean,
     };
     let expected_females = p_female
@@ -153,42 +155,37 @@ pub fn under_prior_on(
         .enumerate()
         .map(|(i, p)| p.unwrap_or_else(|| fill(i)))
         .sum();
-    let (group_summaries, hyper) = match &hier {
-        None => (Vec::new(), None),
-        Some(h) => {
-            let gs = (0..h.groups.len())
-                .map(|g| {
-                    let members: Vec<usize> = (0..evidence.len())
-                        .filter(|&i| h.membership[i] == g)
-                        .collect();
-                    hierarchy::GroupSummary {
-                        group: h.groups[g].clone(),
-                        n: members.len(),
-                        n_estimable: members.iter().filter(|&&i| evidence[i].estimable).count(),
-                        pi: group_pis[g],
-                        expected_females: members
-                            .iter()
-                            .map(|&i| p_female[i].unwrap_or(group_pis[g].mean))
-                            .sum(),
-                    }
-                })
-                .collect();
-            let (mu_mean, mu_lo, mu_hi) = h.mu_summary();
-            let (kappa_median, kappa_lo, kappa_hi) = h.kappa_summary();
-            (
-                gs,
-                Some(HyperSummary {
-                    mu_mean,
-                    mu_lo,
-                    mu_hi,
-                    kappa_median,
-                    kappa_lo,
-                    kappa_hi,
-                    ln_bf_groups_differ: h.ln_bf_groups_differ(),
-                }),
-            )
-        }
+    let expected_females_one_population = p_one.iter().map(|p| p.unwrap_or(pi.mean)).sum();
+    let group_summaries = match &layout {
+        None => Vec::new(),
+        Some((names, membership)) => (0..names.len())
+            .map(|g| {
+                let members: Vec<usize> = (0..evidence.len())
+                    .filter(|&i| membership[i] == g)
+                    .collect();
+                hierarchy::GroupSummary {
+                    group: names[g].clone(),
+                    n: members.len(),
+                    n_estimable: members.iter().filter(|&&i| evidence[i].estimable).count(),
+                    pi: group_pis[g],
+                    expected_females: members
+                        .iter()
+                        .map(|&i| p_female[i].unwrap_or(group_pis[g].mean))
+                        .sum(),
+                }
+            })
+            .collect(),
     };
+    let hyper = hier.as_ref().map(|h| {
+        let (kappa_median, kappa_lo, kappa_hi) = h.kappa_summary();
+        HyperSummary {
+            mu: h.mu(),
+            kappa_median,
+            kappa_lo,
+            kappa_hi,
+            ln_bf_groups_differ: h.ln_bf_groups_differ(),
+        }
+    });
     let result = PriorResult {
         prior: prior.clone(),
         pi,
@@ -197,6 +194,7 @@ pub fn under_prior_on(
         n_individuals: evidence.len(),
         n_estimable: informative.len(),
         expected_females,
+        expected_females_one_population,
         ln_bf_one_sex: post.ln_bf_one_sex(&informative),
         groups: group_summaries,
         hyper,

@@ -7,12 +7,14 @@
 //! did not use, unchanged. Individuals without usable evidence have `status = not_estimable`,
 //! `category = not_estimable` and empty numbers.
 //!
-//! `assemblage.csv`: one row per prior (the chosen prior first, then the sensitivity set):
-//! `prior, pi_mean, pi_median, pi_lo, pi_hi, n_individuals, n_estimable, expected_females`, then
-//! `pi_hdi_lo, pi_hdi_hi, p_pi_below_half, sex_ratio_median, sex_ratio_lo, sex_ratio_hi,
-//! log10_bf_one_sex`, then — on the chosen prior's row only, from the joint draws —
-//! `n_female_mean, n_female_lo, n_female_hi, n_male_mean, n_male_lo, n_male_hi`, then — with
-//! groups — `mu_mean, mu_lo, mu_hi, kappa_median, kappa_lo, kappa_hi, log10_bf_groups_differ`.
+//! `assemblage.csv`: one row per prior and model (the chosen prior first, then the sensitivity
+//! set): `prior, model, pi_mean, pi_median, pi_lo, pi_hi, n_individuals, n_estimable,
+//! expected_females, pi_hdi_lo, pi_hdi_hi, p_pi_below_half, sex_ratio_median, sex_ratio_lo,
+//! sex_ratio_hi, log10_bf_one_sex`, then — on the chosen prior's row of the model the joint
+//! draws come from — `n_female_mean, n_female_lo, n_female_hi, n_male_mean, n_male_lo,
+//! n_male_hi`, then — on `groups` rows — `kappa_median, kappa_lo, kappa_hi,
+//! log10_bf_groups_differ`. `model` is `one population` or `groups` (the hierarchy, with
+//! groups and a prior that is not fixed; its `pi_*` columns describe μ).
 //!
 //! `groups.csv` (with groups): `group, n, pi_mean, pi_lo, pi_hi, expected_females`, then
 //! `n_estimable, pi_median`.
@@ -40,6 +42,15 @@ use super::number::probability as prob;
 
 fn f6(x: f64) -> String {
     super::number::cell(x, 6)
+}
+
+/// Three significant digits (κ, whose quantiles are good to about 0.1%).
+fn significant3(x: f64) -> String {
+    if !x.is_finite() || x <= 0.0 {
+        return super::number::cell(x, 3);
+    }
+    let decimals = (2 - x.log10().floor() as i32).max(0) as usize;
+    format!("{x:.decimals$}")
 }
 
 fn f4(x: f64) -> String {
@@ -168,6 +179,13 @@ fn individuals_csv(r: &AnalysisResult) -> Result<Vec<u8>, RenderError> {
         .filter_map(|w| w.row)
         .collect();
     let mut rows = vec![head];
+    // Digits the values support: P(female) under the group hierarchy is good to about 5e-5
+    // (tests/reference_hierarchy.rs), elsewhere to about 1e-9.
+    let digits = |hier: bool| if hier { 4 } else { 6 };
+    let main_digits = digits(main.hyper.is_some());
+    let any_digits = digits(analysis.results().any(|r| r.hyper.is_some()));
+    let prob = |p: f64| super::number::probability_to(p, main_digits);
+    let prob_any = |p: f64| super::number::probability_to(p, any_digits);
     for (i, (ind, ev)) in a.individuals.iter().zip(evidence).enumerate() {
         let s = &analysis.individual_sensitivity[i];
         let est = ev.estimable;
@@ -190,12 +208,12 @@ fn individuals_csv(r: &AnalysisResult) -> Result<Vec<u8>, RenderError> {
             main.p_female[i].map(prob).unwrap_or_default(),
             main.p_female[i].map(|p| prob(1.0 - p)).unwrap_or_default(),
             main.categories[i].as_str().to_string(),
-            s.p_female_min.map(prob).unwrap_or_default(),
-            s.p_female_max.map(prob).unwrap_or_default(),
+            s.p_female_min.map(prob_any).unwrap_or_default(),
+            s.p_female_max.map(prob_any).unwrap_or_default(),
             s.prior_sensitive.to_string(),
             // The evidence alone (π fixed at ½): beside the assemblage-informed value, so
             // that a reader sees how much of a call comes from the cemetery's sex ratio.
-            equal.map(prob).unwrap_or_default(),
+            equal.map(super::number::probability).unwrap_or_default(),
             match equal {
                 Some(p) => analysis.thresholds.categorise(p).as_str().to_string(),
                 None => main.categories[i].as_str().to_string(),
@@ -226,12 +244,17 @@ fn individuals_csv(r: &AnalysisResult) -> Result<Vec<u8>, RenderError> {
     csv_bytes(rows)
 }
 
-/// `assemblage.csv`: one row per prior, the chosen prior first.
+/// `assemblage.csv`: one row per prior and model, the chosen prior first. Every row
+/// describes one model, named in `model`: `one population` (one π for the whole assemblage)
+/// and, with groups under a prior that is not fixed, `groups` (the hierarchy: its `pi_*`
+/// columns are μ, the population's proportion behind the groups). The counts from the joint
+/// draws go on the chosen prior's row of the model the draws come from.
 fn assemblage_csv(r: &AnalysisResult) -> Result<Vec<u8>, RenderError> {
     let (a, analysis, draws) = (&r.assemblage, &r.results, &r.draws);
     let all: Vec<&PriorResult> = analysis.results().collect();
     let mut rows = vec![header(&[
         "prior",
+        "model",
         "pi_mean",
         "pi_median",
         "pi_lo",
@@ -252,9 +275,6 @@ fn assemblage_csv(r: &AnalysisResult) -> Result<Vec<u8>, RenderError> {
         "n_male_mean",
         "n_male_lo",
         "n_male_hi",
-        "mu_mean",
-        "mu_lo",
-        "mu_hi",
         "kappa_median",
         "kappa_lo",
         "kappa_hi",
@@ -265,6 +285,14 @@ fn assemblage_csv(r: &AnalysisResult) -> Result<Vec<u8>, RenderError> {
     let (fm, flo, fhi) = count_summary(&n_female);
     let n_male: Vec<usize> = n_female.iter().map(|f| n - f).collect();
     let (mm, mlo, mhi) = count_summary(&n_male);
+    let counts = [
+        f4(fm),
+        flo.to_string(),
+        fhi.to_string(),
+        f4(mm),
+        mlo.to_string(),
+        mhi.to_string(),
+    ];
     // Males per 100 females: a decreasing function of π, so quantiles map across.
     let ratio = |pi: f64| {
         if pi > 0.0 {
@@ -273,49 +301,58 @@ fn assemblage_csv(r: &AnalysisResult) -> Result<Vec<u8>, RenderError> {
             "inf".into()
         }
     };
+    // Digits: the one-population posterior is good to about 1e-9, the hierarchy's μ to about
+    // 2e-4 (tests/reference_hierarchy.rs), so its row has four decimals.
+    let proportion =
+        |p: &crate::assemblage::PiSummary, r: &PriorResult, expected: f64, d: usize| {
+            vec![
+                super::number::cell(p.mean, d),
+                super::number::cell(p.median, d),
+                super::number::cell(p.lo, d),
+                super::number::cell(p.hi, d),
+                r.n_individuals.to_string(),
+                r.n_estimable.to_string(),
+                f4(expected),
+                super::number::cell(p.hdi_lo, d),
+                super::number::cell(p.hdi_hi, d),
+                super::number::cell(p.p_below_half, d),
+                ratio(p.median),
+                ratio(p.hi),
+                ratio(p.lo),
+            ]
+        };
+    let blank = |k: usize| std::iter::repeat_n(String::new(), k);
     for (k, r) in all.iter().enumerate() {
-        let mut row = vec![
-            r.prior.name.clone(),
-            f6(r.pi.mean),
-            f6(r.pi.median),
-            f6(r.pi.lo),
-            f6(r.pi.hi),
-            r.n_individuals.to_string(),
-            r.n_estimable.to_string(),
-            f4(r.expected_females),
-            f6(r.pi.hdi_lo),
-            f6(r.pi.hdi_hi),
-            f6(r.pi.p_below_half),
-            ratio(r.pi.median),
-            ratio(r.pi.hi),
-            ratio(r.pi.lo),
-            f4(r.ln_bf_one_sex / LN_10),
-        ];
-        if k == 0 && !n_female.is_empty() {
-            row.extend([
-                f4(fm),
-                flo.to_string(),
-                fhi.to_string(),
-                f4(mm),
-                mlo.to_string(),
-                mhi.to_string(),
-            ]);
+        // The draws come from the hierarchy when the chosen prior has one.
+        let draws_here = k == 0 && !n_female.is_empty();
+        let mut row = vec![r.prior.name.clone(), "one population".into()];
+        row.extend(proportion(&r.pi, r, r.expected_females_one_population, 6));
+        row.push(f4(r.ln_bf_one_sex / LN_10));
+        if draws_here && r.hyper.is_none() {
+            row.extend(counts.iter().cloned());
         } else {
-            row.extend(std::iter::repeat_n(String::new(), 6));
+            row.extend(blank(6));
         }
-        match &r.hyper {
-            Some(h) => row.extend([
-                f6(h.mu_mean),
-                f6(h.mu_lo),
-                f6(h.mu_hi),
-                format!("{:.2}", h.kappa_median),
-                format!("{:.2}", h.kappa_lo),
-                format!("{:.2}", h.kappa_hi),
-                f4(h.ln_bf_groups_differ / LN_10),
-            ]),
-            None => row.extend(std::iter::repeat_n(String::new(), 7)),
-        }
+        row.extend(blank(4));
         rows.push(row);
+        if let Some(h) = &r.hyper {
+            let mut row = vec![r.prior.name.clone(), "groups".into()];
+            row.extend(proportion(&h.mu, r, r.expected_females, 4));
+            row.push(String::new());
+            if draws_here {
+                row.extend(counts.iter().cloned());
+            } else {
+                row.extend(blank(6));
+            }
+            // κ's quantiles are good to about 0.1% (relative): three significant digits.
+            row.extend([
+                significant3(h.kappa_median),
+                significant3(h.kappa_lo),
+                significant3(h.kappa_hi),
+                f4(h.ln_bf_groups_differ / LN_10),
+            ]);
+            rows.push(row);
+        }
     }
     csv_bytes(rows)
 }
@@ -327,7 +364,9 @@ fn sensitivity_csv(r: &AnalysisResult) -> Result<Vec<u8>, RenderError> {
     text.row(["id", "prior", "p_female", "category"]);
     for (i, ind) in r.assemblage.individuals.iter().enumerate() {
         for x in &all {
-            let p = x.p_female[i].map(prob).unwrap_or_default();
+            let p = x.p_female[i]
+                .map(|p| super::number::probability_to(p, if x.hyper.is_some() { 4 } else { 6 }))
+                .unwrap_or_default();
             text.row([
                 ind.id.as_str(),
                 x.prior.name.as_str(),
@@ -390,12 +429,12 @@ fn groups_csv(r: &AnalysisResult) -> Result<Vec<u8>, RenderError> {
             rows.push(vec![
                 g.group.clone(),
                 g.n.to_string(),
-                f6(g.pi.mean),
-                f6(g.pi.lo),
-                f6(g.pi.hi),
+                f4(g.pi.mean),
+                f4(g.pi.lo),
+                f4(g.pi.hi),
                 f4(g.expected_females),
                 g.n_estimable.to_string(),
-                f6(g.pi.median),
+                f4(g.pi.median),
             ]);
         }
         csv_bytes(rows)
@@ -503,7 +542,7 @@ pub fn terminal_summary(r: &AnalysisResult) -> String {
         p.p_below_half,
         main.ln_bf_one_sex / LN_10
     );
-    if let Some(h) = &main.hyper {
+    if !main.groups.is_empty() {
         let _ = writeln!(s);
         let _ = writeln!(
             s,
@@ -516,14 +555,25 @@ pub fn terminal_summary(r: &AnalysisResult) -> String {
                 g.group, g.n, g.pi.mean, g.pi.lo, g.pi.hi, g.expected_females
             );
         }
-        let _ = writeln!(
-            s,
-            "Across groups {:.3} ({:.3} to {:.3}); groups differ against share one proportion: log10 Bayes factor {:.2}",
-            h.mu_mean,
-            h.mu_lo,
-            h.mu_hi,
-            h.ln_bf_groups_differ / LN_10
-        );
+        match &main.hyper {
+            Some(h) => {
+                let _ = writeln!(
+                    s,
+                    "Across groups {:.3} ({:.3} to {:.3}); groups differ against share one proportion: log10 Bayes factor {:.2}",
+                    h.mu.mean,
+                    h.mu.lo,
+                    h.mu.hi,
+                    h.ln_bf_groups_differ / LN_10
+                );
+            }
+            None => {
+                let _ = writeln!(
+                    s,
+                    "The prior fixes the proportion female of every group at {:.3}.",
+                    main.pi.mean
+                );
+            }
+        }
     }
     let _ = writeln!(s);
     let t = &analysis.thresholds;

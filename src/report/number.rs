@@ -15,10 +15,17 @@ pub fn cell(x: f64, decimals: usize) -> String {
 /// A probability for a CSV cell: six decimals, or two significant digits in scientific form
 /// below 1e-6 so that strong evidence does not print as a bare zero; empty when not finite.
 pub fn probability(x: f64) -> String {
-    if x > 0.0 && x < 1e-6 {
+    probability_to(x, 6)
+}
+
+/// A probability for a CSV cell with `decimals` places (for values computed less exactly:
+/// the group hierarchy's are good to about 5e-5, so they get 4), in two significant digits
+/// of scientific form below 10^−decimals; empty when not finite.
+pub fn probability_to(x: f64, decimals: usize) -> String {
+    if x > 0.0 && x < 10f64.powi(-(decimals as i32)) {
         format!("{x:.1e}")
     } else {
-        cell(x, 6)
+        cell(x, decimals)
     }
 }
 

@@ -433,6 +433,13 @@ pub fn methods_md(r: &AnalysisResult) -> String {
             main.groups.iter().map(|g| g.group.as_str()).collect::<Vec<_>>().join(", "),
             h.ln_bf_groups_differ / LN_10
         );
+    } else if !main.groups.is_empty() {
+        let _ =
+            write!(
+            s,
+            "The fixed prior fixed the proportion female of every group ({}) at the same value. ",
+            main.groups.iter().map(|g| g.group.as_str()).collect::<Vec<_>>().join(", "),
+        );
     }
     let t = analysis.thresholds;
     let _ = write!(
@@ -440,10 +447,24 @@ pub fn methods_md(r: &AnalysisResult) -> String {
         "Individuals were called female when P(female) ≥ {}, probable female from {} to {}, indeterminate between {} and {}, probable male from {} to {} and male at or below {} (the 0.95 rule after Bruzek et al., 2017). Likelihood ratios are described with the verbal scale of the ENFSI guideline (ENFSI, 2015). ",
         t.female, t.probable_female, t.female, t.probable_male, t.probable_female, t.male, t.probable_male, t.male
     );
+    let further: Vec<&crate::assemblage::PriorResult> = analysis.results().skip(1).collect();
+    let fixed: Vec<f64> = further
+        .iter()
+        .filter_map(|r| match r.prior.shape {
+            crate::prior::PriorShape::Fixed { pi } => Some(pi),
+            _ => None,
+        })
+        .collect();
     let _ = write!(
         s,
-        "The sensitivity of every result to the prior was assessed by repeating the analysis under {} further priors, including fixed proportions from 0.1 to 0.9. ",
-        analysis.sensitivity.len()
+        "The sensitivity of every result to the prior was assessed by repeating the analysis under {} further priors{}{}. ",
+        further.len(),
+        match (fixed.iter().copied().reduce(f64::min), fixed.iter().copied().reduce(f64::max)) {
+            (Some(lo), Some(hi)) if fixed.len() > 1 => format!(", {} of them fixed proportions from {lo} to {hi}", fixed.len()),
+            (Some(v), _) => format!(", one of them the fixed proportion {v}"),
+            _ => String::new(),
+        },
+        if main.groups.is_empty() || fixed.is_empty() { "" } else { " (a fixed proportion applied to every group alike)" }
     );
     if by_sex.age.is_some() || !by_sex.prevalence.is_empty() {
         let _ = write!(
@@ -675,7 +696,7 @@ fn groups_section(r: &AnalysisResult, m: &mut String, t: &mut String) {
         }
         let _ = writeln!(t, "\\bottomrule\n\\end{{tabular}}\n\\end{{table}}\n");
         if let Some(h) = &main.hyper {
-            let _ = writeln!(m, "\nAcross groups {:.3} ({:.3}–{:.3}); groups differ against share one proportion: log10 Bayes factor {:.2}.\n", h.mu_mean, h.mu_lo, h.mu_hi, h.ln_bf_groups_differ / LN_10);
+            let _ = writeln!(m, "\nAcross groups {:.3} ({:.3}–{:.3}); groups differ against share one proportion: log10 Bayes factor {:.2}.\n", h.mu.mean, h.mu.lo, h.mu.hi, h.ln_bf_groups_differ / LN_10);
         }
     }
 }

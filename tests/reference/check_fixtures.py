@@ -22,6 +22,9 @@ guarantees, not from what one machine happened to print:
 - prevalence_by_sex_expected.csv, absolute 1e-12: a 16^3-point Gauss-Legendre sum (exact for
   the polynomial integrand) of ~4 000 terms of size <= 1 in an order set by numpy; rounding is
   ~1e-14 (checked: a 24-point rule agrees to 6e-16).
+- hierarchy_expected.csv, relative 1e-14: pure mpmath at 24 significant digits (no BLAS, no
+  SIMD; arbitrary-precision arithmetic rounds the same on every processor), written to 17
+  digits; 1e-14 allows only for the last printed digit.
 - agreement_expected.csv, absolute 1e-12: kappa from integer confusion matrices of 5 grades
   and ANOVA sums over ~100 pairs; rounding is ~1e-15.
 - ordered_probit_expected.csv: thresholds and shift, absolute 1e-7: statsmodels' fit stops
@@ -68,6 +71,7 @@ SCRIPTS = {
     "prevalence_by_sex.py": ("prevalence_by_sex_expected.csv", "expected", lambda row: absolute(1e-12), ()),
     "agreement.py": ("agreement_expected.csv", "expected", lambda row: absolute(1e-12), ()),
     "ordered_probit.py": ("ordered_probit_expected.csv", "expected", ordered_probit, ()),
+    "hierarchy.py": ("hierarchy_expected.csv", "expected", lambda row: relative(1e-14), ()),
 }
 
 # Numeric inputs written by a seeded generator through BLAS may differ in the last bits.

@@ -63,3 +63,40 @@ fn sensitivity_flags_category_changes() {
     assert_eq!(a.individual_sensitivity[2].p_female_min, None);
     assert_eq!(a.sensitivity.len(), 15);
 }
+
+#[test]
+fn a_fixed_prior_fixes_every_group_and_is_as_strict_as_without_groups() {
+    // Two groups of very different make-up; under fixed:0.3 each individual's P(female) must
+    // be the one-population value at π = 0.3 (not the hierarchy's, which would let the
+    // groups move away from 0.3), and there is no hierarchy to summarise.
+    let l = [4.0, 3.0, 2.5, -0.3, 0.2, -4.0, -3.5, -2.0, 0.4, -0.1];
+    let evidence: Vec<_> = l.iter().map(|&x| ev(Some(x))).collect();
+    let groups: Vec<String> = (0..l.len())
+        .map(|i| {
+            if i < 5 {
+                "a".to_string()
+            } else {
+                "b".to_string()
+            }
+        })
+        .collect();
+    let fixed = crate::prior::Prior::fixed(0.3).unwrap();
+    let t = Thresholds::default();
+    let with = under_prior(&evidence, Some(&groups), &fixed, &t).0;
+    let without = under_prior(&evidence, None, &fixed, &t).0;
+    assert_eq!(with.p_female, without.p_female);
+    assert!(with.hyper.is_none());
+    assert_eq!(with.groups.len(), 2);
+    assert!(with
+        .groups
+        .iter()
+        .all(|g| g.pi.mean == 0.3 && g.pi.lo == 0.3));
+    // Under the flat prior the hierarchy is fitted, and the one-population expected count
+    // is kept beside the hierarchy's.
+    let flat = &shipped_priors().unwrap()[0];
+    let h = under_prior(&evidence, Some(&groups), flat, &t).0;
+    let one = under_prior(&evidence, None, flat, &t).0;
+    assert!(h.hyper.is_some());
+    assert_eq!(h.expected_females_one_population, one.expected_females);
+    assert_ne!(h.p_female, one.p_female);
+}
