@@ -47,6 +47,12 @@ pub struct Args {
     /// Seed of the folds and of the randomised integration (same seed, same bytes).
     #[arg(long, default_value_t = 1)]
     pub seed: u64,
+    /// Classify every held-out individual as a fragmentary skeleton would be found: the same
+    /// `key=rate,…` preservation as `simulate --missing` and `plan --missing` (e.g.
+    /// `cranium=0.35,pelvis=0.5,trait=0.15`), drawn per individual from the seed. DNA read
+    /// counts are kept with probability `dna` (default 0: give `dna=1` to keep them).
+    #[arg(long, value_name = "SPEC")]
+    pub mask: Option<String>,
     /// Folder for the report (predictions, scores, reliability, calibration.svg, report.md).
     #[arg(long, value_name = "DIR")]
     pub out: Option<PathBuf>,
@@ -97,6 +103,12 @@ pub fn run(args: Args) -> Result<i32, Error> {
         seed: args.seed,
         prior_female: args.prior_female,
         thresholds,
+        missing: args
+            .mask
+            .as_deref()
+            .map(crate::sim::MissingSpec::parse)
+            .transpose()
+            .map_err(|m| super::settings_error("--mask", m))?,
     };
     let (subject, name) = match (&spec, &model) {
         (Some(s), _) => (
@@ -132,12 +144,27 @@ pub fn run(args: Args) -> Result<i32, Error> {
     print!("{}", headline(&v));
     println!("By block (each alone):");
     for (id, s) in &v.by_block {
+        if s.n == 0 {
+            println!("  {id:<14} n     0  (not recorded in this reference)");
+            continue;
+        }
         println!(
             "  {:<14} n {:>5}  correct {:>5.1}%  indeterminate {:>5.1}%",
             id,
             s.n,
             100.0 * s.accuracy,
             100.0 * s.share_indeterminate
+        );
+    }
+    println!("By age at death:");
+    for (class, s) in &v.by_age {
+        println!(
+            "  {:<16} n {:>5}  correct {:>5.1}% ({:.1}% to {:.1}%)",
+            class,
+            s.n,
+            100.0 * s.accuracy,
+            100.0 * s.accuracy_lo,
+            100.0 * s.accuracy_hi
         );
     }
     if let Some(w) = unknown {

@@ -51,6 +51,9 @@ pub fn validation_files(
     let mut n = vec![score_header("traits_used")];
     n.extend(v.by_traits.iter().map(|(id, sc)| score_row(id, sc)));
     files.push("scores_by_traits.csv", csv_bytes(n)?);
+    let mut g = vec![score_header("age_class")];
+    g.extend(v.by_age.iter().map(|(id, sc)| score_row(id, sc)));
+    files.push("scores_by_age.csv", csv_bytes(g)?);
     let mut r = vec![header(&[
         "p_female_from",
         "p_female_to",
@@ -217,6 +220,8 @@ fn report_md(v: &Validation, reference: &str, sha: &str, subject: &str, command:
     table(&mut m, "block", &v.by_block);
     let _ = writeln!(m, "\n## By number of traits that entered\n");
     table(&mut m, "traits", &v.by_traits);
+    let _ = writeln!(m, "\n## By age at death (adult classes after Buikstra & Ubelaker 1994; the midpoint of the recorded interval)\n");
+    table(&mut m, "age", &v.by_age);
     let _ = writeln!(m, "\n## What each call is worth\n");
     let _ = writeln!(m, "Of the individuals given each category, the share documented as female (95% Wilson interval):\n");
     let _ = writeln!(
@@ -252,7 +257,7 @@ fn report_md(v: &Validation, reference: &str, sha: &str, subject: &str, command:
     }
     let _ = writeln!(m, "\n![Calibration](calibration.svg)\n");
     let _ = writeln!(m, "## How the numbers were made\n");
-    let _ = writeln!(m, "Each individual was classified by a model that did not see it (except with a fixed model file, which is an external check of that file on this collection). P(female) combines the likelihood ratio with a prior probability of female of {}. Accuracy counts P(female) > 0.5 as female and < 0.5 as male. The Brier score (Brier 1950) is the mean squared difference between P(female) and the documented sex (0 is perfect, 0.25 is a coin); log loss is the mean of −ln P(documented sex). Individuals between the probable-male and probable-female thresholds are reported as indeterminate. Intervals of shares are Wilson score intervals (Wilson 1927). Files: predictions.csv, scores.csv, scores_by_block.csv, scores_by_traits.csv, scores_by_category.csv, reliability.csv, calibration.svg.", v.settings.prior_female);
+    let _ = writeln!(m, "Each individual was classified by a model that did not see it (except with a fixed model file, which is an external check of that file on this collection). P(female) combines the likelihood ratio with a prior probability of female of {}. Accuracy counts P(female) > 0.5 as female and < 0.5 as male. The Brier score (Brier 1950) is the mean squared difference between P(female) and the documented sex (0 is perfect, 0.25 is a coin); log loss is the mean of −ln P(documented sex). Individuals between the probable-male and probable-female thresholds are reported as indeterminate. Intervals of shares are Wilson score intervals (Wilson 1927). Files: predictions.csv, scores.csv, scores_by_block.csv, scores_by_traits.csv, scores_by_age.csv, scores_by_category.csv, reliability.csv, calibration.svg.", v.settings.prior_female);
     if !v.no_evidence.is_empty() {
         let _ = writeln!(
             m,

@@ -124,7 +124,7 @@ fn within_plausible_range(
 /// Preservation as `missing` says: whether the individual is a subadult (no skeletal
 /// evidence), whether DNA was recovered, which regions are lost, which traits are missing
 /// or recorded as a range of two grades. Returns whether the individual is a subadult.
-fn preserve(
+pub(crate) fn preserve(
     cat: &crate::catalogue::Catalogue,
     missing: &MissingSpec,
     obs: &mut [Option<Observation>],

@@ -6,6 +6,7 @@ pub mod calibration;
 pub mod plan;
 pub mod spec;
 
+pub(crate) use assemblage::preserve;
 pub use assemblage::{simulate, SimError, Simulated};
 pub use spec::{parse_groups, GroupSpec, MissingSpec};
 

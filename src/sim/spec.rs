@@ -116,6 +116,23 @@ impl MissingSpec {
         Ok(m)
     }
 
+    /// The specification written back in its own `key=rate,…` form (every key, in a fixed
+    /// order), for reports.
+    pub fn describe(&self) -> String {
+        let mut items: Vec<String> = self
+            .region
+            .iter()
+            .map(|(r, v)| format!("{}={v}", r.as_str()))
+            .collect();
+        items.extend([
+            format!("trait={}", self.trait_rate),
+            format!("range={}", self.range_rate),
+            format!("subadult={}", self.subadult_rate),
+            format!("dna={}", self.dna_rate),
+        ]);
+        items.join(",")
+    }
+
     /// A typical fragmentary cemetery (common practice, not a measured rate): regions lost at
     /// 30–50%, single traits at 15%, ranges at 5%, 8% subadults, 10% with DNA.
     pub fn fragmentary() -> MissingSpec {

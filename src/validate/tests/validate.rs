@@ -49,3 +49,66 @@ fn folds_are_stratified_and_seeded() {
         (0..53).collect::<Vec<_>>()
     );
 }
+
+#[test]
+fn a_preservation_mask_removes_evidence_reproducibly_and_ages_are_classed() {
+    // 200 complete simulated skeletons, checked against the model that made them.
+    let model = Model::default_model().unwrap();
+    let groups = [crate::sim::GroupSpec {
+        name: "all".into(),
+        n: 200,
+        pi: 0.5,
+    }];
+    let sim = crate::sim::simulate(&model, &groups, &MissingSpec::default(), 3).unwrap();
+    let reference: Vec<(&Individual, Sex)> = sim
+        .individuals
+        .iter()
+        .zip(sim.true_sex.iter().copied())
+        .collect();
+    let info = ReferenceInfo {
+        file: "simulated".into(),
+        sha256: "0".into(),
+        command: String::new(),
+    };
+    let complete = validate(
+        Subject::Fixed(&model),
+        &reference,
+        &info,
+        &ValidationSettings::default(),
+    )
+    .unwrap();
+    let mask = MissingSpec::parse("cranium=1,trait=0.3").unwrap();
+    let settings = ValidationSettings {
+        missing: Some(mask),
+        ..ValidationSettings::default()
+    };
+    let masked = validate(Subject::Fixed(&model), &reference, &info, &settings).unwrap();
+    // The same seed gives the same masks; the cranium is gone from every individual.
+    let again = validate(Subject::Fixed(&model), &reference, &info, &settings).unwrap();
+    assert_eq!(masked.predictions, again.predictions);
+    let cranium = masked.blocks.iter().position(|b| b == "cranium").unwrap();
+    assert!(masked
+        .predictions
+        .iter()
+        .all(|p| p.block_ln_lr[cranium].is_none()));
+    let traits = |v: &Validation| v.predictions.iter().map(|p| p.n_traits).sum::<usize>();
+    assert!(
+        traits(&masked) < traits(&complete) / 2,
+        "{} vs {}",
+        traits(&masked),
+        traits(&complete)
+    );
+    assert!(masked.overall.brier > complete.overall.brier);
+    assert!(masked.design.contains("cranium=1"));
+    // Every scored individual is in exactly one age class.
+    let n: usize = masked.by_age.iter().map(|(_, s)| s.n).sum();
+    assert_eq!(n, masked.overall.n);
+    use crate::data::AgeAtDeath;
+    let y = |low: f64, high: Option<f64>| Some(AgeAtDeath::Years { low, high });
+    assert_eq!(age_class(y(18.0, Some(25.0)).as_ref()), 1);
+    assert_eq!(age_class(y(15.0, Some(20.0)).as_ref()), 0);
+    assert_eq!(age_class(y(35.0, Some(50.0)).as_ref()), 2);
+    assert_eq!(age_class(y(50.0, None).as_ref()), 3);
+    assert_eq!(age_class(Some(&AgeAtDeath::Adult)), 4);
+    assert_eq!(age_class(None), 4);
+}
