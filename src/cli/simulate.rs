@@ -12,7 +12,12 @@ pub struct Args {
     #[arg(long, value_name = "FILE")]
     pub model: Option<PathBuf>,
     /// Number of individuals (one population; use --groups for several).
-    #[arg(long, value_name = "N", required_unless_present = "groups")]
+    #[arg(
+        long,
+        value_name = "N",
+        required_unless_present = "groups",
+        conflicts_with = "groups"
+    )]
     pub n: Option<usize>,
     /// Proportion female of the one population.
     #[arg(

@@ -118,7 +118,7 @@ fn rows_of(model: &Model, ind: &Individual, ev: &IndividualEvidence) -> Vec<Ledg
 }
 
 fn num(x: f64) -> String {
-    format!("{x:.6}")
+    crate::report::number::cell(x, 6)
 }
 
 /// The ledger as CSV text (header, then rows), carried columns appended unchanged.

@@ -6,9 +6,18 @@
 /// A number for a CSV cell with `decimals` places; empty when not finite.
 pub fn cell(x: f64, decimals: usize) -> String {
     if x.is_finite() {
-        format!("{x:.decimals$}")
+        unsigned_zero(format!("{x:.decimals$}"))
     } else {
         String::new()
+    }
+}
+
+/// A number that rounds to zero is written without a sign (`0.000`, never `-0.000`: a
+/// negative zero reads as a tiny negative value to a reader and to some parsers).
+fn unsigned_zero(s: String) -> String {
+    match s.strip_prefix('-') {
+        Some(rest) if rest.chars().all(|c| c == '0' || c == '.') => rest.to_string(),
+        _ => s,
     }
 }
 
@@ -32,7 +41,7 @@ pub fn probability_to(x: f64, decimals: usize) -> String {
 /// A number for readable text with `decimals` places; "–" when not finite.
 pub fn text(x: f64, decimals: usize) -> String {
     if x.is_finite() {
-        format!("{x:.decimals$}")
+        unsigned_zero(format!("{x:.decimals$}"))
     } else {
         "–".into()
     }
@@ -41,6 +50,15 @@ pub fn text(x: f64, decimals: usize) -> String {
 #[cfg(test)]
 mod tests {
     use super::*;
+
+    #[test]
+    fn a_value_that_rounds_to_zero_has_no_sign() {
+        assert_eq!(cell(-0.0, 6), "0.000000");
+        assert_eq!(cell(-1e-9, 4), "0.0000");
+        assert_eq!(text(-0.0004, 3), "0.000");
+        assert_eq!(cell(-0.0006, 3), "-0.001");
+        assert_eq!(probability(-0.0), "0.000000");
+    }
 
     #[test]
     fn a_number_that_is_not_finite_is_missing_in_a_table_and_a_dash_in_text() {
