@@ -591,11 +591,24 @@ pub fn terminal_summary(r: &AnalysisResult) -> String {
         s,
         "Proportion female under each prior of the sensitivity set:"
     );
+    // A fixed prior's row would only repeat its value: those priors are counted, and their
+    // effect on individuals is in the list below and in sensitivity.csv.
+    let mut fixed = 0;
     for r in analysis.results() {
+        if matches!(r.prior.shape, crate::prior::PriorShape::Fixed { .. }) {
+            fixed += 1;
+            continue;
+        }
         let _ = writeln!(
             s,
             "  {:<16} {:.3}  ({:.3} to {:.3})",
             r.prior.name, r.pi.mean, r.pi.lo, r.pi.hi
+        );
+    }
+    if fixed > 0 {
+        let _ = writeln!(
+            s,
+            "  and {fixed} fixed proportions (each individual under them: sensitivity.csv)"
         );
     }
     let sensitive: Vec<&str> = a
