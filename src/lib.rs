@@ -56,6 +56,7 @@
 
 pub mod agreement;
 pub mod assemblage;
+pub mod case;
 pub mod catalogue;
 pub mod cli;
 pub mod data;

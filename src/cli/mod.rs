@@ -3,6 +3,7 @@
 
 pub mod agreement;
 pub mod analyse;
+pub mod case;
 pub mod check;
 pub mod evidence;
 pub mod fit;
@@ -36,6 +37,9 @@ pub enum Command {
     Check(check::Args),
     /// Per individual and body region: the likelihood ratio female:male, without any prior.
     Evidence(evidence::Args),
+    /// One individual's report for a case file: likelihood ratios by region, what was
+    /// recorded, the cautions (Markdown and printable HTML).
+    Case(case::Args),
     /// Draw an invented assemblage with known sex from a model (for testing and teaching).
     Simulate(simulate::Args),
     /// Before excavating: how wide will the interval of the sex ratio be, over a range of sizes?
@@ -54,6 +58,7 @@ pub fn run(cli: Cli) -> i32 {
         Command::Analyse(args) => analyse::run(args),
         Command::Check(args) => check::run(args),
         Command::Evidence(args) => evidence::run(args),
+        Command::Case(args) => case::run(args),
         Command::Simulate(args) => simulate::run(args),
         Command::Plan(args) => plan::run(args),
         Command::Agreement(args) => agreement::run(args),

@@ -89,7 +89,8 @@ impl Block {
         !matches!(self, Block::Dna(_))
     }
 
-    fn trait_ids(&self) -> Vec<String> {
+    /// The catalogue ids of the traits the block reads.
+    pub fn trait_ids(&self) -> Vec<String> {
         match self {
             Block::Latent(b) => b.traits.iter().map(|t| t.id.clone()).collect(),
             Block::Equations(b) => {

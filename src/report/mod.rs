@@ -2,6 +2,7 @@
 
 pub mod agreement;
 pub mod analysis;
+pub mod case;
 pub mod citations;
 pub mod figures;
 pub mod number;
