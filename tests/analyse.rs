@@ -227,7 +227,7 @@ fn groups_and_draws_are_written_in_tidy_form() {
         "flat",
     ]);
     assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
-    assert!(stdout(&o).contains("groups differ against share one proportion"));
+    assert!(stdout(&o).contains("Groups that differ against groups that share one proportion"));
     assert_eq!(
         header(&out.join("groups.csv"))[..6],
         [

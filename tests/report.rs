@@ -160,3 +160,69 @@ fn the_validation_report_of_the_demo_reference_renders() {
     assert!(report.contains("5-fold cross-validation"));
     assert!(report.contains("Biological sex is not gender"));
 }
+
+/// What a journal's copy editor checks first, on the demo's outputs: no negative zeros, ranges
+/// in words ("−0.157 to 0.375", never "-0.157--0.375" or "0.2–0.4"), counts as whole numbers.
+#[test]
+fn the_demo_outputs_read_as_a_journal_expects() {
+    let dir = tempfile::tempdir().unwrap();
+    let out = dir.path().join("out");
+    let demo = std::path::Path::new(env!("CARGO_MANIFEST_DIR")).join("examples/mirefold.csv");
+    let o = common::tessera(&[
+        "analyse",
+        demo.to_str().unwrap(),
+        "--group-by",
+        "phase",
+        "--by-sex",
+        "cribra_orbitalia",
+        "--out",
+        out.to_str().unwrap(),
+    ]);
+    assert!(o.status.success(), "{}", common::stderr(&o));
+    let between_digits = |text: &str, sep: &str| {
+        text.match_indices(sep).any(|(i, _)| {
+            let before = text[..i].chars().next_back();
+            let after = text[i + sep.len()..].chars().next();
+            matches!((before, after), (Some(b), Some(a)) if b.is_ascii_digit() && a.is_ascii_digit())
+        })
+    };
+    for name in ["report.md", "methods.md", "tables.tex"] {
+        let whole = std::fs::read_to_string(out.join(name)).unwrap();
+        // Page ranges of the references keep their en dash, as reference styles set them.
+        let text = whole.split("## References").next().unwrap();
+        assert!(!text.contains("-0.000"), "{name}: a negative zero");
+        assert!(!between_digits(text, "–"), "{name}: a range with a dash");
+        assert!(!between_digits(text, "--"), "{name}: a range with --");
+    }
+    for entry in std::fs::read_dir(&out).unwrap() {
+        let p = entry.unwrap().path();
+        if p.extension().is_some_and(|e| e == "csv") {
+            let text = std::fs::read_to_string(&p).unwrap();
+            let negative_zero = text.lines().flat_map(|l| l.split(',')).any(|c| {
+                c.strip_prefix('-')
+                    .is_some_and(|r| !r.is_empty() && r.chars().all(|x| x == '0' || x == '.'))
+            });
+            assert!(!negative_zero, "{}: a negative zero", p.display());
+        }
+    }
+    // The age table's intervals are counts of individuals: whole numbers.
+    let report = std::fs::read_to_string(out.join("report.md")).unwrap();
+    let rows: Vec<&str> = report
+        .lines()
+        .skip_while(|l| !l.starts_with("| age class |"))
+        .skip(2)
+        .take_while(|l| l.starts_with('|'))
+        .collect();
+    assert!(!rows.is_empty());
+    for row in rows {
+        for cell in row.split('|').skip(2).filter(|c| !c.trim().is_empty()) {
+            let inner = cell.split('(').nth(1).unwrap().trim_end_matches([')', ' ']);
+            for end in inner.split(" to ") {
+                assert!(
+                    end.trim().parse::<u64>().is_ok(),
+                    "{row}: `{end}` is not a count"
+                );
+            }
+        }
+    }
+}

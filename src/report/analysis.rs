@@ -509,15 +509,29 @@ pub fn terminal_summary(r: &AnalysisResult) -> String {
         model.name, main.prior.name
     );
     let p = &main.pi;
+    if let Some(h) = &main.hyper {
+        let _ = writeln!(
+            s,
+            "Proportion female of the population behind the groups (μ)  {:.3} (95% interval {:.3} to {:.3})",
+            h.mu.mean, h.mu.lo, h.mu.hi
+        );
+    }
     let _ = writeln!(
         s,
-        "Proportion female  {:.3} (median {:.3}; 95% interval {:.3} to {:.3}; highest density {:.3} to {:.3})",
+        "Proportion female{}  {:.3} (median {:.3}; 95% interval {:.3} to {:.3}; highest density {:.3} to {:.3})",
+        if main.hyper.is_some() { ", the assemblage as one population" } else { "" },
         p.mean, p.median, p.lo, p.hi, p.hdi_lo, p.hdi_hi
     );
     let _ = writeln!(
         s,
-        "Expected number of females: {:.1} of {}",
-        main.expected_females, main.n_individuals
+        "Expected number of females{}: {:.1} of {}",
+        if main.hyper.is_some() {
+            " (groups' model)"
+        } else {
+            ""
+        },
+        main.expected_females,
+        main.n_individuals
     );
     let (fm, flo, fhi) = count_summary(&draws.n_female());
     let _ = writeln!(
@@ -531,16 +545,30 @@ pub fn terminal_summary(r: &AnalysisResult) -> String {
     );
     let _ = writeln!(
         s,
-        "Males per 100 females (population): {:.0} (95% interval {:.0} to {:.0})",
+        "Males per 100 females in the population{}: {:.0} (95% interval {:.0} to {:.0})",
+        if main.hyper.is_some() {
+            " (one population)"
+        } else {
+            ""
+        },
         100.0 * (1.0 - p.median) / p.median,
         100.0 * (1.0 - p.hi) / p.hi,
         100.0 * (1.0 - p.lo) / p.lo
     );
     let _ = writeln!(
         s,
-        "P(fewer females than males in the population) = {:.3}; one sex against mixed: log10 Bayes factor {:.2}",
-        p.p_below_half,
-        main.ln_bf_one_sex / LN_10
+        "P(fewer females than males in the population) = {:.3}",
+        p.p_below_half
+    );
+    let _ = writeln!(
+        s,
+        "A community of one sex against a mixed one: log10 Bayes factor {:.1}; {}",
+        main.ln_bf_one_sex / LN_10,
+        super::number::bayes_factor_words(
+            main.ln_bf_one_sex,
+            "the community was of one sex",
+            "it was mixed"
+        )
     );
     if !main.groups.is_empty() {
         let _ = writeln!(s);
@@ -559,11 +587,13 @@ pub fn terminal_summary(r: &AnalysisResult) -> String {
             Some(h) => {
                 let _ = writeln!(
                     s,
-                    "Across groups {:.3} ({:.3} to {:.3}); groups differ against share one proportion: log10 Bayes factor {:.2}",
-                    h.mu.mean,
-                    h.mu.lo,
-                    h.mu.hi,
-                    h.ln_bf_groups_differ / LN_10
+                    "Groups that differ against groups that share one proportion: log10 Bayes factor {:.2}; {}",
+                    h.ln_bf_groups_differ / LN_10,
+                    super::number::bayes_factor_words(
+                        h.ln_bf_groups_differ,
+                        "the groups differ",
+                        "the groups share one proportion"
+                    )
                 );
             }
             None => {

@@ -38,6 +38,46 @@ pub fn probability_to(x: f64, decimals: usize) -> String {
     }
 }
 
+/// A number for reading (Markdown, the terminal's prose) with a real minus sign (U+2212), as
+/// journals set it; "–" when not finite.
+pub fn reading(x: f64, decimals: usize) -> String {
+    let s = text(x, decimals);
+    match s.strip_prefix('-') {
+        Some(rest) => format!("\u{2212}{rest}"),
+        None => s,
+    }
+}
+
+/// A Bayes factor in words: what it compares and by how much, e.g. "the data are 10^88 times
+/// as probable if the community was mixed" (`yes` is the hypothesis a positive ln BF favours,
+/// `no` the other). Below a factor of 3 either way it says the data hardly tell them apart.
+pub fn bayes_factor_words(ln_bf: f64, yes: &str, no: &str) -> String {
+    if !ln_bf.is_finite() {
+        return "not computed".into();
+    }
+    let l = ln_bf / std::f64::consts::LN_10;
+    let (who, m) = if l >= 0.0 { (yes, l) } else { (no, -l) };
+    let factor = if m >= 3.0 {
+        format!("10^{m:.0}")
+    } else {
+        format!("{:.1}", 10f64.powf(m))
+    };
+    if m < 3f64.log10() {
+        format!("the data hardly tell the two apart (a factor of {factor} toward: {who})")
+    } else {
+        format!("the data are {factor} times as probable if {who}")
+    }
+}
+
+/// A number for LaTeX: the minus sign in math mode (`$-$0.18`), which typesets as a real minus.
+pub fn latex(x: f64, decimals: usize) -> String {
+    let s = text(x, decimals);
+    match s.strip_prefix('-') {
+        Some(rest) => format!("$-${rest}"),
+        None => s,
+    }
+}
+
 /// A number for readable text with `decimals` places; "–" when not finite.
 pub fn text(x: f64, decimals: usize) -> String {
     if x.is_finite() {
@@ -50,6 +90,28 @@ pub fn text(x: f64, decimals: usize) -> String {
 #[cfg(test)]
 mod tests {
     use super::*;
+
+    #[test]
+    fn a_bayes_factor_reads_as_what_it_compares() {
+        let ln10 = std::f64::consts::LN_10;
+        assert_eq!(
+            bayes_factor_words(-88.26 * ln10, "one sex", "mixed"),
+            "the data are 10^88 times as probable if mixed"
+        );
+        assert_eq!(
+            bayes_factor_words(1.35 * ln10, "they differ", "they share one"),
+            "the data are 22.4 times as probable if they differ"
+        );
+        assert!(bayes_factor_words(-0.14 * ln10, "a", "b").starts_with("the data hardly tell"));
+    }
+
+    #[test]
+    fn minus_signs_are_real_in_text_and_in_latex() {
+        assert_eq!(reading(-0.179, 3), "\u{2212}0.179");
+        assert_eq!(reading(0.387, 3), "0.387");
+        assert_eq!(latex(-0.179, 3), "$-$0.179");
+        assert_eq!(reading(-0.0001, 3), "0.000");
+    }
 
     #[test]
     fn a_value_that_rounds_to_zero_has_no_sign() {

@@ -12,16 +12,53 @@ use std::f64::consts::LN_10;
 use std::fmt::Write as _;
 
 fn f3(x: f64) -> String {
-    super::number::text(x, 3)
+    super::number::reading(x, 3)
 }
 
 fn f1(x: f64) -> String {
-    super::number::text(x, 1)
+    super::number::reading(x, 1)
 }
 
-/// "estimate (low–high)": `dash` is "–" in Markdown and "--" in LaTeX.
-fn ci(v: (f64, f64, f64), f: fn(f64) -> String, dash: &str) -> String {
-    format!("{} ({}{dash}{})", f(v.0), f(v.1), f(v.2))
+/// The headline proportion female, named with its model: with groups (and a prior that lets
+/// them differ) the population behind the groups, μ, with the one-population value beside.
+fn headline_sentence(main: &crate::assemblage::PriorResult) -> String {
+    let p = &main.pi;
+    match &main.hyper {
+        Some(h) => format!(
+            "The proportion female of the population behind the groups (μ, hierarchical model) was estimated at {} (95% interval {}); with the assemblage taken as one population it was {} ({}).",
+            f3(h.mu.mean),
+            range(h.mu.lo, h.mu.hi, f3),
+            f3(p.mean),
+            range(p.lo, p.hi, f3)
+        ),
+        None => format!(
+            "The proportion female was estimated at {} (95% interval {}).",
+            f3(p.mean),
+            range(p.lo, p.hi, f3)
+        ),
+    }
+}
+
+fn bf_words(ln_bf: f64) -> String {
+    super::number::bayes_factor_words(
+        ln_bf,
+        "the groups differ",
+        "the groups share one proportion",
+    )
+}
+
+fn t3(x: f64) -> String {
+    super::number::latex(x, 3)
+}
+
+/// "low to high" with the given number format (a range reads as words, not as "-0.2--0.4").
+fn range(lo: f64, hi: f64, f: fn(f64) -> String) -> String {
+    format!("{} to {}", f(lo), f(hi))
+}
+
+/// "estimate (low to high)".
+fn ci(v: (f64, f64, f64), f: fn(f64) -> String) -> String {
+    format!("{} ({})", f(v.0), range(v.1, v.2, f))
 }
 
 use super::{csv_bytes, header};
@@ -388,6 +425,14 @@ pub fn methods_md(r: &AnalysisResult) -> String {
     );
     if has_latent {
         let _ = write!(s, "Ordinal trait scores and measurements were modelled jointly by a multivariate cumulative probit with correlated latent traits (Konigsberg & Hens, 1998), extended to measurements; unobserved traits were integrated out, and probabilities of ordinal score combinations were computed exactly in one and two dimensions (Genz, 2004) and by Genz's separation-of-variables method with randomised quasi-Monte Carlo in three or more (Genz, 1992). ");
+        let sides = match run.side_policy.as_str() {
+            "right-first" => {
+                "the right side was used, and the left only where the right was not recorded"
+            }
+            "both" => "both sides were combined as two observations of the same latent trait",
+            _ => "the left side was used, and the right only where the left was not recorded",
+        };
+        let _ = write!(s, "Traits not recorded were assumed missing at random with respect to sex (they neither count for nor against either sex); where both sides of a bilateral trait were recorded, {sides}; a score recorded as a range of two grades (e.g. 3-4) was taken to mean one of those grades, its latent value lying between the lower edge of the first and the upper edge of the second. ");
         if is_fitted(model) {
             let _ = write!(s, "The model's parameters were estimated with tessera from a documented reference collection ({}) by two-step maximum likelihood: cumulative probit margins for the ordinal traits (McCullagh, 1980), per-sex means and standard deviations of the measurements, and polychoric, polyserial or Pearson within-sex correlations given the margins (Olsson, 1979; Olsson, Drasgow & Dorans, 1982). ", fitted_reference(model));
         }
@@ -429,9 +474,10 @@ pub fn methods_md(r: &AnalysisResult) -> String {
     if let Some(h) = &main.hyper {
         let _ = write!(
             s,
-            "Groups ({}) were modelled hierarchically, each group's proportion female following a Beta distribution around a shared mean with a log-uniform prior on its concentration; the Bayes factor for groups that differ against a shared proportion was {:.2} (log10). ",
+            "Groups ({}) were modelled hierarchically, each group's proportion female following a Beta distribution around a shared mean with a log-uniform prior on its concentration; the Bayes factor for groups that differ against a shared proportion was {} (log10; {}). ",
             main.groups.iter().map(|g| g.group.as_str()).collect::<Vec<_>>().join(", "),
-            h.ln_bf_groups_differ / LN_10
+            super::number::reading(h.ln_bf_groups_differ / LN_10, 2),
+            bf_words(h.ln_bf_groups_differ)
         );
     } else if !main.groups.is_empty() {
         let _ =
@@ -481,8 +527,10 @@ pub fn methods_md(r: &AnalysisResult) -> String {
     }
     let _ = writeln!(
         s,
-        "The proportion female was estimated at {:.2} (95% interval {:.2}–{:.2}). The analysis used seed {}; the input file's SHA-256 is `{}`.\n",
-        main.pi.mean, main.pi.lo, main.pi.hi, run.seed, a.sha256
+        "{} The analysis used seed {}; the input file's SHA-256 is `{}`.\n",
+        headline_sentence(main),
+        run.seed,
+        a.sha256
     );
     let _ = writeln!(
         s,
@@ -581,7 +629,15 @@ fn what_was_analysed(r: &AnalysisResult, m: &mut String, _tex: &mut String) {
 fn proportion_female_section(r: &AnalysisResult, m: &mut String, t: &mut String) {
     let (analysis, run) = (&r.results, &r.run);
     let main = &r.results.main;
-    let _ = writeln!(m, "## Proportion female\n");
+    let _ = writeln!(
+        m,
+        "## Proportion female{}\n",
+        if r.results.main.groups.is_empty() {
+            ""
+        } else {
+            " (the assemblage as one population; the groups' model is under Groups)"
+        }
+    );
     let _ = writeln!(m, "| prior | mean | median | 95% interval | highest density | P(π < 0.5) | expected females |");
     let _ = writeln!(m, "|---|---|---|---|---|---|---|");
     let _ = writeln!(
@@ -593,16 +649,14 @@ fn proportion_female_section(r: &AnalysisResult, m: &mut String, t: &mut String)
     for r in analysis.results() {
         let _ = writeln!(
             m,
-            "| {} | {:.3} | {:.3} | {:.3}–{:.3} | {:.3}–{:.3} | {:.3} | {:.1} |",
+            "| {} | {:.3} | {:.3} | {} | {} | {:.3} | {:.1} |",
             md(&r.prior.name),
             r.pi.mean,
             r.pi.median,
-            r.pi.lo,
-            r.pi.hi,
-            r.pi.hdi_lo,
-            r.pi.hdi_hi,
+            range(r.pi.lo, r.pi.hi, f3),
+            range(r.pi.hdi_lo, r.pi.hdi_hi, f3),
             r.pi.p_below_half,
-            r.expected_females
+            r.expected_females_one_population
         );
         let _ = writeln!(
             t,
@@ -617,8 +671,13 @@ fn proportion_female_section(r: &AnalysisResult, m: &mut String, t: &mut String)
     let _ = writeln!(t, "\\bottomrule\n\\end{{tabular}}\n\\end{{table}}\n");
     let _ = writeln!(
         m,
-        "\nOne sex against a mixed community: log10 Bayes factor {:.2}.\n",
-        main.ln_bf_one_sex / LN_10
+        "\nA community of one sex against a mixed one: log10 Bayes factor {}; {}.\n",
+        f1(main.ln_bf_one_sex / LN_10),
+        super::number::bayes_factor_words(
+            main.ln_bf_one_sex,
+            "the community was of one sex",
+            "it was mixed"
+        )
     );
 }
 
@@ -647,7 +706,7 @@ fn sensitivity_section(r: &AnalysisResult, m: &mut String, _tex: &mut String) {
         .filter(|(_, s)| s.prior_sensitive)
         .map(|(i, s)| {
             format!(
-                "{} (P(female) {:.3}–{:.3})",
+                "{} (P(female) {:.3} to {:.3})",
                 i.id,
                 s.p_female_min.unwrap_or(f64::NAN),
                 s.p_female_max.unwrap_or(f64::NAN)
@@ -675,28 +734,26 @@ fn groups_section(r: &AnalysisResult, m: &mut String, t: &mut String) {
         for g in &main.groups {
             let _ = writeln!(
                 m,
-                "| {} | {} | {:.3} | {:.3}–{:.3} | {:.1} |",
+                "| {} | {} | {:.3} | {} | {:.1} |",
                 md(&g.group),
                 g.n,
                 g.pi.mean,
-                g.pi.lo,
-                g.pi.hi,
+                range(g.pi.lo, g.pi.hi, f3),
                 g.expected_females
             );
             let _ = writeln!(
                 t,
-                "{} & {} & {:.3} & {:.3}--{:.3} & {:.1} \\\\",
+                "{} & {} & {:.3} & {} & {:.1} \\\\",
                 tex(&g.group),
                 g.n,
                 g.pi.mean,
-                g.pi.lo,
-                g.pi.hi,
+                range(g.pi.lo, g.pi.hi, t3),
                 g.expected_females
             );
         }
         let _ = writeln!(t, "\\bottomrule\n\\end{{tabular}}\n\\end{{table}}\n");
         if let Some(h) = &main.hyper {
-            let _ = writeln!(m, "\nAcross groups {:.3} ({:.3}–{:.3}); groups differ against share one proportion: log10 Bayes factor {:.2}.\n", h.mu.mean, h.mu.lo, h.mu.hi, h.ln_bf_groups_differ / LN_10);
+            let _ = writeln!(m, "\nPopulation behind the groups (μ): {:.3} ({}); groups that differ against groups that share one proportion: log10 Bayes factor {} ({}).\n", h.mu.mean, range(h.mu.lo, h.mu.hi, f3), super::number::reading(h.ln_bf_groups_differ / LN_10, 2), bf_words(h.ln_bf_groups_differ));
         }
     }
 }
@@ -712,7 +769,7 @@ fn age_section(r: &AnalysisResult, m: &mut String, t: &mut String) {
             ("males", age.mean_male),
             ("difference (F − M)", age.difference),
         ] {
-            let _ = writeln!(m, "| {q} | {} | {}–{} |", f1(v.0), f1(v.1), f1(v.2));
+            let _ = writeln!(m, "| {q} | {} | {} |", f1(v.0), range(v.1, v.2, f1));
         }
         let _ = writeln!(
             m,
@@ -721,23 +778,30 @@ fn age_section(r: &AnalysisResult, m: &mut String, t: &mut String) {
         );
         let _ = writeln!(
             m,
-            "| age class | females (95% interval) | males (95% interval) |\n|---|---|---|"
+            "Number of individuals of each sex per age class (mean count over the draws, 95% interval):\n\n| age class | females (95% interval) | males (95% interval) |\n|---|---|---|"
         );
-        let _ = writeln!(t, "\\begin{{table}}\n\\centering\n\\caption{{Age at death by sex over the joint posterior draws (mean and 95\\% interval).}}\n\\begin{{tabular}}{{lrr}}\n\\toprule\nAge class & Females & Males \\\\\n\\midrule");
+        let _ = writeln!(t, "\\begin{{table}}\n\\centering\n\\caption{{Number of individuals of each sex per age class over the joint posterior draws (mean count and 95\\% interval).}}\n\\begin{{tabular}}{{lrr}}\n\\toprule\nAge class & Females & Males \\\\\n\\midrule");
+        // Counts: the mean to one decimal, the interval's ends (whole individuals) as integers.
+        let count = |v: (f64, f64, f64)| format!("{:.1} ({:.0} to {:.0})", v.0, v.1, v.2);
         for c in &age.classes {
+            // A class nobody sexed falls in (subadults are left out of tables by sex) is not
+            // a row of zeros.
+            if c.female.2 == 0.0 && c.male.2 == 0.0 {
+                continue;
+            }
             let _ = writeln!(
                 m,
                 "| {} | {} | {} |",
                 c.class,
-                ci(c.female, f1, "–"),
-                ci(c.male, f1, "–")
+                count(c.female),
+                count(c.male)
             );
             let _ = writeln!(
                 t,
                 "{} & {} & {} \\\\",
                 tex(&c.class),
-                ci(c.female, f1, "--"),
-                ci(c.male, f1, "--")
+                count(c.female),
+                count(c.male)
             );
         }
         let _ = writeln!(t, "\\bottomrule\n\\end{{tabular}}\n\\end{{table}}\n");
@@ -762,10 +826,10 @@ fn prevalence_section(r: &AnalysisResult, m: &mut String, t: &mut String) {
         let _ = writeln!(m, "| condition | recorded | left out | females | males | difference F − M | P(higher in females) | odds ratio F:M |\n|---|---|---|---|---|---|---|---|");
         let _ = writeln!(t, "\\begin{{table}}\n\\centering\n\\caption{{Prevalence by sex from the joint posterior of sex and prevalence (posterior means, odds ratio median; 95\\% intervals).}}\n\\begin{{tabular}}{{lrrrr}}\n\\toprule\nCondition & Females & Males & Difference & Odds ratio \\\\\n\\midrule");
         for p in &by_sex.prevalence {
-            let cells = |dash: &str| {
-                [p.female, p.male, p.difference, p.odds_ratio].map(|v| ci(v, f3, dash))
+            let cells = |f: fn(f64) -> String| {
+                [p.female, p.male, p.difference, p.odds_ratio].map(|v| ci(v, f))
             };
-            let [f, ml, d, or] = cells("–");
+            let [f, ml, d, or] = cells(f3);
             let _ = writeln!(
                 m,
                 "| {} | {} | {} | {f} | {ml} | {d} | {} | {or} |",
@@ -774,7 +838,7 @@ fn prevalence_section(r: &AnalysisResult, m: &mut String, t: &mut String) {
                 p.n_left_out,
                 f3(p.p_female_higher)
             );
-            let [f, ml, d, or] = cells("--");
+            let [f, ml, d, or] = cells(t3);
             let _ = writeln!(t, "{} & {f} & {ml} & {d} & {or} \\\\", tex(&p.column));
         }
         let _ = writeln!(t, "\\bottomrule\n\\end{{tabular}}\n\\end{{table}}\n");
