@@ -32,8 +32,13 @@ pub struct Args {
     pub groups: Option<String>,
     /// Preservation as key=rate, comma-separated: cranium, pelvis, postcranial, dental (whole
     /// region lost), trait (single traits lost), range (grades recorded as ranges), subadult,
-    /// dna (share with read counts). Default: nothing lost.
-    #[arg(long, value_name = "SPEC", default_value = "")]
+    /// dna (share with read counts). Without it, nothing is lost.
+    #[arg(
+        long,
+        value_name = "SPEC",
+        default_value = "",
+        hide_default_value = true
+    )]
     pub missing: String,
     /// Seed (same seed, same file).
     #[arg(long, default_value_t = 1)]

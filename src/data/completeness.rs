@@ -6,7 +6,6 @@ use super::problem::Warning;
 use super::reader::{Assemblage, SideUsed};
 use crate::catalogue::Region;
 use serde::Serialize;
-use std::collections::BTreeMap;
 
 /// How often one trait was recorded.
 #[derive(Debug, Clone, PartialEq, Serialize)]
@@ -99,12 +98,15 @@ impl Completeness {
                 _ => unknown += 1,
             }
         }
-        let mut groups: BTreeMap<String, usize> = BTreeMap::new();
+        // Groups in file order (phases are usually chronological), as every other screen.
+        let mut groups: Vec<(String, usize)> = Vec::new();
         if a.individuals.iter().any(|i| i.group.is_some()) {
             for ind in &a.individuals {
-                *groups
-                    .entry(ind.group.clone().unwrap_or_else(|| "(none)".into()))
-                    .or_default() += 1;
+                let g = ind.group.clone().unwrap_or_else(|| "(none)".into());
+                match groups.iter_mut().find(|(name, _)| *name == g) {
+                    Some((_, n)) => *n += 1,
+                    None => groups.push((g, 1)),
+                }
             }
         }
         let mut traits = Vec::new();
