@@ -205,6 +205,28 @@ fn the_demo_outputs_read_as_a_journal_expects() {
             assert!(!negative_zero, "{}: a negative zero", p.display());
         }
     }
+    // Every SVG figure has a PNG beside it (journals and word processors take raster
+    // images), at 2.5 pixels per unit, and report.md shows them.
+    let report_text = std::fs::read_to_string(out.join("report.md")).unwrap();
+    for entry in std::fs::read_dir(out.join("figures")).unwrap() {
+        let p = entry.unwrap().path();
+        if p.extension().is_some_and(|e| e == "svg") {
+            let png = std::fs::read(p.with_extension("png")).unwrap();
+            assert_eq!(&png[..8], b"\x89PNG\r\n\x1a\n", "{}", p.display());
+            let width = u32::from_be_bytes([png[16], png[17], png[18], png[19]]);
+            assert_eq!(width, 2000, "{}", p.display());
+            let name = p
+                .file_name()
+                .unwrap()
+                .to_str()
+                .unwrap()
+                .replace(".svg", ".png");
+            assert!(
+                report_text.contains(&format!("](figures/{name})")),
+                "{name} not shown"
+            );
+        }
+    }
     // The age table's intervals are counts of individuals: whole numbers.
     let report = std::fs::read_to_string(out.join("report.md")).unwrap();
     let rows: Vec<&str> = report

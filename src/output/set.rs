@@ -21,7 +21,7 @@ pub struct OutputSet {
 }
 
 /// The media type of a file name: `text/csv` (RFC 7111), `text/markdown` (RFC 7763),
-/// `application/json` (RFC 8259), `image/svg+xml`, `application/yaml` (RFC 9512),
+/// `application/json` (RFC 8259), `image/svg+xml`, `image/png`, `text/html`, `application/yaml` (RFC 9512),
 /// `application/x-tex`, `text/plain` otherwise.
 pub fn media_type(name: &str) -> &'static str {
     match name.rsplit('.').next().unwrap_or("") {
@@ -29,6 +29,8 @@ pub fn media_type(name: &str) -> &'static str {
         "md" => "text/markdown",
         "json" => "application/json",
         "svg" => "image/svg+xml",
+        "png" => "image/png",
+        "html" => "text/html",
         "yaml" | "yml" => "application/yaml",
         "tex" => "application/x-tex",
         _ => "text/plain",

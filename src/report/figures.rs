@@ -27,6 +27,51 @@ pub struct FigureError {
     pub message: String,
 }
 
+/// Pixels per SVG unit of the PNG copies: the figures are drawn 800 units wide, so 2.5 gives
+/// 2000 pixels, 300 dpi at a page width of about 17 cm (common journal practice for
+/// line art: at least 300 dpi at print size).
+pub const PNG_SCALE: f32 = 2.5;
+
+/// A PNG copy of an SVG figure (resvg, the embedded font, white background).
+///
+/// # Errors
+/// [`FigureError`] when the SVG cannot be parsed or the picture encoded.
+pub fn png_of(name: &str, svg: &[u8]) -> Result<Vec<u8>, FigureError> {
+    let err = |message: String| FigureError {
+        figure: name.into(),
+        message,
+    };
+    let mut opt = resvg::usvg::Options::default();
+    opt.fontdb_mut().load_font_data(FONT_BYTES.to_vec());
+    opt.fontdb_mut().set_sans_serif_family("DejaVu Sans");
+    let tree = resvg::usvg::Tree::from_data(svg, &opt).map_err(|e| err(e.to_string()))?;
+    let size = tree
+        .size()
+        .to_int_size()
+        .scale_by(PNG_SCALE)
+        .ok_or_else(|| err("empty picture".into()))?;
+    let mut pix = resvg::tiny_skia::Pixmap::new(size.width(), size.height())
+        .ok_or_else(|| err("empty picture".into()))?;
+    pix.fill(resvg::tiny_skia::Color::WHITE);
+    resvg::render(
+        &tree,
+        resvg::tiny_skia::Transform::from_scale(PNG_SCALE, PNG_SCALE),
+        &mut pix.as_mut(),
+    );
+    pix.encode_png().map_err(|e| err(e.to_string()))
+}
+
+/// A tick label without spurious decimals: 0.25, 0.5, 2, 10 (never 2.0 or 10.0).
+fn tick(v: f64) -> String {
+    let s = format!("{v:.2}");
+    let s = s.trim_end_matches('0').trim_end_matches('.');
+    if s == "-0" {
+        "0".into()
+    } else {
+        s.into()
+    }
+}
+
 fn fail<E: std::fmt::Debug>(figure: &str) -> impl Fn(E) -> FigureError + '_ {
     move |e| FigureError {
         figure: figure.to_string(),
@@ -69,18 +114,36 @@ pub fn p_female_figure(
             .build_cartesian_2d(0f64..(n as f64 + 1.0), 0f64..1f64)
             .map_err(fail(name))?;
         c.configure_mesh()
+            .light_line_style(TRANSPARENT)
+            .bold_line_style(RGBColor(215, 215, 215))
             .disable_x_mesh()
             .x_desc("individuals with usable evidence, sorted by P(female)")
             .y_desc("P(female)")
+            .x_label_formatter(&|v| tick(*v))
+            .y_label_formatter(&|v| tick(*v))
             .draw()
             .map_err(fail(name))?;
-        for t in thresholds {
+        // Each cut-off labelled with its category, just above its line at the left (text is
+        // anchored at its top-left corner; 0.045 clears an 11-pixel line of text).
+        let words = ["male", "probable male", "probable female", "female"];
+        for (t, w) in thresholds.into_iter().zip(words) {
             c.draw_series(DashedLineSeries::new(
                 vec![(0.0, t), (n as f64 + 1.0, t)],
                 4,
                 4,
                 RGBColor(150, 150, 150).into(),
             ))
+            .map_err(fail(name))?;
+            let label = if t < 0.5 {
+                format!("{w} at or below {}", tick(t))
+            } else {
+                format!("{w} from {}", tick(t))
+            };
+            c.draw_series(std::iter::once(Text::new(
+                label,
+                (n as f64 * 0.02, t + 0.045),
+                ("sans-serif", 11).into_font().color(&RGBColor(90, 90, 90)),
+            )))
             .map_err(fail(name))?;
         }
         c.draw_series(v.iter().enumerate().map(|(i, &(_, lo, hi))| {
@@ -126,8 +189,12 @@ pub fn pi_posterior_figure(curves: &[(String, Vec<(f64, f64)>)]) -> Result<Strin
             .build_cartesian_2d(0f64..1f64, 0f64..ymax)
             .map_err(fail(name))?;
         c.configure_mesh()
+            .light_line_style(TRANSPARENT)
+            .bold_line_style(RGBColor(215, 215, 215))
             .x_desc("proportion female, π")
             .y_desc("posterior density")
+            .x_label_formatter(&|v| tick(*v))
+            .y_label_formatter(&|v| tick(*v))
             .draw()
             .map_err(fail(name))?;
         for (k, (label, pts)) in curves.iter().enumerate() {
@@ -143,7 +210,15 @@ pub fn pi_posterior_figure(curves: &[(String, Vec<(f64, f64)>)]) -> Result<Strin
                 c.draw_series(DashedLineSeries::new(pts.clone(), dash, gap, style))
                     .map_err(fail(name))?
                     .label(label.clone())
-                    .legend(move |(x, y)| PathElement::new(vec![(x, y), (x + 20, y)], style));
+                    // The legend's sample is dashed as its curve is (legible in greyscale).
+                    .legend(move |(x, y)| {
+                        plotters::element::DashedPathElement::new(
+                            vec![(x, y), (x + 24, y)],
+                            dash,
+                            gap,
+                            style,
+                        )
+                    });
             }
         }
         c.configure_series_labels()
@@ -188,6 +263,8 @@ pub fn lr_by_region_figure(
             .map_err(fail(name))?;
         let labels: Vec<String> = rows.iter().map(|r| r.0.clone()).collect();
         c.configure_mesh()
+            .light_line_style(TRANSPARENT)
+            .bold_line_style(RGBColor(215, 215, 215))
             .disable_y_mesh()
             .x_desc("log10 LR (positive: female, negative: male; beyond ±10 drawn at the edge)")
             .y_desc("individual")
@@ -280,6 +357,8 @@ pub fn age_figure(age: &AgeBySex) -> Result<String, FigureError> {
             .build_cartesian_2d(0f64..k as f64, 0f64..ymax)
             .map_err(fail(name))?;
         c.configure_mesh()
+            .light_line_style(TRANSPARENT)
+            .bold_line_style(RGBColor(215, 215, 215))
             .disable_x_mesh()
             .x_labels(0)
             .x_desc("age at death (years)")
@@ -360,8 +439,12 @@ pub fn calibration_figure(bins: &[(f64, f64, usize)]) -> Result<String, FigureEr
             .build_cartesian_2d(0f64..1f64, 0f64..1f64)
             .map_err(fail(name))?;
         c.configure_mesh()
+            .light_line_style(TRANSPARENT)
+            .bold_line_style(RGBColor(215, 215, 215))
             .x_desc("mean predicted P(female) in the bin")
             .y_desc("share of documented females")
+            .x_label_formatter(&|v| tick(*v))
+            .y_label_formatter(&|v| tick(*v))
             .draw()
             .map_err(fail(name))?;
         c.draw_series(DashedLineSeries::new(

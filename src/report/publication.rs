@@ -273,6 +273,18 @@ pub fn figures_svg(r: &AnalysisResult) -> Result<OutputSet, RenderError> {
     if let Some(age) = &by_sex.age {
         out.push("figures/age_at_death.svg", figures::age_figure(age)?);
     }
+    // A PNG beside every SVG, for word processors and journals that take raster images.
+    let pngs: Vec<(String, Vec<u8>)> = out
+        .files
+        .iter()
+        .filter_map(|f| {
+            let stem = f.name.strip_suffix(".svg")?;
+            Some(figures::png_of(&f.name, &f.bytes).map(|png| (format!("{stem}.png"), png)))
+        })
+        .collect::<Result<_, _>>()?;
+    for (name, png) in pngs {
+        out.push(&name, png);
+    }
     Ok(out)
 }
 
@@ -555,18 +567,8 @@ pub fn methods_md(r: &AnalysisResult) -> String {
 pub fn report_md_and_tex(r: &AnalysisResult, files: &[String]) -> (String, String) {
     let mut m = String::new();
     let mut t = String::new();
-    for section in [
-        what_was_analysed,
-        proportion_female_section,
-        categories_section,
-        sensitivity_section,
-        groups_section,
-        age_section,
-        prevalence_section,
-    ] {
-        section(r, &mut m, &mut t);
-    }
-    // The report's warnings are the flagged blocks then the reader's warnings.
+    what_was_analysed(r, &mut m, &mut t);
+    // Warnings come before the results they qualify: the flagged blocks, then the reader's.
     let flagged = &r.flagged;
     let a = &r.assemblage;
     if !a.warnings.is_empty() || !flagged.is_empty() {
@@ -578,6 +580,39 @@ pub fn report_md_and_tex(r: &AnalysisResult, files: &[String]) -> (String, Strin
             let _ = writeln!(m, "- {w}");
         }
         let _ = writeln!(m);
+    }
+    for section in [
+        proportion_female_section,
+        categories_section,
+        sensitivity_section,
+        groups_section,
+        age_section,
+        prevalence_section,
+    ] {
+        section(r, &mut m, &mut t);
+    }
+    // The figures, shown (PNG beside each SVG; the SVG is the one to edit or print large).
+    let captions = [
+        ("figures/p_female.png", "Each individual's posterior probability of female under the chosen prior (dots), with its range across the priors of the sensitivity set (bars); dashed lines: the category cut-offs."),
+        ("figures/pi_posterior.png", "Posterior of the proportion female of the assemblage (as one population) under each prior that is not fixed."),
+        ("figures/lr_by_region.png", "log10 likelihood ratio of each body region for each individual with usable evidence."),
+        ("figures/age_at_death.png", "Age at death by sex over the joint posterior draws."),
+    ];
+    let shown: Vec<&(&str, &str)> = captions
+        .iter()
+        .filter(|(f, _)| files.iter().any(|x| x == f))
+        .collect();
+    if !shown.is_empty() {
+        let _ = writeln!(m, "## Figures\n");
+        for (k, (f, cap)) in shown.iter().enumerate() {
+            let _ = writeln!(
+                m,
+                "![Figure {}]({f})\n\n*Figure {}.* {cap} (Vector version: `{}`.)\n",
+                k + 1,
+                k + 1,
+                f.replace(".png", ".svg")
+            );
+        }
     }
     let _ = writeln!(m, "## Files\n");
     for f in files {
