@@ -396,9 +396,10 @@ pub fn case_html(markdown: &str, title: &str) -> String {
         let t = line.trim_end();
         if t.starts_with('|') {
             let cells: Vec<&str> = t.trim_matches('|').split('|').map(str::trim).collect();
+            // The separator row: every cell dashes (an empty header cell is not one).
             if cells
                 .iter()
-                .all(|c| c.chars().all(|x| x == '-' || x == ':'))
+                .all(|c| c.contains('-') && c.chars().all(|x| x == '-' || x == ':'))
             {
                 continue;
             }
@@ -497,6 +498,10 @@ mod tests {
         assert!(h.contains("<td>1 &amp; 2</td><td><code>x</code></td>"));
         assert!(h.contains("<li><strong>y</strong></li>"));
         assert!(h.contains("<title>t&lt;</title>"));
+        // A table whose header cells are empty keeps its first row as data.
+        let h = case_html("| | |\n|---|---|\n| Case | K-1 |\n", "t");
+        assert!(h.contains("<tr><th></th><th></th></tr>"), "{h}");
+        assert!(h.contains("<tr><td>Case</td><td>K-1</td></tr>"), "{h}");
         assert!(!h.contains("<script"));
     }
 }
