@@ -191,7 +191,7 @@ pub fn case_report(
     let cat = &model.catalogue;
     let mut regions = Vec::new();
     let mut warnings = Vec::new();
-    for (b, e) in model.blocks.iter().zip(&ev.blocks) {
+    for (bi, (b, e)) in model.blocks.iter().zip(&ev.blocks).enumerate() {
         let used = e.status == BlockStatus::Used;
         let known = b.trait_ids();
         let traits = e
@@ -206,7 +206,7 @@ pub fn case_report(
                     .as_ref()
                     .map(recorded_text)
                     .unwrap_or_default(),
-                log10_lr_alone: alone(model, ind, b.id(), k, &ctx),
+                log10_lr_alone: alone(model, ind, bi, k, &ctx),
             })
             .collect();
         let not_recorded = known
@@ -295,9 +295,9 @@ pub fn case_report(
     })
 }
 
-/// log10 LR of trait `k` alone in block `block`: the individual with every other trait
-/// removed, evaluated by the same model (so the same integration and seed).
-fn alone(model: &Model, ind: &Individual, block: &str, k: usize, ctx: &Context) -> Option<f64> {
+/// log10 LR of trait `k` alone in block `b` (its index in the model): the individual with
+/// every other trait removed, evaluated by the same model (so the same integration and seed).
+fn alone(model: &Model, ind: &Individual, b: usize, k: usize, ctx: &Context) -> Option<f64> {
     let mut one = ind.clone();
     for (j, o) in one.observations.iter_mut().enumerate() {
         if j != k {
@@ -305,7 +305,6 @@ fn alone(model: &Model, ind: &Individual, block: &str, k: usize, ctx: &Context) 
         }
     }
     let e = model.evaluate(&one, ctx);
-    let b = model.blocks.iter().position(|b| b.id() == block)?;
     (e.blocks[b].status == BlockStatus::Used).then(|| e.blocks[b].ln_lr / LN_10)
 }
 

@@ -20,19 +20,28 @@ fn setup() -> (Model, Assemblage) {
     (model, a)
 }
 
-#[test]
-fn the_case_numbers_are_the_ledgers() {
-    let (model, a) = setup();
-    let c = case_report(
-        &model,
-        &a,
-        "C-1",
-        &[],
+/// The report of `id` under `priors`, default cut-offs and details, seed 1.
+fn report(
+    model: &Model,
+    a: &Assemblage,
+    id: &str,
+    priors: &[Prior],
+) -> Result<CaseReport, CaseError> {
+    case_report(
+        model,
+        a,
+        id,
+        priors,
         &Thresholds::default(),
         CaseDetails::default(),
         1,
     )
-    .unwrap();
+}
+
+#[test]
+fn the_case_numbers_are_the_ledgers() {
+    let (model, a) = setup();
+    let c = report(&model, &a, "C-1", &[]).unwrap();
     let ev = crate::likelihood::evaluate_assemblage(&model, &a, &Context::new(1));
     let rows = ledger_rows(&model, &a, &ev);
     for (r, region) in rows.iter().filter(|(i, _)| *i == 0).zip(&c.regions) {
@@ -62,16 +71,7 @@ fn the_case_numbers_are_the_ledgers() {
 #[test]
 fn a_trait_alone_is_its_regions_ratio_when_it_is_the_only_one() {
     let (model, a) = setup();
-    let c = case_report(
-        &model,
-        &a,
-        "C-1",
-        &[],
-        &Thresholds::default(),
-        CaseDetails::default(),
-        1,
-    )
-    .unwrap();
+    let c = report(&model, &a, "C-1", &[]).unwrap();
     // The postcranial block has only the femoral head recorded: alone = the region.
     let post = c.regions.iter().find(|r| r.block == "postcranial").unwrap();
     assert_eq!(post.traits.len(), 1);
@@ -82,40 +82,13 @@ fn a_trait_alone_is_its_regions_ratio_when_it_is_the_only_one() {
 fn a_prior_gives_the_closed_form_posterior_and_an_unknown_id_is_named() {
     let (model, a) = setup();
     let p = crate::prior::Prior::fixed(0.3).unwrap();
-    let c = case_report(
-        &model,
-        &a,
-        "C-1",
-        &[p],
-        &Thresholds::default(),
-        CaseDetails::default(),
-        1,
-    )
-    .unwrap();
+    let c = report(&model, &a, "C-1", &[p]).unwrap();
     let lr = 10f64.powf(c.log10_lr);
     let want = lr * 0.3 / (lr * 0.3 + 0.7);
     assert!((c.under_priors[0].p_female - want).abs() < 1e-12);
-    let none = case_report(
-        &model,
-        &a,
-        "C-2",
-        &[],
-        &Thresholds::default(),
-        CaseDetails::default(),
-        1,
-    )
-    .unwrap();
+    let none = report(&model, &a, "C-2", &[]).unwrap();
     assert!(!none.estimable);
-    let e = case_report(
-        &model,
-        &a,
-        "C-9",
-        &[],
-        &Thresholds::default(),
-        CaseDetails::default(),
-        1,
-    )
-    .unwrap_err();
+    let e = report(&model, &a, "C-9", &[]).unwrap_err();
     assert!(
         e.to_string().contains("`C-9` is not an id of case.csv"),
         "{e}"

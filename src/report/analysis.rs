@@ -179,9 +179,7 @@ fn individuals_csv(r: &AnalysisResult) -> Result<Vec<u8>, RenderError> {
         .filter_map(|w| w.row)
         .collect();
     let mut rows = vec![head];
-    // Digits the values support: P(female) under the group hierarchy is good to about 5e-5
-    // (tests/reference_hierarchy.rs), elsewhere to about 1e-9.
-    let digits = |hier: bool| if hier { 4 } else { 6 };
+    let digits = super::number::probability_decimals;
     let main_digits = digits(main.hyper.is_some());
     let any_digits = digits(analysis.results().any(|r| r.hyper.is_some()));
     let prob = |p: f64| super::number::probability_to(p, main_digits);
@@ -365,7 +363,12 @@ fn sensitivity_csv(r: &AnalysisResult) -> Result<Vec<u8>, RenderError> {
     for (i, ind) in r.assemblage.individuals.iter().enumerate() {
         for x in &all {
             let p = x.p_female[i]
-                .map(|p| super::number::probability_to(p, if x.hyper.is_some() { 4 } else { 6 }))
+                .map(|p| {
+                    super::number::probability_to(
+                        p,
+                        super::number::probability_decimals(x.hyper.is_some()),
+                    )
+                })
                 .unwrap_or_default();
             text.row([
                 ind.id.as_str(),

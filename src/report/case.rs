@@ -115,11 +115,7 @@ pub fn ratio_words(log10_lr: f64) -> String {
 
 /// A signed number with a real minus sign, for reading.
 fn signed(x: f64, decimals: usize) -> String {
-    let s = super::number::text(x, decimals);
-    match s.strip_prefix('-') {
-        Some(rest) => format!("−{rest}"),
-        None => s,
-    }
+    super::number::reading(x, decimals)
 }
 
 fn blank(x: &Option<String>) -> String {

@@ -27,6 +27,16 @@ pub fn probability(x: f64) -> String {
     probability_to(x, 6)
 }
 
+/// Decimals a P(female) supports: the group hierarchy's are good to about 5e-5
+/// (tests/reference_hierarchy.rs), so 4; the one-population posterior's to about 1e-9, so 6.
+pub fn probability_decimals(from_hierarchy: bool) -> usize {
+    if from_hierarchy {
+        4
+    } else {
+        6
+    }
+}
+
 /// A probability for a CSV cell with `decimals` places (for values computed less exactly:
 /// the group hierarchy's are good to about 5e-5, so they get 4), in two significant digits
 /// of scientific form below 10^−decimals; empty when not finite.
