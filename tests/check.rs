@@ -260,4 +260,34 @@ fn two_observers_are_compared() {
     assert!(text.contains("glabella") && text.contains("femur_head_diameter"));
     let head = std::fs::read_to_string(dir.path().join("disagreements.csv")).unwrap();
     assert!(head.starts_with("id,trait,first,second\n"));
+    // agreement.csv is long: one row per trait and statistic, every header name once.
+    let mut r = csv::Reader::from_path(dir.path().join("agreement.csv")).unwrap();
+    let names: Vec<String> = r.headers().unwrap().iter().map(String::from).collect();
+    let mut unique = names.clone();
+    unique.sort();
+    unique.dedup();
+    assert_eq!(unique.len(), names.len(), "{names:?}");
+    let rows: Vec<csv::StringRecord> = r.records().map(Result::unwrap).collect();
+    let row = |t: &str, stat: &str| {
+        rows.iter()
+            .find(|x| &x[0] == t && &x[4] == stat)
+            .unwrap_or_else(|| panic!("no {t} {stat}"))
+            .clone()
+    };
+    let k = row("glabella", "kappa_quadratic");
+    let (est, lo, hi): (f64, f64, f64) = (
+        k[5].parse().unwrap(),
+        k[6].parse().unwrap(),
+        k[7].parse().unwrap(),
+    );
+    assert!(lo <= est && est <= hi);
+    // 21 pairs of five grades is below 2k² = 50: the kappa rows say so, and so does stderr.
+    assert!(k[8].contains("needs 50"), "{k:?}");
+    assert!(row("glabella", "exact_agreement")[8].is_empty());
+    assert!(row("femur_head_diameter", "icc_2_1")[8].is_empty());
+    assert!(
+        stderr(&out).contains("warning: glabella: 21 pairs"),
+        "{}",
+        stderr(&out)
+    );
 }

@@ -107,6 +107,8 @@ pub enum AgreementMeasures {
         exact_agreement: f64,
         /// Pairs left out because one observer gave a grade range.
         ranges_left_out: usize,
+        /// Pairs a kappa on this scale needs ([`kappa_pairs_needed`]).
+        pairs_needed: usize,
         /// The polychoric correlation r of the two observers' scores (thresholds from each
         /// observer's own marginal shares) and the observer-error SD as a share of the scored
         /// latent SD, √(1 − r) (see [`observer_error`]).
@@ -135,6 +137,16 @@ pub struct TraitAgreement {
 }
 
 impl TraitAgreement {
+    /// The pairs a kappa would need, when this trait has fewer ([`kappa_pairs_needed`]).
+    pub fn too_few_pairs(&self) -> Option<usize> {
+        match self.measures {
+            AgreementMeasures::Grades { pairs_needed, .. } if self.n < pairs_needed => {
+                Some(pairs_needed)
+            }
+            _ => None,
+        }
+    }
+
     /// `ordinal` or `metric`, as the catalogue names the kinds.
     pub fn kind(&self) -> &'static str {
         match self.measures {
@@ -193,6 +205,15 @@ pub fn observer_error(pairs: &[(i32, i32)], lowest: i32, highest: i32) -> Option
         .collect();
     let r = estimate(&ma, &mb, &cases).rho;
     (r > 0.0).then(|| (r, (1.0 - r).sqrt()))
+}
+
+/// The fewest pairs for which a weighted kappa's large-sample interval holds on a scale of
+/// `grades` grades: 2k² (Cicchetti 1981, Applied Psychological Measurement 5:101–104, from
+/// memory), 50 pairs for five grades. Fewer pairs still give a kappa, with an interval too
+/// unstable to rely on.
+pub fn kappa_pairs_needed(lowest: i32, highest: i32) -> usize {
+    let k = (highest - lowest + 1).max(1) as usize;
+    2 * k * k
 }
 
 /// One disagreement between the observers.
@@ -322,6 +343,7 @@ impl Pairing<'_> {
                 exact_agreement: pairs.iter().filter(|(x, y)| x == y).count() as f64
                     / pairs.len() as f64,
                 ranges_left_out: ranges,
+                pairs_needed: kappa_pairs_needed(lo, hi),
                 observer_error: observer_error(&pairs, lo, hi),
             },
         })

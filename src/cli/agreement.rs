@@ -4,7 +4,7 @@ use super::input::InputArgs;
 use crate::agreement::compare;
 use crate::data::read_assemblage;
 use crate::output::write_folder;
-use crate::report::agreement::{agreement_files, agreement_summary};
+use crate::report::agreement::{agreement_files, agreement_summary, agreement_warnings};
 use crate::Error;
 use std::path::{Path, PathBuf};
 
@@ -58,6 +58,9 @@ pub fn run(args: Args) -> Result<i32, Error> {
         });
     }
     print!("{}", agreement_summary(&r));
+    for w in agreement_warnings(&r) {
+        eprintln!("warning: {w}");
+    }
     if let Some(out) = &args.out {
         let protected: Vec<&Path> = vec![args.first.as_path(), args.second.as_path()];
         write_folder(out, &agreement_files(&r)?, "agreement", &protected)?;

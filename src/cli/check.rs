@@ -1,6 +1,6 @@
 //! `tessera check FILE`: validate an input table and summarise how complete it is.
 
-use super::input::InputArgs;
+use super::input::{GroupArgs, InputArgs};
 use crate::data::{read_assemblage, Completeness, InputError, TableFormat};
 use crate::Error;
 use clap::ValueEnum;
@@ -34,6 +34,9 @@ pub struct Args {
     /// How to read the table.
     #[command(flatten)]
     pub input: InputArgs,
+    /// Which column holds the groups.
+    #[command(flatten)]
+    pub groups: GroupArgs,
 }
 
 #[derive(Serialize)]
@@ -57,7 +60,7 @@ pub fn run(args: Args) -> Result<i32, Error> {
         args.minimum_age,
     )?;
     let catalogue = &model.catalogue;
-    let settings = args.input.settings(catalogue)?;
+    let settings = args.input.settings_grouped(catalogue, &args.groups)?;
     let minimum_age = model.minimum_age;
     match read_assemblage(&args.file, catalogue, &settings) {
         Ok(a) => {

@@ -27,10 +27,10 @@ pub struct InputArgs {
     /// Which side of a bilateral trait to use when both are recorded.
     #[arg(long = "sides", value_enum, default_value = "left-first")]
     pub sides: SideArg,
-    /// Grades by which the two sides may differ before a warning (default 1).
+    /// Grades by which the two sides may differ before a warning.
     #[arg(long, value_name = "GRADES", default_value_t = 1)]
     pub side_grade_tolerance: i32,
-    /// Relative difference of two measurements before a warning (default 0.05).
+    /// Relative difference of two measurements before a warning.
     #[arg(long, value_name = "FRACTION", default_value_t = 0.05)]
     pub side_measure_tolerance: f64,
     /// YAML file mapping scores recorded on another scale onto the model's grades.
@@ -39,14 +39,20 @@ pub struct InputArgs {
     /// Worksheet to read from a workbook (default: the first).
     #[arg(long, value_name = "NAME")]
     pub sheet: Option<String>,
+}
+
+/// Which column holds the groups: only on the commands whose results are by group (`check`
+/// and `analyse`); elsewhere groups mean nothing and the option is not offered.
+#[derive(Debug, Clone, Default, clap::Args)]
+pub struct GroupArgs {
     /// Column holding the groups (burial zone, phase, site) instead of `group`.
     #[arg(long, value_name = "COLUMN")]
     pub group_by: Option<String>,
 }
 
 impl InputArgs {
-    /// The options as plain data.
-    pub fn read_options(&self) -> ReadOptions {
+    /// The options as plain data, with the groups read from `groups`' column.
+    pub fn read_options(&self, groups: &GroupArgs) -> ReadOptions {
         ReadOptions {
             missing: self.missing.clone(),
             sides: match self.sides {
@@ -58,7 +64,7 @@ impl InputArgs {
             side_measure_tolerance: self.side_measure_tolerance,
             scale_map: self.scale_map.clone(),
             sheet: self.sheet.clone(),
-            group_by: self.group_by.clone(),
+            group_by: groups.group_by.clone(),
         }
     }
 
@@ -68,6 +74,18 @@ impl InputArgs {
     /// [`Error::Options`] listing every bad option; [`Error::Settings`] or [`Error::Io`] for
     /// the scale map.
     pub fn settings(&self, catalogue: &Catalogue) -> Result<ReadSettings, Error> {
-        self.read_options().settings(catalogue)
+        self.read_options(&GroupArgs::default()).settings(catalogue)
+    }
+
+    /// [`InputArgs::settings`] with groups read from `groups`' column.
+    ///
+    /// # Errors
+    /// As [`InputArgs::settings`].
+    pub fn settings_grouped(
+        &self,
+        catalogue: &Catalogue,
+        groups: &GroupArgs,
+    ) -> Result<ReadSettings, Error> {
+        self.read_options(groups).settings(catalogue)
     }
 }

@@ -1,9 +1,10 @@
-//! What `tessera agreement` shows and writes: the terminal summary, `agreement.csv` (one row
-//! per trait: kappas with Cohen 1968 weights for grades, technical error of measurement and
-//! ICC(2,1) after Shrout & Fleiss 1979 for measurements) and `disagreements.csv`.
+//! What `tessera agreement` shows and writes: the terminal summary, `agreement.csv` (tidy: one
+//! row per trait and statistic — kappas with Cohen 1968 weights for grades, technical error of
+//! measurement and ICC(2,1) after Shrout & Fleiss 1979 for measurements) and
+//! `disagreements.csv`.
 
 use super::{csv_bytes, header, RenderError};
-use crate::agreement::{Agreement, AgreementMeasures};
+use crate::agreement::{Agreement, AgreementMeasures, WithInterval};
 use crate::output::OutputSet;
 use std::fmt::Write as _;
 
@@ -47,6 +48,7 @@ pub fn agreement_summary(r: &Agreement) -> String {
             exact_agreement,
             ranges_left_out,
             observer_error,
+            ..
         } = &t.measures
         else {
             continue;
@@ -67,10 +69,10 @@ pub fn agreement_summary(r: &Agreement) -> String {
                 Some((r, share)) => format!("{r:.2}       {share:.2}"),
                 None => "–          –".to_string(),
             },
-            if *ranges_left_out > 0 {
-                format!("  ({ranges_left_out} ranges left out)")
-            } else {
-                String::new()
+            match ranges_left_out {
+                0 => String::new(),
+                1 => "  (1 range left out)".to_string(),
+                n => format!("  ({n} ranges left out)"),
             }
         );
     }
@@ -106,7 +108,29 @@ pub fn agreement_summary(r: &Agreement) -> String {
     s
 }
 
+/// The warnings of an agreement: every graded trait with fewer pairs than a kappa needs.
+pub fn agreement_warnings(r: &Agreement) -> Vec<String> {
+    r.traits
+        .iter()
+        .filter_map(|t| {
+            t.too_few_pairs().map(|needed| {
+                format!(
+                    "{}: {} pairs; a weighted kappa on this scale needs {needed} (2k² for k grades, Cicchetti 1981) before its interval can be relied on: score more individuals twice",
+                    t.trait_id, t.n
+                )
+            })
+        })
+        .collect()
+}
+
 /// `agreement.csv` and `disagreements.csv`.
+///
+/// `agreement.csv` is long ("tidy"): `trait, kind, pairs, ranges_left_out, statistic,
+/// estimate, lo, hi, note`, one row per trait and statistic, so that each column holds one
+/// kind of value. The statistics: `kappa_linear`, `kappa_quadratic` (with 95% bootstrap
+/// intervals), `exact_agreement`, `polychoric_r` and `observer_error_sd_share` for grades;
+/// `tem` (unit of the trait), `icc_2_1` (with intervals) and `relative_tem_percent` for
+/// measurements. `note` says when a kappa rests on fewer pairs than it needs.
 ///
 /// # Errors
 /// [`RenderError`] when a table cannot be built.
@@ -116,55 +140,70 @@ pub fn agreement_files(r: &Agreement) -> Result<OutputSet, RenderError> {
         "kind",
         "pairs",
         "ranges_left_out",
-        "kappa_linear_or_tem",
+        "statistic",
+        "estimate",
         "lo",
         "hi",
-        "kappa_quadratic_or_icc",
-        "lo",
-        "hi",
-        "exact_agreement_or_relative_tem",
-        "polychoric_r",
-        "observer_error_sd_share",
+        "note",
     ])];
-    // One row per trait; the columns hold the kind's own measures (kappas and exact
-    // agreement for grades, TEM, ICC and relative TEM for measurements).
     let f4 = |x: f64| super::number::cell(x, 4);
     for t in &r.traits {
-        let (first, second, third, ranges, observer) = match &t.measures {
+        let mut stats: Vec<(&str, f64, Option<&WithInterval>)> = Vec::new();
+        let mut ranges = 0;
+        match &t.measures {
             AgreementMeasures::Grades {
                 kappa_linear,
                 kappa_quadratic,
                 exact_agreement,
                 ranges_left_out,
                 observer_error,
-            } => (
-                kappa_linear,
-                kappa_quadratic,
-                *exact_agreement,
-                *ranges_left_out,
-                *observer_error,
-            ),
+                ..
+            } => {
+                ranges = *ranges_left_out;
+                stats.push(("kappa_linear", kappa_linear.value, Some(kappa_linear)));
+                stats.push((
+                    "kappa_quadratic",
+                    kappa_quadratic.value,
+                    Some(kappa_quadratic),
+                ));
+                stats.push(("exact_agreement", *exact_agreement, None));
+                if let Some((r, share)) = observer_error {
+                    stats.push(("polychoric_r", *r, None));
+                    stats.push(("observer_error_sd_share", *share, None));
+                }
+            }
             AgreementMeasures::Measurements {
                 tem,
                 icc,
                 relative_tem,
-            } => (tem, icc, *relative_tem, 0, None),
-        };
-        rows.push(vec![
-            t.trait_id.clone(),
-            t.kind().into(),
-            t.n.to_string(),
-            ranges.to_string(),
-            f4(first.value),
-            f4(first.lo),
-            f4(first.hi),
-            f4(second.value),
-            f4(second.lo),
-            f4(second.hi),
-            f4(third),
-            observer.map(|(r, _)| f4(r)).unwrap_or_default(),
-            observer.map(|(_, e)| f4(e)).unwrap_or_default(),
-        ]);
+            } => {
+                stats.push(("tem", tem.value, Some(tem)));
+                stats.push(("icc_2_1", icc.value, Some(icc)));
+                stats.push(("relative_tem_percent", *relative_tem, None));
+            }
+        }
+        for (name, estimate, interval) in stats {
+            let note = match t.too_few_pairs() {
+                Some(needed) if name.starts_with("kappa") => {
+                    format!(
+                        "{} pairs; a kappa needs {needed} (2k², Cicchetti 1981)",
+                        t.n
+                    )
+                }
+                _ => String::new(),
+            };
+            rows.push(vec![
+                t.trait_id.clone(),
+                t.kind().into(),
+                t.n.to_string(),
+                ranges.to_string(),
+                name.to_string(),
+                f4(estimate),
+                interval.map(|i| f4(i.lo)).unwrap_or_default(),
+                interval.map(|i| f4(i.hi)).unwrap_or_default(),
+                note,
+            ]);
+        }
     }
     let table = csv_bytes(rows)?;
     let mut d = vec![vec![
