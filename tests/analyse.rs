@@ -54,6 +54,7 @@ fn the_demo_gives_four_files_with_the_documented_columns() {
         "prior_sensitive",
         "p_female_equal_prior",
         "category_equal_prior",
+        "category_note",
         "age",
         "flags",
         "dna_reads",

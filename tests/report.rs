@@ -81,6 +81,17 @@ fn the_demo_writes_report_tables_methods_and_figures_that_render() {
     }
     let methods = std::fs::read_to_string(out.join("methods.md")).unwrap();
     assert!(methods.contains("Konigsberg & Hens, 1998") && methods.contains("## References"));
+    // Every reference is written out in full: authors, (year), a title, then the source.
+    let refs: Vec<&str> = methods
+        .lines()
+        .skip_while(|l| !l.starts_with("## References"))
+        .filter(|l| l.starts_with("- "))
+        .collect();
+    assert!(refs.len() >= 10, "{refs:?}");
+    for r in refs {
+        let title = r.split_once("). ").map(|(_, t)| t).unwrap_or("");
+        assert!(title.split(". ").count() >= 2, "no title or source: {r}");
+    }
     let tex = std::fs::read_to_string(out.join("tables.tex")).unwrap();
     assert_eq!(
         tex.matches("\\begin{tabular}").count(),

@@ -174,6 +174,79 @@ pub fn lr_support(log10_lr: f64) -> String {
     format!("{strength} support for {side}")
 }
 
+/// Rank of a log10 likelihood ratio on the ENFSI verbal scale of [`lr_support`]: 0 no support,
+/// 1 weak, 2 moderate, 3 moderately strong, 4 strong, 5 very strong, 6 extremely strong.
+fn support_rank(log10_lr: f64) -> u8 {
+    let m = log10_lr.abs();
+    [2f64.log10(), 1.0, 2.0, 3.0, 4.0, 6.0]
+        .iter()
+        .filter(|&&cut| m >= cut)
+        .count() as u8
+}
+
+/// Why an individual's category and the words of its likelihood ratio speak with different
+/// strength, or `None` when they agree. They can differ for two reasons, which the note names:
+/// the prior moved P(female) across a cut-off (the evidence alone, at equal prior odds, gives
+/// another category), or the category's cut-off on P(female) and the verbal scale's cut-off on
+/// the likelihood ratio do not line up (a firm call at P(female) ≥ 0.95 needs a likelihood
+/// ratio of 19 at equal odds, which the ENFSI scale calls moderate support). Strengths are
+/// taken to agree when a firm call goes with moderately strong support or more, a probable
+/// one with weak or moderate support, and indeterminate with no or weak support.
+pub fn category_note(
+    thresholds: &Thresholds,
+    category: Category,
+    log10_lr: f64,
+    prior: &str,
+) -> Option<String> {
+    let lr = 10f64.powf(log10_lr.abs());
+    let lr_words = if lr < 1e6 {
+        format!("{lr:.0} to 1")
+    } else {
+        format!("10^{:.1} to 1", log10_lr.abs())
+    };
+    let alone = thresholds.categorise(1.0 / (1.0 + 10f64.powf(-log10_lr)));
+    if category == Category::NotEstimable {
+        return None;
+    }
+    if alone != category {
+        return Some(format!(
+            "{} under the {prior} prior; the evidence alone, at equal prior odds, gives {} ({lr_words}: {})",
+            category.label(),
+            alone.label(),
+            lr_support(log10_lr)
+        ));
+    }
+    let rank = support_rank(log10_lr);
+    let agree = match category {
+        Category::Female | Category::Male => rank >= 3,
+        Category::ProbableFemale | Category::ProbableMale => (1..=2).contains(&rank),
+        _ => rank <= 1,
+    };
+    let rule = match category {
+        Category::Female => format!("P(female) ≥ {}", thresholds.female),
+        Category::ProbableFemale => format!(
+            "P(female) from {} to {}",
+            thresholds.probable_female, thresholds.female
+        ),
+        Category::ProbableMale => format!(
+            "P(female) from {} to {}",
+            thresholds.male, thresholds.probable_male
+        ),
+        Category::Male => format!("P(female) ≤ {}", thresholds.male),
+        _ => format!(
+            "P(female) from {} to {}",
+            thresholds.probable_male, thresholds.probable_female
+        ),
+    };
+    (!agree).then(|| {
+        format!(
+            "the category {} means {rule} under the {prior} prior; the likelihood ratio alone, {lr_words}, is {} on the ENFSI scale",
+            category.label(),
+            lr_support(log10_lr)
+        )
+    })
+}
+
 #[cfg(test)]
 #[path = "tests/category.rs"]
 mod tests;

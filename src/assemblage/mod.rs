@@ -8,7 +8,7 @@ pub mod hierarchy;
 pub mod posterior;
 pub mod recalibration;
 
-pub use category::{lr_support, Category, Thresholds};
+pub use category::{category_note, lr_support, Category, Thresholds};
 pub use posterior::{PiPosterior, PiSummary};
 
 use crate::model::IndividualEvidence;

@@ -120,6 +120,8 @@ pub struct Recalibration {
     pub warnings: Vec<String>,
     /// Predictive checks per measurement.
     pub checks: Vec<FitCheck>,
+    /// The settings it ran with (for the methods text).
+    pub settings: RecalibrationSettings,
 }
 
 /// A metric-only block prepared for sampling.
@@ -307,6 +309,7 @@ pub fn recalibrate(
         pi_mean,
         warnings,
         checks,
+        settings: *settings,
     }
 }
 

@@ -1,7 +1,7 @@
 //! `tessera analyse INPUT --out DIR`: posteriors for every individual and for the
 //! assemblage's proportion of females, with the prior sensitivity analysis.
 
-use super::input::InputArgs;
+use super::input::{GroupArgs, InputArgs};
 use crate::output::write_folder;
 use crate::pipeline::{render, AnalysisOptions, ModelChoice};
 use crate::report::analysis::terminal_summary;
@@ -57,6 +57,9 @@ pub struct Args {
     /// How to read the table.
     #[command(flatten)]
     pub input: InputArgs,
+    /// Which column holds the groups.
+    #[command(flatten)]
+    pub groups: GroupArgs,
 }
 
 impl Args {
@@ -77,7 +80,7 @@ impl Args {
             iterations: self.iterations,
             minimum_age: self.minimum_age,
             seed: self.seed,
-            read: self.input.read_options(),
+            read: self.input.read_options(&self.groups),
         }
     }
 }
@@ -108,7 +111,11 @@ pub fn run(args: Args) -> Result<i32, Error> {
         eprintln!("warning: {w}");
     }
     if let Some(recal) = &r.recalibration {
-        println!("Recalibrated {} means ({} individuals change category; see recalibration.csv and recalibrated_individuals.csv)", recal.means.len(), r.recalibration_changes());
+        let changes = match r.recalibration_changes() {
+            1 => "1 individual changes".to_string(),
+            n => format!("{n} individuals change"),
+        };
+        println!("Recalibrated {} means of the measurements: {changes} category with them (recalibrated_individuals.csv). The summary below and every other table and figure use the model's reference means.", recal.means.len());
     }
     print!("{}", terminal_summary(&r));
     for f in &r.flagged {

@@ -2,7 +2,7 @@
 //!
 //! `individuals.csv`: `id, group, status, n_traits, log10_lr, lr_support, p_female, p_male,
 //! category, p_female_min, p_female_max, prior_sensitive, p_female_equal_prior,
-//! category_equal_prior, age, flags, dna_reads, y_fraction`, then `log10_lr_<block>` for every
+//! category_equal_prior, category_note, age, flags, dna_reads, y_fraction`, then `log10_lr_<block>` for every
 //! block of the model (empty where the block was not used), then every input column the model
 //! did not use, unchanged. Individuals without usable evidence have `status = not_estimable`,
 //! `category = not_estimable` and empty numbers.
@@ -30,7 +30,7 @@
 
 use super::RenderError;
 use crate::assemblage::draws::count_summary;
-use crate::assemblage::{lr_support, Category, PriorResult};
+use crate::assemblage::{category_note, lr_support, Category, PriorResult};
 use crate::model::{BlockStatus, IndividualEvidence, Model};
 use crate::output::OutputSet;
 use crate::results::{AnalysisResult, RunInfo};
@@ -164,6 +164,7 @@ fn individuals_csv(r: &AnalysisResult) -> Result<Vec<u8>, RenderError> {
         "prior_sensitive",
         "p_female_equal_prior",
         "category_equal_prior",
+        "category_note",
         "age",
         "flags",
         "dna_reads",
@@ -215,6 +216,19 @@ fn individuals_csv(r: &AnalysisResult) -> Result<Vec<u8>, RenderError> {
             match equal {
                 Some(p) => analysis.thresholds.categorise(p).as_str().to_string(),
                 None => main.categories[i].as_str().to_string(),
+            },
+            // Where the category and the words of the LR speak with different strength,
+            // why (the prior, or the cut-offs of the two scales).
+            if est {
+                category_note(
+                    &analysis.thresholds,
+                    main.categories[i],
+                    ev.ln_lr / LN_10,
+                    &main.prior.name,
+                )
+                .unwrap_or_default()
+            } else {
+                String::new()
             },
             ind.age.map(age_text).unwrap_or_default(),
             flags(disagreeing.contains(&ind.row), ev, s.prior_sensitive),

@@ -19,6 +19,10 @@ fn f1(x: f64) -> String {
     super::number::reading(x, 1)
 }
 
+fn f2(x: f64) -> String {
+    super::number::reading(x, 2)
+}
+
 /// The headline proportion female, named with its model: with groups (and a prior that lets
 /// them differ) the population behind the groups, μ, with the one-population value beside.
 fn headline_sentence(main: &crate::assemblage::PriorResult) -> String {
@@ -310,12 +314,9 @@ pub fn references_used(
     }
     let mut refs = Vec::new();
     if used_latent {
-        refs.push("Konigsberg, L. W., & Hens, S. M. (1998). American Journal of Physical Anthropology, 107, 97–112.".to_string());
-        refs.push(
-            "Genz, A. (1992). Journal of Computational and Graphical Statistics, 1, 141–149."
-                .to_string(),
-        );
-        refs.push("Genz, A. (2004). Statistics and Computing, 14, 251–260.".to_string());
+        for key in ["Konigsberg & Hens 1998", "Genz 1992", "Genz 2004"] {
+            refs.push(citations::work(key));
+        }
     }
     // The works behind each trait used, from the catalogue's sources, in catalogue order.
     for d in model.catalogue.traits() {
@@ -331,36 +332,26 @@ pub fn references_used(
     }
     let fitted = is_fitted(model);
     if fitted && used_latent {
-        refs.push("McCullagh, P. (1980). Journal of the Royal Statistical Society, Series B, 42, 109–142.".into());
-        refs.push("Olsson, U. (1979). Psychometrika, 44, 443–460.".into());
-        refs.push(
-            "Olsson, U., Drasgow, F., & Dorans, N. J. (1982). Psychometrika, 47, 337–347.".into(),
-        );
+        for key in [
+            "McCullagh 1980",
+            "Olsson 1979",
+            "Olsson, Drasgow & Dorans 1982",
+        ] {
+            refs.push(citations::work(key));
+        }
     }
     // The default model's femoral means come from Noussios et al.; a fitted model's do not.
     if !fitted
         && (used_traits.contains("femur_head_diameter")
             || used_traits.contains("femur_midshaft_circumference"))
     {
-        refs.push(
-            "Noussios, G., et al. (2019). Journal of Clinical Medicine Research, 11, 740–744."
-                .into(),
-        );
+        refs.push(citations::work("Noussios et al. 2019"));
     }
-    refs.push(
-        "Bruzek, J., et al. (2017). American Journal of Physical Anthropology, 164, 440–449."
-            .into(),
-    );
-    refs.push("ENFSI (2015). Guideline for evaluative reporting in forensic science. European Network of Forensic Science Institutes.".into());
+    refs.push(citations::work("Bruzek et al. 2017"));
+    refs.push(citations::work("ENFSI 2015"));
     if !by_sex.prevalence.is_empty() {
-        refs.push(
-            "Tanner, M. A., & Wong, W. H. (1987). Journal of the American Statistical Association, 82, 528–540."
-                .into(),
-        );
-        refs.push(
-            "Gelman, A., et al. (2013). Bayesian Data Analysis (3rd ed.). Boca Raton: CRC Press."
-                .into(),
-        );
+        refs.push(citations::work("Tanner & Wong 1987"));
+        refs.push(citations::work("Gelman et al. 2013"));
     }
     refs
 }
@@ -499,12 +490,7 @@ pub fn methods_md(r: &AnalysisResult) -> String {
             main.groups.iter().map(|g| g.group.as_str()).collect::<Vec<_>>().join(", "),
         );
     }
-    let t = analysis.thresholds;
-    let _ = write!(
-        s,
-        "Individuals were called female when P(female) ≥ {}, probable female from {} to {}, indeterminate between {} and {}, probable male from {} to {} and male at or below {} (the 0.95 rule after Bruzek et al., 2017). Likelihood ratios are described with the verbal scale of the ENFSI guideline (ENFSI, 2015). ",
-        t.female, t.probable_female, t.female, t.probable_male, t.probable_female, t.male, t.probable_male, t.male
-    );
+    let _ = write!(s, "{}", categories_sentence(&analysis.thresholds));
     let further: Vec<&crate::assemblage::PriorResult> = analysis.results().skip(1).collect();
     let fixed: Vec<f64> = further
         .iter()
@@ -537,6 +523,9 @@ pub fn methods_md(r: &AnalysisResult) -> String {
             ) }
         );
     }
+    if let Some(rc) = &r.recalibration {
+        let _ = write!(s, "{}", recalibration_sentences(r, rc));
+    }
     let _ = writeln!(
         s,
         "{} The analysis used seed {}; the input file's SHA-256 is `{}`.\n",
@@ -557,8 +546,79 @@ pub fn methods_md(r: &AnalysisResult) -> String {
     for r in references_used(model, evidence, by_sex) {
         let _ = writeln!(s, "- {r}");
     }
-    let _ = writeln!(s, "\nEntries give author, year and where published; check them against the sources and add titles in your journal's style before publication.");
+    let _ = writeln!(s, "\nReferences are in APA style; check them against the sources and restyle them for your journal before publication.");
     s
+}
+
+/// How individuals were put in categories. With the cut-offs at 0.95 / 0.05, the firm calls
+/// follow the published convention of assigning a sex only at a posterior probability of at
+/// least 0.95 (Bruzek et al. 2017); the three labels between are this program's own.
+fn categories_sentence(t: &crate::assemblage::Thresholds) -> String {
+    let convention = t.female == 0.95 && t.male == 0.05;
+    format!(
+        "{} An individual was labelled female when P(female) ≥ {}, male when P(female) ≤ {}, and otherwise probable female ({} to {}), indeterminate ({} to {}) or probable male ({} to {}){}. The likelihood ratios (the evidence alone, before any prior) are described with the verbal scale of the ENFSI guideline (ENFSI, 2015); an individual's category depends on the prior as well, so the two may differ in strength. ",
+        if convention {
+            "Sex was assigned only when its posterior probability reached 0.95, the published convention for a firm call (Bruzek et al., 2017)."
+        } else {
+            "The cut-offs on P(female) were chosen by the analyst."
+        },
+        t.female,
+        t.male,
+        t.probable_female,
+        t.female,
+        t.probable_male,
+        t.probable_female,
+        t.male,
+        t.probable_male,
+        if convention {
+            "; these intermediate labels and their cut-offs are this program's, not part of the convention"
+        } else {
+            ""
+        },
+    )
+}
+
+/// The recalibration in words: what was recalibrated, how, whether the chains converged, and
+/// which outputs use the recalibrated means (only `recalibrated_individuals.csv`: every other
+/// table and figure uses the model's reference means).
+fn recalibration_sentences(
+    r: &AnalysisResult,
+    rc: &crate::assemblage::recalibration::Recalibration,
+) -> String {
+    let mut traits: Vec<String> = Vec::new();
+    for m in &rc.means {
+        let name = r
+            .model
+            .catalogue
+            .get(&m.trait_id)
+            .map(|d| d.name.clone())
+            .unwrap_or_else(|| m.trait_id.clone());
+        if !traits.contains(&name) {
+            traits.push(name);
+        }
+    }
+    if traits.is_empty() {
+        return "Recalibration of the measurements was asked for, but the model has no block made only of measurements, so nothing was recalibrated. ".into();
+    }
+    let st = &rc.settings;
+    format!(
+        "The per-sex means of the measurements ({}) were recalibrated to this assemblage: each mean of the target population had a normal prior centred on the reference mean with a standard deviation of {} reference within-sex SD, the reference within-sex covariances were kept, and the other blocks anchored each individual's sex; the joint posterior was sampled by Gibbs sampling with data augmentation of missing measurements (Tanner & Wong, 1987), {} chains of {} iterations ({} discarded), checked by split-R-hat and effective sample size (Gelman et al., 2013){}. The tables, counts and figures reported here use the model's reference means; the posterior probabilities with the recalibrated means are given separately (recalibrated_individuals.csv), where {}. ",
+        traits.join(", "),
+        st.shift,
+        st.chains,
+        st.iterations,
+        st.burn_in,
+        if rc.warnings.is_empty() {
+            format!("; every parameter met R-hat ≤ {} and ESS ≥ {}", st.max_rhat, st.min_ess)
+        } else {
+            format!("; {} did not meet R-hat ≤ {} and ESS ≥ {}", rc.warnings.len(), st.max_rhat, st.min_ess)
+        },
+        match r.recalibration_changes() {
+            0 => "no individual changes category".to_string(),
+            1 => "one individual changes category".to_string(),
+            n => format!("{n} individuals change category"),
+        },
+    )
 }
 
 /// The readable report and the LaTeX tables; `files` are the names of every file of the
@@ -588,6 +648,7 @@ pub fn report_md_and_tex(r: &AnalysisResult, files: &[String]) -> (String, Strin
         groups_section,
         age_section,
         prevalence_section,
+        recalibration_section,
     ] {
         section(r, &mut m, &mut t);
     }
@@ -727,6 +788,97 @@ fn categories_section(r: &AnalysisResult, m: &mut String, t: &mut String) {
         let _ = writeln!(m, "| {} | {} |", c.label(), n);
         let _ = writeln!(t, "{} & {} \\\\", c.label(), n);
     }
+    let _ = writeln!(t, "\\bottomrule\n\\end{{tabular}}\n\\end{{table}}\n");
+    // The categories and the verbal scale of the likelihood ratios measure different things.
+    let noted: Vec<&str> = r
+        .assemblage
+        .individuals
+        .iter()
+        .zip(&r.evidence)
+        .zip(&main.categories)
+        .filter(|((_, e), c)| {
+            e.estimable
+                && crate::assemblage::category_note(
+                    &r.results.thresholds,
+                    **c,
+                    e.ln_lr / LN_10,
+                    &main.prior.name,
+                )
+                .is_some()
+        })
+        .map(|((i, _), _)| i.id.as_str())
+        .collect();
+    let _ = writeln!(
+        m,
+        "\nThe categories are cut-offs on P(female) under the {} prior, so they depend on the prior; the words beside each likelihood ratio (`lr_support` in individuals.csv, ENFSI 2015) grade the evidence alone. {}\n",
+        md(&main.prior.name),
+        if noted.is_empty() {
+            "For every individual the two speak with the same strength.".to_string()
+        } else {
+            format!(
+                "Where the two speak with different strength, `category_note` says why: {} ({}).",
+                match noted.len() {
+                    1 => "one individual".to_string(),
+                    n => format!("{n} individuals"),
+                },
+                noted.join(", ")
+            )
+        }
+    );
+}
+
+/// The recalibrated means beside the reference ones, and which outputs use them.
+fn recalibration_section(r: &AnalysisResult, m: &mut String, t: &mut String) {
+    let Some(rc) = &r.recalibration else {
+        return;
+    };
+    let _ = writeln!(
+        m,
+        "## Recalibrated measurements
+"
+    );
+    let _ = writeln!(
+        m,
+        "{}
+",
+        recalibration_sentences(r, rc).trim_end()
+    );
+    if rc.means.is_empty() {
+        return;
+    }
+    let _ = writeln!(m, "| measurement | sex | reference mean | recalibrated mean (95% interval) | R-hat | ESS |\n|---|---|---|---|---|---|");
+    let _ = writeln!(t, "\\begin{{table}}\n\\centering\n\\caption{{Per-sex means of the measurements: the reference model's and those recalibrated to this assemblage (posterior mean and 95\\% interval).}}\n\\begin{{tabular}}{{llrrrr}}\n\\toprule\nMeasurement & Sex & Reference & Recalibrated & R-hat & ESS \\\\\n\\midrule");
+    for x in &rc.means {
+        let name = r
+            .model
+            .catalogue
+            .get(&x.trait_id)
+            .map(|d| d.name.clone())
+            .unwrap_or_else(|| x.trait_id.clone());
+        let sex = if x.sex == "F" { "female" } else { "male" };
+        let _ = writeln!(
+            m,
+            "| {} | {sex} | {:.2} | {:.2} ({}) | {:.3} | {:.0} |",
+            md(&name),
+            x.reference,
+            x.mean,
+            range(x.lo, x.hi, f2),
+            x.rhat,
+            x.ess
+        );
+        let _ = writeln!(
+            t,
+            "{} & {sex} & {} & {} ({} to {}) & {:.3} & {:.0} \\\\",
+            tex(&name),
+            super::number::latex(x.reference, 2),
+            super::number::latex(x.mean, 2),
+            super::number::latex(x.lo, 2),
+            super::number::latex(x.hi, 2),
+            x.rhat,
+            x.ess
+        );
+    }
+    let _ = writeln!(m);
     let _ = writeln!(t, "\\bottomrule\n\\end{{tabular}}\n\\end{{table}}\n");
 }
 
