@@ -61,14 +61,15 @@ pub fn png_of(name: &str, svg: &[u8]) -> Result<Vec<u8>, FigureError> {
     pix.encode_png().map_err(|e| err(e.to_string()))
 }
 
-/// A tick label without spurious decimals: 0.25, 0.5, 2, 10 (never 2.0 or 10.0).
+/// A tick label without spurious decimals and with a real minus sign: 0.25, 0.5, 2, 10, −3
+/// (never 2.0, 10.0 or -3).
 fn tick(v: f64) -> String {
     let s = format!("{v:.2}");
     let s = s.trim_end_matches('0').trim_end_matches('.');
     if s == "-0" {
         "0".into()
     } else {
-        s.into()
+        s.replace('-', "\u{2212}")
     }
 }
 
@@ -87,6 +88,116 @@ const GREYS: [RGBColor; 6] = [
     RGBColor(90, 90, 90),
     RGBColor(150, 150, 150),
 ];
+
+/// A marker's shape (the regions of the LR figure are told apart by shape and grey).
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum Shape {
+    /// Filled circle.
+    Dot,
+    /// Filled triangle.
+    Triangle,
+    /// Small cross.
+    Cross,
+    /// Open circle.
+    Ring,
+    /// Large thin cross.
+    BigCross,
+}
+
+/// How one series looks. The series and its legend sample are both drawn from this one value,
+/// so a legend cannot show another style than its curve, bars or markers.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum Look {
+    /// A line: grey, width, and dash and gap lengths (`None`: solid).
+    Line(RGBColor, u32, Option<(u32, u32)>),
+    /// A marker.
+    Marker(RGBColor, Shape),
+    /// A filled bar.
+    Bar(RGBColor),
+}
+
+/// A marker of `shape` at `p`, in any coordinate system.
+fn marker<'b, C: Clone + 'static>(
+    grey: RGBColor,
+    shape: Shape,
+    p: C,
+) -> DynElement<'static, SVGBackend<'b>, C> {
+    match shape {
+        Shape::Dot => Circle::new(p, 4, grey.filled()).into_dyn(),
+        Shape::Triangle => TriangleMarker::new(p, 5, grey.filled()).into_dyn(),
+        Shape::Cross => Cross::new(p, 4, grey.stroke_width(2)).into_dyn(),
+        Shape::Ring => Circle::new(p, 4, grey.stroke_width(1)).into_dyn(),
+        Shape::BigCross => Cross::new(p, 6, grey.stroke_width(1)).into_dyn(),
+    }
+}
+
+/// Width of the legend panel beside a chart, in SVG units.
+const LEGEND_WIDTH: u32 = 160;
+
+/// The legend in its own panel beside the chart (never over the data): one row per series,
+/// its sample drawn from the series' own [`Look`], then its label.
+fn draw_legend(
+    area: &DrawingArea<SVGBackend<'_>, plotters::coord::Shift>,
+    entries: &[(String, Look)],
+    name: &str,
+) -> Result<(), FigureError> {
+    let font = ("sans-serif", 12).into_font();
+    let text = TextStyle::from(font).pos(Pos::new(HPos::Left, VPos::Center));
+    for (i, (label, look)) in entries.iter().enumerate() {
+        let y = 56 + 20 * i as i32;
+        match *look {
+            Look::Line(grey, width, None) => area.draw(&PathElement::new(
+                vec![(6, y), (34, y)],
+                grey.stroke_width(width),
+            )),
+            Look::Line(grey, width, Some((dash, gap))) => {
+                area.draw(&plotters::element::DashedPathElement::new(
+                    vec![(6, y), (34, y)],
+                    dash,
+                    gap,
+                    grey.stroke_width(width),
+                ))
+            }
+            Look::Marker(grey, shape) => area.draw(&marker(grey, shape, (20, y))),
+            Look::Bar(grey) => {
+                area.draw(&Rectangle::new([(12, y - 6), (28, y + 6)], grey.filled()))
+            }
+        }
+        .map_err(fail(name))?;
+        area.draw(&Text::new(label.clone(), (42, y), text.clone()))
+            .map_err(fail(name))?;
+    }
+    Ok(())
+}
+
+/// The look of the k-th curve of the π figure: black, dark and light grey, each solid,
+/// dashed and dotted; the first three thicker.
+pub fn curve_look(k: usize) -> Look {
+    let grey = GREYS[k % GREYS.len()];
+    let dash = match k % 3 {
+        0 => None,
+        1 => Some((6, 4)),
+        _ => Some((2, 3)),
+    };
+    Look::Line(grey, if k < 3 { 2 } else { 1 }, dash)
+}
+
+/// The look of the b-th block of the LR figure.
+pub fn region_look(b: usize) -> Look {
+    let shapes = [
+        Shape::Dot,
+        Shape::Triangle,
+        Shape::Cross,
+        Shape::Ring,
+        Shape::BigCross,
+    ];
+    let grey = if b % 5 == 4 {
+        BLACK
+    } else {
+        GREYS[b % GREYS.len()]
+    };
+    Look::Marker(grey, shapes[b % 5])
+}
 
 /// Each individual's P(female) under the chosen prior (dots) with its range across the
 /// sensitivity set (bars), sorted; dashed lines at the category thresholds.
@@ -164,7 +275,7 @@ pub fn p_female_figure(
     Ok(s)
 }
 
-/// The posterior density of π under each prior (one line style each).
+/// The posterior density of π under each prior (one line style each, [`curve_look`]).
 pub fn pi_posterior_figure(curves: &[(String, Vec<(f64, f64)>)]) -> Result<String, FigureError> {
     register_font();
     let name = "pi_posterior";
@@ -178,7 +289,8 @@ pub fn pi_posterior_figure(curves: &[(String, Vec<(f64, f64)>)]) -> Result<Strin
     {
         let root = SVGBackend::with_string(&mut s, (800, 420)).into_drawing_area();
         root.fill(&WHITE).map_err(fail(name))?;
-        let mut c = ChartBuilder::on(&root)
+        let (chart, legend) = root.split_horizontally(800 - LEGEND_WIDTH);
+        let mut c = ChartBuilder::on(&chart)
             .caption(
                 "Posterior of the proportion female under each prior",
                 ("sans-serif", 16),
@@ -197,42 +309,35 @@ pub fn pi_posterior_figure(curves: &[(String, Vec<(f64, f64)>)]) -> Result<Strin
             .y_label_formatter(&|v| tick(*v))
             .draw()
             .map_err(fail(name))?;
+        let mut entries = Vec::new();
         for (k, (label, pts)) in curves.iter().enumerate() {
-            let col = GREYS[k % GREYS.len()];
-            let style = ShapeStyle::from(col).stroke_width(if k < 3 { 2 } else { 1 });
-            if k % 3 == 0 {
-                c.draw_series(LineSeries::new(pts.clone(), style))
-                    .map_err(fail(name))?
-                    .label(label.clone())
-                    .legend(move |(x, y)| PathElement::new(vec![(x, y), (x + 20, y)], style));
-            } else {
-                let (dash, gap) = if k % 3 == 1 { (6, 4) } else { (2, 3) };
-                c.draw_series(DashedLineSeries::new(pts.clone(), dash, gap, style))
-                    .map_err(fail(name))?
-                    .label(label.clone())
-                    // The legend's sample is dashed as its curve is (legible in greyscale).
-                    .legend(move |(x, y)| {
-                        plotters::element::DashedPathElement::new(
-                            vec![(x, y), (x + 24, y)],
-                            dash,
-                            gap,
-                            style,
-                        )
-                    });
+            let look = curve_look(k);
+            let Look::Line(grey, width, dash) = look else {
+                continue;
+            };
+            let style = ShapeStyle::from(grey).stroke_width(width);
+            match dash {
+                None => c.draw_series(LineSeries::new(pts.clone(), style)),
+                Some((d, g)) => c.draw_series(DashedLineSeries::new(pts.clone(), d, g, style)),
             }
-        }
-        c.configure_series_labels()
-            .border_style(BLACK)
-            .background_style(WHITE)
-            .label_font(("sans-serif", 12))
-            .draw()
             .map_err(fail(name))?;
+            entries.push((label.clone(), look));
+        }
+        draw_legend(&legend, &entries, name)?;
         root.present().map_err(fail(name))?;
     }
     Ok(s)
 }
 
-/// log10 LR of each body region for each individual (one marker shape per region).
+/// Most individuals the LR figure labels: each row gets 14 units of height (room for one
+/// line of 11-unit text), so up to this many every individual is named; beyond it the figure
+/// would be taller than 4000 units and names none (the order is that of the total LR, as
+/// individuals.csv gives it).
+pub const LR_FIGURE_MAX_LABELLED: usize = 276;
+
+/// log10 LR of each body region for each individual (one marker per region, [`region_look`]):
+/// every individual named on the left when there are at most [`LR_FIGURE_MAX_LABELLED`], none
+/// otherwise.
 pub fn lr_by_region_figure(
     blocks: &[String],
     rows: &[(String, Vec<Option<f64>>)],
@@ -240,6 +345,7 @@ pub fn lr_by_region_figure(
     register_font();
     let name = "lr_by_region";
     let n = rows.len().max(1);
+    let label_all = rows.len() <= LR_FIGURE_MAX_LABELLED;
     let height = (120 + 14 * n).clamp(300, 4000) as u32;
     let max = rows
         .iter()
@@ -251,79 +357,65 @@ pub fn lr_by_region_figure(
     {
         let root = SVGBackend::with_string(&mut s, (800, height)).into_drawing_area();
         root.fill(&WHITE).map_err(fail(name))?;
-        let mut c = ChartBuilder::on(&root)
+        let (chart, legend) = root.split_horizontally(800 - LEGEND_WIDTH);
+        let mut c = ChartBuilder::on(&chart)
             .caption(
                 "Evidence per body region (log10 likelihood ratio female:male)",
-                ("sans-serif", 16),
+                ("sans-serif", 15),
             )
             .margin(12)
             .x_label_area_size(40)
-            .y_label_area_size(90)
-            .build_cartesian_2d(-max..max, 0f64..(n as f64 + 1.0))
+            .y_label_area_size(if label_all { 90 } else { 30 })
+            .build_cartesian_2d(-max..max, 0i32..(n as i32 + 1))
             .map_err(fail(name))?;
         let labels: Vec<String> = rows.iter().map(|r| r.0.clone()).collect();
         c.configure_mesh()
             .light_line_style(TRANSPARENT)
             .bold_line_style(RGBColor(215, 215, 215))
             .disable_y_mesh()
-            .x_desc("log10 LR (positive: female, negative: male; beyond ±10 drawn at the edge)")
-            .y_desc("individual")
-            .y_labels(n.min(60))
-            .y_label_formatter(&|y| {
-                let i = y.round() as usize;
-                if i >= 1 && i <= labels.len() && (y - y.round()).abs() < 1e-9 {
-                    labels[i - 1].clone()
-                } else {
-                    String::new()
-                }
+            .x_desc("log10 LR (positive: female, negative: male; beyond ±10 at the edge)")
+            .y_desc(if label_all {
+                "individual (by total likelihood ratio)"
+            } else {
+                "individuals, by total likelihood ratio (too many to name: see individuals.csv)"
+            })
+            .x_label_formatter(&|v| tick(*v))
+            .y_labels(if label_all { n + 2 } else { 0 })
+            .y_label_style(("sans-serif", 11))
+            .y_label_formatter(&|&y| {
+                usize::try_from(y)
+                    .ok()
+                    .filter(|&i| i >= 1)
+                    .and_then(|i| labels.get(i - 1).cloned())
+                    .unwrap_or_default()
             })
             .draw()
             .map_err(fail(name))?;
         c.draw_series(std::iter::once(PathElement::new(
-            vec![(0.0, 0.0), (0.0, n as f64 + 1.0)],
+            vec![(0.0, 0), (0.0, n as i32 + 1)],
             BLACK,
         )))
         .map_err(fail(name))?;
+        let mut entries = Vec::new();
         for (b, block) in blocks.iter().enumerate() {
-            let pts: Vec<(f64, f64)> = rows
+            let look = region_look(b);
+            let Look::Marker(grey, shape) = look else {
+                continue;
+            };
+            let series: Vec<DynElement<'static, SVGBackend, (f64, i32)>> = rows
                 .iter()
                 .enumerate()
                 .filter_map(|(i, r)| {
                     r.1.get(b)
                         .copied()
                         .flatten()
-                        .map(|x| (x.clamp(-max, max), i as f64 + 1.0))
+                        .map(|x| marker(grey, shape, (x.clamp(-max, max), i as i32 + 1)))
                 })
                 .collect();
-            let col = GREYS[b % GREYS.len()];
-            let series: Vec<DynElement<'static, SVGBackend, (f64, f64)>> = pts
-                .iter()
-                .map(|&p| match b % 5 {
-                    0 => Circle::new(p, 4, col.filled()).into_dyn(),
-                    1 => TriangleMarker::new(p, 5, col.filled()).into_dyn(),
-                    2 => Cross::new(p, 4, col.stroke_width(2)).into_dyn(),
-                    3 => Circle::new(p, 4, col.stroke_width(1)).into_dyn(),
-                    _ => Cross::new(p, 6, BLACK.stroke_width(1)).into_dyn(),
-                })
-                .collect();
-            let k = b % 5;
-            c.draw_series(series)
-                .map_err(fail(name))?
-                .label(block.clone())
-                .legend(move |(x, y)| match k {
-                    0 => Circle::new((x + 10, y), 4, col.filled()).into_dyn(),
-                    1 => TriangleMarker::new((x + 10, y), 5, col.filled()).into_dyn(),
-                    2 => Cross::new((x + 10, y), 4, col.stroke_width(2)).into_dyn(),
-                    3 => Circle::new((x + 10, y), 4, col.stroke_width(1)).into_dyn(),
-                    _ => Cross::new((x + 10, y), 6, BLACK.stroke_width(1)).into_dyn(),
-                });
+            c.draw_series(series).map_err(fail(name))?;
+            entries.push((block.clone(), look));
         }
-        c.configure_series_labels()
-            .border_style(BLACK)
-            .background_style(WHITE)
-            .label_font(("sans-serif", 12))
-            .draw()
-            .map_err(fail(name))?;
+        draw_legend(&legend, &entries, name)?;
         root.present().map_err(fail(name))?;
     }
     Ok(s)
@@ -333,9 +425,15 @@ pub fn lr_by_region_figure(
 pub fn age_figure(age: &AgeBySex) -> Result<String, FigureError> {
     register_font();
     let name = "age_at_death";
-    let k = age.classes.len();
-    let ymax = age
+    // As in the tables: a class nobody sexed falls in (subadults are left out of analyses by
+    // sex) is not drawn as an empty pair of bars.
+    let classes: Vec<&crate::summary::AgeClassRow> = age
         .classes
+        .iter()
+        .filter(|c| !(c.female.2 == 0.0 && c.male.2 == 0.0))
+        .collect();
+    let k = classes.len().max(1);
+    let ymax = classes
         .iter()
         .flat_map(|c| [c.female.2, c.male.2])
         .filter(|x| x.is_finite())
@@ -345,8 +443,9 @@ pub fn age_figure(age: &AgeBySex) -> Result<String, FigureError> {
     {
         let root = SVGBackend::with_string(&mut s, (800, 420)).into_drawing_area();
         root.fill(&WHITE).map_err(fail(name))?;
-        let labels: Vec<String> = age.classes.iter().map(|c| c.class.clone()).collect();
-        let mut c = ChartBuilder::on(&root)
+        let (chart, legend) = root.split_horizontally(800 - LEGEND_WIDTH);
+        let labels: Vec<String> = classes.iter().map(|c| c.class.clone()).collect();
+        let mut c = ChartBuilder::on(&chart)
             .caption(
                 "Age at death by sex (mean over joint draws, 95% band)",
                 ("sans-serif", 16),
@@ -363,14 +462,16 @@ pub fn age_figure(age: &AgeBySex) -> Result<String, FigureError> {
             .x_labels(0)
             .x_desc("age at death (years)")
             .y_desc("individuals")
+            .y_label_formatter(&|v| tick(*v))
             .draw()
             .map_err(fail(name))?;
+        let mut entries = Vec::new();
         for (sex, offset, fill, label) in [
             (0, 0.1, RGBColor(170, 170, 170), "female"),
             (1, 0.5, RGBColor(40, 40, 40), "male"),
         ] {
-            let bars: Vec<Rectangle<(f64, f64)>> = age
-                .classes
+            entries.push((label.to_string(), Look::Bar(fill)));
+            let bars: Vec<Rectangle<(f64, f64)>> = classes
                 .iter()
                 .enumerate()
                 .map(|(i, cl)| {
@@ -384,11 +485,8 @@ pub fn age_figure(age: &AgeBySex) -> Result<String, FigureError> {
                     )
                 })
                 .collect();
-            c.draw_series(bars)
-                .map_err(fail(name))?
-                .label(label)
-                .legend(move |(x, y)| Rectangle::new([(x, y - 5), (x + 14, y + 5)], fill.filled()));
-            c.draw_series(age.classes.iter().enumerate().map(|(i, cl)| {
+            c.draw_series(bars).map_err(fail(name))?;
+            c.draw_series(classes.iter().enumerate().map(|(i, cl)| {
                 let (_, lo, hi) = if sex == 0 { cl.female } else { cl.male };
                 let x = i as f64 + offset + 0.19;
                 PathElement::new(
@@ -398,12 +496,7 @@ pub fn age_figure(age: &AgeBySex) -> Result<String, FigureError> {
             }))
             .map_err(fail(name))?;
         }
-        c.configure_series_labels()
-            .border_style(BLACK)
-            .background_style(WHITE)
-            .label_font(("sans-serif", 12))
-            .draw()
-            .map_err(fail(name))?;
+        draw_legend(&legend, &entries, name)?;
         // Class labels under each pair of bars, placed in pixels below the axis.
         let style =
             TextStyle::from(("sans-serif", 12).into_font()).pos(Pos::new(HPos::Center, VPos::Top));

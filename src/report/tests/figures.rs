@@ -12,3 +12,55 @@ fn an_empty_bin_has_a_bar_from_0_to_1() {
         (a - 0.396_778_147_461_145_37).abs() < 1e-12 && (b - 0.892_208_732_593_698_9).abs() < 1e-12
     );
 }
+
+#[test]
+fn tick_labels_have_no_spurious_decimals_and_a_real_minus() {
+    assert_eq!(tick(10.0), "10");
+    assert_eq!(tick(0.25), "0.25");
+    assert_eq!(tick(-3.0), "\u{2212}3");
+    assert_eq!(tick(-0.001), "0");
+}
+
+/// Legible in greyscale: no two curves of the π figure and no two regions of the LR figure
+/// look alike (the legend draws each sample from the series' own look, so they match).
+#[test]
+fn every_series_has_a_look_of_its_own() {
+    let curves: Vec<Look> = (0..6).map(curve_look).collect();
+    let regions: Vec<Look> = (0..5).map(region_look).collect();
+    for looks in [curves, regions] {
+        for (i, a) in looks.iter().enumerate() {
+            assert!(looks[i + 1..].iter().all(|b| b != a), "{a:?} twice");
+        }
+    }
+}
+
+/// Every individual is named on the LR figure up to the limit, and none beyond it.
+#[test]
+fn the_lr_figure_names_every_individual_or_none() {
+    let rows = |n: usize| -> Vec<(String, Vec<Option<f64>>)> {
+        (0..n)
+            .map(|i| {
+                (
+                    format!("ZQ-{i:04}"),
+                    vec![Some(i as f64 / n as f64 - 0.5), None],
+                )
+            })
+            .collect()
+    };
+    let blocks = vec!["cranium".to_string(), "pelvis".to_string()];
+    let svg = lr_by_region_figure(&blocks, &rows(75)).unwrap();
+    for i in 0..75 {
+        assert!(
+            svg.contains(&format!("\nZQ-{i:04}\n")),
+            "ZQ-{i:04} not named"
+        );
+    }
+    // The legend names each block once.
+    assert_eq!(svg.matches("cranium").count(), 1);
+    let n = LR_FIGURE_MAX_LABELLED + 1;
+    let svg = lr_by_region_figure(&blocks, &rows(n)).unwrap();
+    assert!(
+        !svg.contains(">ZQ-"),
+        "some individuals named beyond the limit"
+    );
+}
