@@ -290,4 +290,6 @@ fn two_observers_are_compared() {
         "{}",
         stderr(&out)
     );
+    let columns = std::fs::read_to_string(dir.path().join("columns.md")).unwrap();
+    assert!(columns.contains("## agreement.csv") && !columns.contains("(not described)"));
 }

@@ -196,6 +196,7 @@ fn fit_and_validate_from_the_command_line() {
         "scores_by_category.csv",
         "reliability.csv",
         "calibration.svg",
+        "columns.md",
         "report.md",
     ] {
         let a = std::fs::read_to_string(dir.path().join("v1").join(f)).unwrap();
@@ -204,6 +205,8 @@ fn fit_and_validate_from_the_command_line() {
         let b = b.replace(&p("v2"), &p("v1"));
         assert!(a == b, "{f} differs between two runs with the same seed");
     }
+    let columns = std::fs::read_to_string(dir.path().join("v1/columns.md")).unwrap();
+    assert!(columns.contains("## scores_by_age.csv") && !columns.contains("(not described)"));
     let report = std::fs::read_to_string(dir.path().join("v1/report.md")).unwrap();
     assert!(report.contains("not identifications"));
     assert!(report.contains("What each call is worth"), "{report}");

@@ -79,6 +79,16 @@ fn the_demo_writes_report_tables_methods_and_figures_that_render() {
     ] {
         assert!(report.contains(needle), "report lacks {needle}");
     }
+    // The data dictionary describes every column of every table written.
+    let columns = std::fs::read_to_string(out.join("columns.md")).unwrap();
+    assert!(!columns.contains("(not described)"), "{columns}");
+    for f in ["individuals.csv", "assemblage.csv", "by_sex_prevalence.csv"] {
+        assert!(
+            columns.contains(&format!("## {f}")),
+            "{f} not in columns.md"
+        );
+    }
+    assert!(columns.contains("| `zone` | a column of the input, carried through unchanged"));
     let methods = std::fs::read_to_string(out.join("methods.md")).unwrap();
     assert!(methods.contains("Konigsberg & Hens, 1998") && methods.contains("## References"));
     // Every reference is written out in full: authors, (year), a title, then the source.
@@ -214,6 +224,12 @@ fn the_demo_outputs_read_as_a_journal_expects() {
                     .is_some_and(|r| !r.is_empty() && r.chars().all(|x| x == '0' || x == '.'))
             });
             assert!(!negative_zero, "{}: a negative zero", p.display());
+            // A CSV number has an ASCII minus, which every CSV reader parses as a number.
+            assert!(
+                !text.contains('\u{2212}'),
+                "{}: a typographic minus",
+                p.display()
+            );
         }
     }
     // Every SVG figure has a PNG beside it (journals and word processors take raster

@@ -1,6 +1,7 @@
 //! One renderer: an analysis result as the set of files it writes, in writing order (the
 //! tables and run record, the tables by sex, the figures, `methods.md`, the recalibration's
-//! tables, then `report.md` and `tables.tex`, whose list of files names them all).
+//! tables, `columns.md` (what every column means), then `report.md` and `tables.tex`, whose
+//! list of files names them all).
 
 use crate::output::OutputSet;
 use crate::report::analysis::{recalibration_files, render_files};
@@ -18,6 +19,9 @@ pub fn render(r: &AnalysisResult) -> Result<OutputSet, Error> {
     files.append(figures_svg(r)?);
     files.push("methods.md", methods_md(r));
     files.append(recalibration_files(r)?);
+    // The data dictionary of every table above, read from their own header rows.
+    let columns = crate::report::dictionary::columns_md(&files, &r.assemblage.carried_columns);
+    files.push("columns.md", columns);
     let mut names: Vec<String> = files.names().into_iter().map(String::from).collect();
     names.push("report.md".into());
     names.push("tables.tex".into());

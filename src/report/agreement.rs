@@ -221,5 +221,7 @@ pub fn agreement_files(r: &Agreement) -> Result<OutputSet, RenderError> {
     let mut files = OutputSet::default();
     files.push("agreement.csv", table);
     files.push("disagreements.csv", listed);
+    let columns = super::dictionary::columns_md(&files, &[]);
+    files.push("columns.md", columns);
     Ok(files)
 }

@@ -99,6 +99,9 @@ fn md(s: &str) -> String {
 /// [`RenderError`] when a table cannot be built.
 pub fn by_sex_tables(r: &AnalysisResult) -> Result<OutputSet, RenderError> {
     let (by_sex, analysis) = (&r.by_sex, &r.results);
+    // CSV cells carry an ASCII minus (what every reader of CSV parses); the real minus sign
+    // is for text.
+    let c3 = |x: f64| super::number::cell(x, 3);
     let mut files = OutputSet::default();
     if let Some(a) = &by_sex.age {
         let mut rows = vec![vec![
@@ -112,26 +115,26 @@ pub fn by_sex_tables(r: &AnalysisResult) -> Result<OutputSet, RenderError> {
             ("mean_age_male", a.mean_male),
             ("difference_female_minus_male", a.difference),
         ] {
-            rows.push(vec![q.into(), f3(v.0), f3(v.1), f3(v.2)]);
+            rows.push(vec![q.into(), c3(v.0), c3(v.1), c3(v.2)]);
         }
         rows.push(vec![
             "p_females_die_younger".into(),
-            f3(a.p_females_die_younger),
+            c3(a.p_females_die_younger),
             String::new(),
             String::new(),
         ]);
         for c in &a.classes {
             rows.push(vec![
                 format!("females_aged_{}", c.class.replace(' ', "_")),
-                f3(c.female.0),
-                f3(c.female.1),
-                f3(c.female.2),
+                c3(c.female.0),
+                c3(c.female.1),
+                c3(c.female.2),
             ]);
             rows.push(vec![
                 format!("males_aged_{}", c.class.replace(' ', "_")),
-                f3(c.male.0),
-                f3(c.male.1),
-                f3(c.male.2),
+                c3(c.male.0),
+                c3(c.male.1),
+                c3(c.male.2),
             ]);
         }
         files.push("by_sex_age.csv", csv_bytes(rows)?);
@@ -168,19 +171,19 @@ pub fn by_sex_tables(r: &AnalysisResult) -> Result<OutputSet, RenderError> {
                 p.n_left_out.to_string(),
                 f1(p.n_female),
                 f1(p.n_male),
-                f3(p.female.0),
-                f3(p.female.1),
-                f3(p.female.2),
-                f3(p.male.0),
-                f3(p.male.1),
-                f3(p.male.2),
-                f3(p.difference.0),
-                f3(p.difference.1),
-                f3(p.difference.2),
-                f3(p.p_female_higher),
-                f3(p.odds_ratio.0),
-                f3(p.odds_ratio.1),
-                f3(p.odds_ratio.2),
+                c3(p.female.0),
+                c3(p.female.1),
+                c3(p.female.2),
+                c3(p.male.0),
+                c3(p.male.1),
+                c3(p.male.2),
+                c3(p.difference.0),
+                c3(p.difference.1),
+                c3(p.difference.2),
+                c3(p.p_female_higher),
+                c3(p.odds_ratio.0),
+                c3(p.odds_ratio.1),
+                c3(p.odds_ratio.2),
                 format!("{:.3}", p.rhat),
                 format!("{:.0}", p.ess),
             ]);

@@ -96,6 +96,8 @@ pub fn validation_files(
         .map(|b| (b.mean_p_female, b.share_female, b.n))
         .collect();
     files.push("calibration.svg", calibration_figure(&bins)?);
+    let columns = super::dictionary::columns_md(&files, &[]);
+    files.push("columns.md", columns);
     files.push(
         "report.md",
         report_md(v, reference, reference_sha256, subject, command),
