@@ -22,7 +22,8 @@ pub struct Args {
     /// The proportion female to assume.
     #[arg(long, value_name = "P")]
     pub pi: f64,
-    /// Expected preservation (as for `simulate`); default: a typical fragmentary cemetery.
+    /// Expected preservation as key=rate, comma-separated (as for `simulate`; `none`: nothing
+    /// lost). Default: a typical fragmentary cemetery.
     #[arg(long, value_name = "SPEC")]
     pub missing: Option<String>,
     /// Prior of the analysis.
@@ -59,10 +60,8 @@ pub fn run(args: Args) -> Result<i32, Error> {
             "give --n from 4 to 100 000 and --reps from 1 to 10 000".into(),
         ));
     }
-    let missing = match &args.missing {
-        Some(s) => MissingSpec::parse(s).map_err(|m| settings_error("--missing", m))?,
-        None => MissingSpec::fragmentary(),
-    };
+    let missing = MissingSpec::given_or_fragmentary(args.missing.as_deref())
+        .map_err(|m| settings_error("--missing", m))?;
     let prior = parse_prior_set(&args.prior).map_err(|e| settings_error(&e.file, e.message))?;
     let sizes: Vec<usize> = [args.n / 4, args.n / 2, args.n, args.n * 2, args.n * 4]
         .into_iter()

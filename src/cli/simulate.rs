@@ -32,14 +32,10 @@ pub struct Args {
     pub groups: Option<String>,
     /// Preservation as key=rate, comma-separated: cranium, pelvis, postcranial, dental (whole
     /// region lost), trait (single traits lost), range (grades recorded as ranges), subadult,
-    /// dna (share with read counts). Without it, nothing is lost.
-    #[arg(
-        long,
-        value_name = "SPEC",
-        default_value = "",
-        hide_default_value = true
-    )]
-    pub missing: String,
+    /// dna (share with read counts); `none`: nothing lost. Default, as for `plan`: a typical
+    /// fragmentary cemetery.
+    #[arg(long, value_name = "SPEC")]
+    pub missing: Option<String>,
     /// Seed (same seed, same file).
     #[arg(long, default_value_t = 1)]
     pub seed: u64,
@@ -80,7 +76,8 @@ pub fn run(args: Args) -> Result<i32, Error> {
             format!("{total} individuals: give from 1 to 5 000 000"),
         ));
     }
-    let missing = MissingSpec::parse(&args.missing).map_err(|m| settings_error("--missing", m))?;
+    let missing = MissingSpec::given_or_fragmentary(args.missing.as_deref())
+        .map_err(|m| settings_error("--missing", m))?;
     let sim = simulate(&model, &groups, &missing, args.seed)
         .map_err(|e| settings_error("--model", e.to_string()))?;
     let mut protected: Vec<&Path> = Vec::new();

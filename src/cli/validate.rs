@@ -8,7 +8,6 @@ use crate::assemblage::category::Thresholds;
 use crate::fit::ReferenceInfo;
 use crate::model::Model;
 use crate::output::write_folder;
-use crate::progress::Progress as _;
 use crate::report::validation::{headline, validation_files};
 use crate::validate::{
     validate_with_progress, Folds, Subject, ValidationError, ValidationSettings,
@@ -119,9 +118,7 @@ pub fn run(args: Args) -> Result<i32, Error> {
         (None, None) => unreachable_settings()?,
     };
     let bar = super::TerminalProgress::default();
-    bar.stage("classifying held-out individuals", known.len() as u64);
     let result = validate_with_progress(subject, &known, &info, &vs, &bar);
-    bar.finish();
     let v = match result {
         Ok(v) => v,
         Err(ValidationError::Fit {

@@ -80,12 +80,25 @@ pub struct MissingSpec {
 }
 
 impl MissingSpec {
-    /// Parse `cranium=0.3,pelvis=0.5,trait=0.1,range=0.1,subadult=0.05,dna=0.1` (any subset).
+    /// The preservation a command uses: the given spec, or without one a typical fragmentary
+    /// cemetery ([`MissingSpec::fragmentary`]); `simulate` and `plan` share this default.
+    ///
+    /// # Errors
+    /// As [`MissingSpec::parse`].
+    pub fn given_or_fragmentary(spec: Option<&str>) -> Result<MissingSpec, String> {
+        spec.map_or_else(|| Ok(MissingSpec::fragmentary()), MissingSpec::parse)
+    }
+
+    /// Parse `cranium=0.3,pelvis=0.5,trait=0.1,range=0.1,subadult=0.05,dna=0.1` (any subset);
+    /// `none` (or nothing) is a skeleton that lost nothing.
     ///
     /// # Errors
     /// A message naming the malformed item.
     pub fn parse(spec: &str) -> Result<MissingSpec, String> {
         let mut m = MissingSpec::default();
+        if spec.trim() == "none" {
+            return Ok(m);
+        }
         for item in spec.split(',').map(str::trim).filter(|s| !s.is_empty()) {
             let (k, v) = item
                 .split_once('=')

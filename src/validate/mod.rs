@@ -344,7 +344,8 @@ pub fn validate(
     validate_with_progress(subject, reference, info, settings, &crate::progress::Silent)
 }
 
-/// As [`validate`], advancing `progress` by one per individual classified.
+/// As [`validate`], announcing its stages to `progress`: one model fitted per fold (with a
+/// fitting specification), then one individual classified per step.
 ///
 /// # Errors
 /// As [`validate`].
@@ -377,8 +378,18 @@ pub fn validate_with_progress(
             vec![m.clone()],
             vec![0; reference.len()],
         ),
-        Subject::Refit(spec, catalogue) => fold_models(spec, catalogue, reference, info, settings)?,
+        Subject::Refit(spec, catalogue) => {
+            let folds = match settings.folds {
+                Folds::K(k) => k,
+                Folds::LeaveOneOut => reference.len(),
+            };
+            progress.stage("fitting a model per fold", folds as u64);
+            let fitted = fold_models(spec, catalogue, reference, info, settings, progress);
+            progress.finish();
+            fitted?
+        }
     };
+    progress.stage("classifying held-out individuals", reference.len() as u64);
     let blocks: Vec<String> = models[0]
         .blocks
         .iter()
@@ -401,6 +412,7 @@ pub fn validate_with_progress(
             (i, e)
         })
         .collect();
+    progress.finish();
     let logit0 = (p0 / (1.0 - p0)).ln();
     let mut predictions = Vec::new();
     let mut no_evidence = Vec::new();
@@ -500,6 +512,7 @@ fn fold_models(
     reference: &[(&Individual, Sex)],
     info: &ReferenceInfo,
     settings: &ValidationSettings,
+    progress: &dyn crate::progress::Progress,
 ) -> Result<(String, Vec<Model>, Vec<usize>), ValidationError> {
     let sexes: Vec<Sex> = reference.iter().map(|r| r.1).collect();
     let fold_of = assign_folds(&sexes, settings.folds, settings.seed);
@@ -525,10 +538,14 @@ fn fold_models(
             let yaml = fitted
                 .to_yaml()
                 .map_err(|m| ValidationError::Settings(m.to_string()))?;
-            Model::from_yaml("refitted model", &yaml).map_err(|source| ValidationError::Model {
-                fold: f + 1,
-                source,
-            })
+            let model = Model::from_yaml("refitted model", &yaml).map_err(|source| {
+                ValidationError::Model {
+                    fold: f + 1,
+                    source,
+                }
+            });
+            progress.advance(1);
+            model
         })
         .collect();
     let models = models.into_iter().collect::<Result<Vec<_>, _>>()?;

@@ -26,4 +26,14 @@ fn specs_parse_and_reject() {
     assert!(MissingSpec::parse("cranium=3").is_err());
     assert!(MissingSpec::parse("dna").is_err());
     assert!(MissingSpec::fragmentary().region.len() == 4);
+    // `none` loses nothing; no spec at all is the fragmentary default of simulate and plan.
+    assert_eq!(MissingSpec::parse("none").unwrap(), MissingSpec::default());
+    assert_eq!(
+        MissingSpec::given_or_fragmentary(None).unwrap(),
+        MissingSpec::fragmentary()
+    );
+    assert_eq!(
+        MissingSpec::given_or_fragmentary(Some("none")).unwrap(),
+        MissingSpec::default()
+    );
 }
