@@ -98,9 +98,24 @@ fn the_demo_writes_report_tables_methods_and_figures_that_render() {
         .filter(|l| l.starts_with("- "))
         .collect();
     assert!(refs.len() >= 10, "{refs:?}");
+    let body = methods.split("## References").next().unwrap();
     for r in refs {
         let title = r.split_once("). ").map(|(_, t)| t).unwrap_or("");
         assert!(title.split(". ").count() >= 2, "no title or source: {r}");
+        // Cited in the text: the first author's surname, then the year close after it.
+        let surname: String = r[2..]
+            .chars()
+            .take_while(|c| *c != ',' && *c != '.')
+            .collect();
+        let year = &r[r.find("(19").or_else(|| r.find("(20")).unwrap() + 1..][..4];
+        let cited = body.match_indices(surname.as_str()).any(|(i, _)| {
+            body[i..]
+                .chars()
+                .take(90)
+                .collect::<String>()
+                .contains(year)
+        });
+        assert!(cited, "listed but not cited in the text: {r}");
     }
     let tex = std::fs::read_to_string(out.join("tables.tex")).unwrap();
     assert_eq!(

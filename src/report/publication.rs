@@ -295,12 +295,8 @@ pub fn figures_svg(r: &AnalysisResult) -> Result<OutputSet, RenderError> {
     Ok(out)
 }
 
-/// Published methods actually used in a run, as (key, reference) in author–year style.
-pub fn references_used(
-    model: &Model,
-    evidence: &[IndividualEvidence],
-    by_sex: &BySex,
-) -> Vec<String> {
+/// The traits that entered some individual's evidence, and whether a latent block did.
+fn traits_used(model: &Model, evidence: &[IndividualEvidence]) -> (BTreeSet<String>, bool) {
     let mut used_traits: BTreeSet<String> = BTreeSet::new();
     let mut used_latent = false;
     for e in evidence {
@@ -315,6 +311,66 @@ pub fn references_used(
             }
         }
     }
+    (used_traits, used_latent)
+}
+
+/// Whether the default model's femoral means (from Noussios et al. 2019) entered the run.
+fn femoral_means_used(model: &Model, used_traits: &BTreeSet<String>) -> bool {
+    !is_fitted(model)
+        && model.name == "default"
+        && (used_traits.contains("femur_head_diameter")
+            || used_traits.contains("femur_midshaft_circumference"))
+}
+
+/// The sentence citing the recording standard of every trait used, traits grouped by the
+/// works their catalogue entries cite: "glabella, mastoid process, … (Walker, 2008; Buikstra &
+/// Ubelaker, 1994)". Empty when no trait was used.
+fn recording_sentence(model: &Model, used_traits: &BTreeSet<String>) -> String {
+    let mut groups: Vec<(String, Vec<String>)> = Vec::new();
+    for d in model.catalogue.traits() {
+        if !used_traits.contains(&d.id) {
+            continue;
+        }
+        let cites: Vec<String> = citations::citation_keys(&d.source)
+            .into_iter()
+            .map(|(key, _)| match key.rsplit_once(' ') {
+                Some((authors, year)) => format!("{authors}, {year}"),
+                None => key,
+            })
+            .collect();
+        if cites.is_empty() {
+            continue;
+        }
+        let cites = cites.join("; ");
+        match groups.iter_mut().find(|(c, _)| *c == cites) {
+            Some((_, names)) => names.push(d.name.clone()),
+            None => groups.push((cites, vec![d.name.clone()])),
+        }
+    }
+    if groups.is_empty() {
+        return String::new();
+    }
+    let mut s = format!(
+        "Traits were recorded after their published standards: {}. ",
+        groups
+            .iter()
+            .map(|(c, names)| format!("{} ({c})", names.join(", ")))
+            .collect::<Vec<_>>()
+            .join("; ")
+    );
+    if femoral_means_used(model, used_traits) {
+        s.push_str("The model's per-sex means of the femoral measurements are those published by Noussios et al. (2019). ");
+    }
+    s
+}
+
+/// Published methods actually used in a run, as (key, reference) in author–year style.
+pub fn references_used(
+    model: &Model,
+    evidence: &[IndividualEvidence],
+    by_sex: &BySex,
+) -> Vec<String> {
+    let (used_traits, used_latent) = traits_used(model, evidence);
     let mut refs = Vec::new();
     if used_latent {
         for key in ["Konigsberg & Hens 1998", "Genz 1992", "Genz 2004"] {
@@ -344,10 +400,7 @@ pub fn references_used(
         }
     }
     // The default model's femoral means come from Noussios et al.; a fitted model's do not.
-    if !fitted
-        && (used_traits.contains("femur_head_diameter")
-            || used_traits.contains("femur_midshaft_circumference"))
-    {
+    if femoral_means_used(model, &used_traits) {
         refs.push(citations::work("Noussios et al. 2019"));
     }
     refs.push(citations::work("Bruzek et al. 2017"));
@@ -428,6 +481,11 @@ pub fn methods_md(r: &AnalysisResult) -> String {
         s,
         "Biological sex was estimated for the {} individuals of the assemblage ({} with usable evidence) with tessera {} (model `{}`), which combines all surviving evidence of each individual in one Bayesian computation. The evidence was treated as {} blocks, assumed independent given sex: {}. ",
         main.n_individuals, main.n_estimable, run.version, model.name, used_blocks.len(), used_blocks.join("; ")
+    );
+    let _ = write!(
+        s,
+        "{}",
+        recording_sentence(model, &traits_used(model, evidence).0)
     );
     if has_latent {
         let _ = write!(s, "Ordinal trait scores and measurements were modelled jointly by a multivariate cumulative probit with correlated latent traits (Konigsberg & Hens, 1998), extended to measurements; unobserved traits were integrated out, and probabilities of ordinal score combinations were computed exactly in one and two dimensions (Genz, 2004) and by Genz's separation-of-variables method with randomised quasi-Monte Carlo in three or more (Genz, 1992). ");
