@@ -73,7 +73,7 @@ pub fn bayes_factor_words(ln_bf: f64, yes: &str, no: &str) -> String {
         format!("{:.1}", 10f64.powf(m))
     };
     if m < 3f64.log10() {
-        format!("the data hardly tell the two apart (a factor of {factor} toward: {who})")
+        format!("the data hardly tell the two apart: they are {factor} times as probable if {who}")
     } else {
         format!("the data are {factor} times as probable if {who}")
     }

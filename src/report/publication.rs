@@ -19,6 +19,12 @@ fn f1(x: f64) -> String {
     super::number::reading(x, 1)
 }
 
+/// A proportion as written by the analyst (0.1, 0.25, 0.5), without trailing zeros.
+fn tick_value(x: f64) -> String {
+    let s = format!("{x:.3}");
+    s.trim_end_matches('0').trim_end_matches('.').to_string()
+}
+
 fn f2(x: f64) -> String {
     super::number::reading(x, 2)
 }
@@ -803,7 +809,17 @@ fn proportion_female_section(r: &AnalysisResult, m: &mut String, t: &mut String)
         run.version
     );
     let _ = writeln!(t, "\\begin{{table}}\n\\centering\n\\caption{{Posterior of the proportion female under each prior.}}\n\\begin{{tabular}}{{lrrrr}}\n\\toprule\nPrior & Mean & 2.5\\% & 97.5\\% & Expected females \\\\\n\\midrule");
-    for r in analysis.results() {
+    // A fixed prior's row would only repeat its value (0.100 to 0.100): those priors are
+    // summarised in one sentence below (the chosen prior keeps its row even when fixed).
+    let is_fixed = |r: &crate::assemblage::PriorResult| {
+        matches!(r.prior.shape, crate::prior::PriorShape::Fixed { .. })
+    };
+    let fixed: Vec<&crate::assemblage::PriorResult> =
+        analysis.results().skip(1).filter(|r| is_fixed(r)).collect();
+    for (k, r) in analysis.results().enumerate() {
+        if k > 0 && is_fixed(r) {
+            continue;
+        }
         let _ = writeln!(
             m,
             "| {} | {:.3} | {:.3} | {} | {} | {:.3} | {:.1} |",
@@ -822,10 +838,39 @@ fn proportion_female_section(r: &AnalysisResult, m: &mut String, t: &mut String)
             r.pi.mean,
             r.pi.lo,
             r.pi.hi,
-            r.expected_females
+            r.expected_females_one_population
         );
     }
     let _ = writeln!(t, "\\bottomrule\n\\end{{tabular}}\n\\end{{table}}\n");
+    if !fixed.is_empty() {
+        let expected = |f: fn(f64, f64) -> f64| {
+            fixed
+                .iter()
+                .map(|r| r.expected_females_one_population)
+                .reduce(f)
+                .unwrap_or(f64::NAN)
+        };
+        let values = |f: fn(f64, f64) -> f64| {
+            fixed
+                .iter()
+                .filter_map(|r| match r.prior.shape {
+                    crate::prior::PriorShape::Fixed { pi } => Some(pi),
+                    _ => None,
+                })
+                .reduce(f)
+                .unwrap_or(f64::NAN)
+        };
+        let _ = writeln!(
+            m,
+            "\nThe sensitivity set also holds {} prior{} that fix the proportion female ({} to {}): under them the expected number of females runs from {:.1} to {:.1}; every individual under every prior is in sensitivity.csv.",
+            fixed.len(),
+            if fixed.len() == 1 { "" } else { "s" },
+            tick_value(values(f64::min)),
+            tick_value(values(f64::max)),
+            expected(f64::min),
+            expected(f64::max)
+        );
+    }
     let _ = writeln!(
         m,
         "\nA community of one sex against a mixed one: log10 Bayes factor {}; {}.\n",
