@@ -65,8 +65,10 @@ pub struct RegionLine {
     pub note: String,
     /// Traits that entered.
     pub traits: Vec<TraitLine>,
-    /// Traits of the region that the model knows and were not recorded.
+    /// Traits of the region that the model knows and were not recorded (ids).
     pub not_recorded: Vec<String>,
+    /// The same traits by their names in the catalogue.
+    pub not_recorded_names: Vec<String>,
 }
 
 /// P(female) under one prior, only when asked.
@@ -209,13 +211,17 @@ pub fn case_report(
                 log10_lr_alone: alone(model, ind, bi, k, &ctx),
             })
             .collect();
-        let not_recorded = known
+        let not_recorded: Vec<String> = known
             .iter()
             .filter(|t| {
                 cat.position(t)
                     .is_some_and(|k| ind.observations[k].is_none())
             })
             .cloned()
+            .collect();
+        let not_recorded_names = not_recorded
+            .iter()
+            .map(|t| cat.get(t).map_or_else(|| t.clone(), |d| d.name.clone()))
             .collect();
         if matches!(
             e.status,
@@ -236,6 +242,7 @@ pub fn case_report(
             note: e.note.clone(),
             traits,
             not_recorded,
+            not_recorded_names,
         });
     }
     if model.fitted_to.is_none() {

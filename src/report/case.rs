@@ -234,7 +234,7 @@ pub fn case_markdown(c: &CaseReport, rates: Option<&QuotedRates>, command: &str)
         .regions
         .iter()
         .filter(|r| !r.not_recorded.is_empty())
-        .map(|r| format!("{}: {}", r.block, r.not_recorded.join(", ")))
+        .map(|r| format!("{}: {}", r.block, r.not_recorded_names.join(", ")))
         .collect();
     let _ = writeln!(m, "\n## Not recorded\n");
     if missing.is_empty() {
