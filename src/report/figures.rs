@@ -380,12 +380,13 @@ pub fn lr_by_region_figure(
                 "individuals, by total likelihood ratio (too many to name: see individuals.csv)"
             })
             .x_label_formatter(&|v| tick(*v))
-            .y_labels(if label_all { n + 2 } else { 0 })
+            // At least one key point: plotters' integer axis loops without end on zero.
+            .y_labels(if label_all { n + 2 } else { 1 })
             .y_label_style(("sans-serif", 11))
             .y_label_formatter(&|&y| {
                 usize::try_from(y)
                     .ok()
-                    .filter(|&i| i >= 1)
+                    .filter(|&i| label_all && i >= 1)
                     .and_then(|i| labels.get(i - 1).cloned())
                     .unwrap_or_default()
             })
