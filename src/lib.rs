@@ -72,6 +72,7 @@ pub mod prior;
 pub mod progress;
 pub mod report;
 pub mod results;
+pub mod serve;
 pub mod sim;
 pub mod summary;
 pub mod validate;

@@ -10,6 +10,7 @@ pub mod fit;
 pub mod input;
 pub mod plan;
 pub mod problems;
+pub mod serve;
 pub mod simulate;
 pub mod validate;
 
@@ -50,6 +51,9 @@ pub enum Command {
     Fit(fit::Args),
     /// Error rates of a model on a documented reference collection, by cross-validation.
     Validate(validate::Args),
+    /// A page in the browser on this machine: load a table, check it, analyse it, read each
+    /// individual's evidence, download every output.
+    Serve(serve::Args),
 }
 
 /// Run a parsed command line; returns the process exit code.
@@ -64,6 +68,7 @@ pub fn run(cli: Cli) -> i32 {
         Command::Agreement(args) => agreement::run(args),
         Command::Fit(args) => fit::run(args),
         Command::Validate(args) => validate::run(args),
+        Command::Serve(args) => serve::run(args),
     };
     match result {
         Ok(code) => code,

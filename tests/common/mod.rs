@@ -19,6 +19,15 @@ pub fn tessera(args: &[&str]) -> Output {
         .expect("the tessera binary runs")
 }
 
+/// Run the tessera binary with arguments in a working folder.
+pub fn tessera_in(dir: &Path, args: &[&str]) -> Output {
+    Command::new(env!("CARGO_BIN_EXE_tessera"))
+        .args(args)
+        .current_dir(dir)
+        .output()
+        .expect("the tessera binary runs")
+}
+
 /// Standard output as text.
 pub fn stdout(o: &Output) -> String {
     String::from_utf8_lossy(&o.stdout).into_owned()

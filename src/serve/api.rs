@@ -1,0 +1,484 @@
+//! The page's requests: upload a table (and see what `check` sees), analyse it, download the
+//! run's files. Every answer is JSON except the page itself and the zip.
+
+use super::store::Table;
+use super::{State, WebResponse};
+use crate::assemblage::{category_note, lr_support};
+use crate::data::{Completeness, InputError};
+use crate::model::BlockStatus;
+use crate::pipeline::{render, AnalysisOptions, ModelChoice, ReadOptions};
+use crate::progress::Silent;
+use crate::results::AnalysisResult;
+use crate::Error;
+use serde::Deserialize;
+use serde_json::{json, Value};
+use std::f64::consts::LN_10;
+
+/// The cautions shown on every results view, in the page's own words.
+pub const CAUTIONS: [&str; 4] = [
+    "These are estimates, not identifications: every number is a probability under a stated model and prior.",
+    "Forensic casework needs methods validated on a relevant reference population, accredited practice and the rules of the jurisdiction; the shipped model is illustrative.",
+    "Biological sex is not gender: the skeleton and the DNA say nothing about how a person lived or identified.",
+    "These are the remains of people: treat them, their descendants and their communities with respect.",
+];
+
+/// Decode `%XX` and `+` of a query value.
+fn percent_decode(s: &str) -> String {
+    let bytes = s.as_bytes();
+    let mut out = Vec::with_capacity(bytes.len());
+    let mut i = 0;
+    while i < bytes.len() {
+        match bytes[i] {
+            b'+' => out.push(b' '),
+            b'%' if i + 2 < bytes.len() => {
+                let hex = |c: u8| (c as char).to_digit(16);
+                match (hex(bytes[i + 1]), hex(bytes[i + 2])) {
+                    (Some(h), Some(l)) => {
+                        out.push((h * 16 + l) as u8);
+                        i += 2;
+                    }
+                    _ => out.push(b'%'),
+                }
+            }
+            b => out.push(b),
+        }
+        i += 1;
+    }
+    String::from_utf8_lossy(&out).into_owned()
+}
+
+/// The value of `key` in a query string.
+pub fn query_value(query: &str, key: &str) -> Option<String> {
+    query.split('&').find_map(|pair| {
+        let (k, v) = pair.split_once('=').unwrap_or((pair, ""));
+        (percent_decode(k) == key).then(|| percent_decode(v))
+    })
+}
+
+/// A file name as the page may use it: its last path component, printable, at most 200
+/// characters; `None` when nothing is left.
+fn file_name(raw: &str) -> Option<String> {
+    let last = raw.rsplit(['/', '\\']).next().unwrap_or("").trim();
+    let clean: String = last.chars().filter(|c| !c.is_control()).take(200).collect();
+    (!clean.is_empty() && clean != "." && clean != "..").then_some(clean)
+}
+
+/// The problems of a table, as the page lists them (file, row, column, value, expected).
+fn problems_json(e: &InputError) -> Value {
+    serde_json::to_value(e).unwrap_or(Value::Null)
+}
+
+fn error_response(e: &Error) -> WebResponse {
+    match e {
+        Error::Input(problems) => WebResponse::json(
+            422,
+            &json!({
+                "error": "the table has problems; every one is listed",
+                "problems": problems_json(problems),
+            }),
+        ),
+        Error::Options(o) => WebResponse::json(
+            422,
+            &json!({ "error": "some options cannot be used", "options": o.to_string() }),
+        ),
+        other => WebResponse::error(422, &other.to_string()),
+    }
+}
+
+/// `POST /api/tables?name=FILE` with the file as the body: keep it in memory and answer what
+/// `check` would say (every problem at once), with the columns a group or a by-sex comparison
+/// can use.
+pub fn upload(state: &State, query: &str, body: &[u8]) -> WebResponse {
+    let Some(name) = query_value(query, "name").as_deref().and_then(file_name) else {
+        return WebResponse::error(400, "name the file: /api/tables?name=FILE.csv");
+    };
+    if body.is_empty() {
+        return WebResponse::error(400, &format!("`{name}` is empty"));
+    }
+    let options = match AnalysisOptions::default().validate() {
+        Ok(o) => o,
+        Err(e) => return error_response(&e),
+    };
+    match options.read_bytes(&name, body) {
+        Ok(a) => {
+            let summary = Completeness::of(&a, Some(options.model.minimum_age));
+            let notes = options.input_notes(&a);
+            let id = match state.store.lock() {
+                Ok(mut s) => s.add_table(Table {
+                    name: name.clone(),
+                    bytes: body.to_vec(),
+                }),
+                Err(_) => return WebResponse::error(500, "the server's memory is unusable"),
+            };
+            WebResponse::json(
+                200,
+                &json!({
+                    "table": id,
+                    "name": name,
+                    "summary": summary,
+                    "notes": notes,
+                    "columns": a.carried_columns,
+                    "has_group_column": a.individuals.iter().any(|i| i.group.is_some()),
+                }),
+            )
+        }
+        Err(e) => error_response(&e),
+    }
+}
+
+/// What the page may set of an analysis. Paths to files of this machine (a model, a prior
+/// file, a scale map) are not among them.
+#[derive(Debug, Deserialize)]
+#[serde(default, deny_unknown_fields)]
+pub struct PageOptions {
+    /// The chosen prior: a shipped name or `fixed:VALUE`.
+    pub prior: String,
+    /// The sensitivity set: shipped names, `fixed:VALUE`, `shipped`, `sweep`.
+    pub priors: String,
+    /// Cut-offs on P(female).
+    pub thresholds: String,
+    /// The column holding the groups (empty: the `group` column, if any).
+    pub group_by: String,
+    /// 0/1 columns to compare between the sexes.
+    pub by_sex: Vec<String>,
+    /// Joint posterior draws to write.
+    pub draws: Option<usize>,
+    /// Recalibrate the measurements.
+    pub recalibrate: bool,
+    /// Seed.
+    pub seed: u64,
+}
+
+impl Default for PageOptions {
+    fn default() -> Self {
+        let d = AnalysisOptions::default();
+        PageOptions {
+            prior: d.prior,
+            priors: d.priors,
+            thresholds: d.thresholds,
+            group_by: String::new(),
+            by_sex: Vec::new(),
+            draws: None,
+            recalibrate: false,
+            seed: d.seed,
+        }
+    }
+}
+
+impl PageOptions {
+    /// The library's options, or why not: every prior word must be shipped, `fixed:VALUE`,
+    /// `shipped` or `sweep` (the page never names a file of this machine).
+    fn analysis_options(&self) -> Result<AnalysisOptions, String> {
+        let shipped: Vec<String> = crate::prior::shipped_priors()
+            .map_err(|e| e.to_string())?
+            .into_iter()
+            .map(|p| p.name)
+            .collect();
+        for word in self
+            .prior
+            .split(',')
+            .chain(self.priors.split(','))
+            .map(str::trim)
+            .filter(|w| !w.is_empty())
+        {
+            let ok = word == "shipped"
+                || word == "sweep"
+                || word.starts_with("fixed:")
+                || shipped.iter().any(|n| n == word);
+            if !ok {
+                return Err(format!(
+                    "`{word}`: on this page a prior is one of the shipped ones ({}) or fixed:VALUE; a prior file needs the command line",
+                    shipped.join(", ")
+                ));
+            }
+        }
+        Ok(AnalysisOptions {
+            model: ModelChoice::Embedded,
+            prior: self.prior.clone(),
+            priors: self.priors.clone(),
+            thresholds: self.thresholds.clone(),
+            draws: self.draws,
+            by_sex: self.by_sex.clone(),
+            recalibrate: self.recalibrate,
+            seed: self.seed,
+            read: ReadOptions {
+                group_by: (!self.group_by.trim().is_empty()).then(|| self.group_by.clone()),
+                ..ReadOptions::default()
+            },
+            ..AnalysisOptions::default()
+        })
+    }
+}
+
+/// The command line that gives the same files as a page run (for the record and for
+/// reproducing it in a terminal).
+fn command_of(table: &str, o: &AnalysisOptions) -> Vec<String> {
+    let d = AnalysisOptions::default();
+    let mut c: Vec<String> = vec!["tessera".into(), "analyse".into(), table.into()];
+    c.extend(["--out".to_string(), "results".to_string()]);
+    let mut opt = |k: &str, v: String| {
+        c.push(k.to_string());
+        c.push(v);
+    };
+    if o.prior != d.prior {
+        opt("--prior", o.prior.clone());
+    }
+    if o.priors != d.priors {
+        opt("--priors", o.priors.clone());
+    }
+    if o.thresholds != d.thresholds {
+        opt("--thresholds", o.thresholds.clone());
+    }
+    if let Some(g) = &o.read.group_by {
+        opt("--group-by", g.clone());
+    }
+    if let Some(n) = o.draws {
+        opt("--draws", n.to_string());
+    }
+    for b in &o.by_sex {
+        opt("--by-sex", b.clone());
+    }
+    if o.seed != d.seed {
+        opt("--seed", o.seed.to_string());
+    }
+    if o.recalibrate {
+        c.push("--recalibrate".into());
+    }
+    c
+}
+
+/// `POST /api/tables/ID/analyse` with the options as JSON: the whole analysis, as `analyse`
+/// runs it, and what the page shows of it.
+pub fn analyse(state: &State, table: &str, body: &[u8]) -> WebResponse {
+    let Some(t) = state.store.lock().ok().and_then(|s| s.table(table)) else {
+        return WebResponse::error(404, "that table is no longer held: load it again");
+    };
+    let page: PageOptions = if body.iter().all(u8::is_ascii_whitespace) {
+        PageOptions::default()
+    } else {
+        match serde_json::from_slice(body) {
+            Ok(p) => p,
+            Err(e) => return WebResponse::error(400, &format!("the options are not valid: {e}")),
+        }
+    };
+    let options = match page.analysis_options() {
+        Ok(o) => o,
+        Err(m) => return WebResponse::error(422, &m),
+    };
+    let run = match options.validate() {
+        Ok(r) => r,
+        Err(e) => return error_response(&e),
+    };
+    let a = match run.read_bytes(&t.name, &t.bytes) {
+        Ok(a) => a,
+        Err(e) => return error_response(&e),
+    };
+    let notes = run.input_notes(&a);
+    let result = match run.analyse(a, command_of(&t.name, &options), &Silent) {
+        Ok(r) => r,
+        Err(e) => return error_response(&e),
+    };
+    let files = match render(&result) {
+        Ok(f) => f,
+        Err(e) => return error_response(&e),
+    };
+    let figures: Vec<Value> = files
+        .files
+        .iter()
+        .filter(|f| f.name.ends_with(".svg"))
+        .map(|f| json!({ "name": f.name, "svg": String::from_utf8_lossy(&f.bytes) }))
+        .collect();
+    let methods = files
+        .get("methods.md")
+        .map(|f| String::from_utf8_lossy(&f.bytes).into_owned())
+        .unwrap_or_default();
+    let names: Vec<String> = files.names().iter().map(|s| s.to_string()).collect();
+    let id = match state.store.lock() {
+        Ok(mut s) => s.add_run(&t.name, files),
+        Err(_) => return WebResponse::error(500, "the server's memory is unusable"),
+    };
+    let mut body = results_json(&result);
+    if let Value::Object(m) = &mut body {
+        m.insert("run".into(), json!(id));
+        m.insert("notes".into(), json!(notes));
+        m.insert("figures".into(), json!(figures));
+        m.insert("methods".into(), json!(methods));
+        m.insert("files".into(), json!(names));
+        m.insert(
+            "command".into(),
+            json!(command_of(&t.name, &options).join(" ")),
+        );
+    }
+    WebResponse::json(200, &body)
+}
+
+/// Everything the results view shows, from one analysis.
+pub fn results_json(r: &AnalysisResult) -> Value {
+    let analysis = &r.results;
+    let main = &analysis.main;
+    let priors: Vec<&crate::assemblage::PriorResult> = analysis.results().collect();
+    let individuals: Vec<Value> = r
+        .assemblage
+        .individuals
+        .iter()
+        .zip(&r.evidence)
+        .enumerate()
+        .map(|(i, (ind, ev))| {
+            let log10 = ev.ln_lr / LN_10;
+            let regions: Vec<Value> = r
+                .model
+                .blocks
+                .iter()
+                .zip(&ev.blocks)
+                .map(|(b, e)| {
+                    let used = e.status == BlockStatus::Used;
+                    json!({
+                        "region": b.id(),
+                        "status": e.status.as_str(),
+                        "log10_lr": used.then_some(e.ln_lr / LN_10),
+                        "words": if used { lr_support(e.ln_lr / LN_10) } else { String::new() },
+                        "traits": e.traits_used,
+                        "note": e.note,
+                    })
+                })
+                .collect();
+            let under: Vec<Value> = priors
+                .iter()
+                .map(|p| {
+                    json!({
+                        "prior": p.prior.name,
+                        "p_female": p.p_female[i],
+                        "category": p.categories[i].label(),
+                    })
+                })
+                .collect();
+            let s = &analysis.individual_sensitivity[i];
+            json!({
+                "id": ind.id,
+                "row": ind.row,
+                "group": ind.group,
+                "estimable": ev.estimable,
+                "n_traits": ev.n_traits,
+                "log10_lr": ev.estimable.then_some(log10),
+                "lr_words": if ev.estimable { lr_support(log10) } else { String::new() },
+                "p_female": main.p_female[i],
+                "category": main.categories[i].label(),
+                "category_note": if ev.estimable {
+                    category_note(&analysis.thresholds, main.categories[i], log10, &main.prior.name)
+                } else {
+                    None
+                },
+                "prior_sensitive": s.prior_sensitive,
+                "p_female_min": s.p_female_min,
+                "p_female_max": s.p_female_max,
+                "note": ev.note,
+                "regions": regions,
+                "under_priors": under,
+            })
+        })
+        .collect();
+    let categories: Vec<Value> = crate::assemblage::Category::ALL
+        .iter()
+        .map(|c| {
+            json!({
+                "category": c.label(),
+                "n": main.categories.iter().filter(|x| *x == c).count(),
+            })
+        })
+        .collect();
+    let groups: Vec<Value> = main
+        .groups
+        .iter()
+        .map(|g| json!({ "group": g.group, "n": g.n, "mean": g.pi.mean, "lo": g.pi.lo, "hi": g.pi.hi }))
+        .collect();
+    let sensitivity: Vec<Value> = priors
+        .iter()
+        .map(|p| json!({ "prior": p.prior.name, "mean": p.pi.mean, "lo": p.pi.lo, "hi": p.pi.hi }))
+        .collect();
+    json!({
+        "cautions": CAUTIONS,
+        "input": r.assemblage.file,
+        "sha256": r.assemblage.sha256,
+        "model": r.model.name,
+        "prior": main.prior.name,
+        "proportion_female": {
+            "model": if main.hyper.is_some() { "population behind the groups (μ)" } else { "the assemblage as one population" },
+            "mean": main.hyper.as_ref().map_or(main.pi.mean, |h| h.mu.mean),
+            "lo": main.hyper.as_ref().map_or(main.pi.lo, |h| h.mu.lo),
+            "hi": main.hyper.as_ref().map_or(main.pi.hi, |h| h.mu.hi),
+        },
+        "n_individuals": main.n_individuals,
+        "n_estimable": main.n_estimable,
+        "thresholds": analysis.thresholds,
+        "categories": categories,
+        "groups": groups,
+        "sensitivity": sensitivity,
+        "flagged": r.flagged,
+        "individuals": individuals,
+    })
+}
+
+/// `GET /api/runs/ID/outputs.zip`: every file of the run, the same bytes `analyse` writes,
+/// in one zip (deflated, entries in writing order, every date the zip epoch, so the same run
+/// gives the same zip).
+pub fn download(state: &State, run: &str) -> WebResponse {
+    let Some((table, files)) = state.store.lock().ok().and_then(|s| s.run(run)) else {
+        return WebResponse::error(404, "that run is no longer held: run it again");
+    };
+    match zip_of(&files) {
+        Ok(bytes) => {
+            let stem = table.rsplit_once('.').map_or(table.as_str(), |(s, _)| s);
+            let mut r = WebResponse::new(200, "application/zip", bytes);
+            let safe: String = stem
+                .chars()
+                .map(|c| {
+                    if c.is_ascii_alphanumeric() || c == '-' || c == '_' {
+                        c
+                    } else {
+                        '_'
+                    }
+                })
+                .collect();
+            r.download = Some(format!("{safe}-results.zip"));
+            r
+        }
+        Err(m) => WebResponse::error(500, &m),
+    }
+}
+
+/// The files of a run as a zip archive, deterministic.
+///
+/// # Errors
+/// A message when the archive cannot be built.
+pub fn zip_of(files: &crate::output::OutputSet) -> Result<Vec<u8>, String> {
+    use std::io::Write as _;
+    let mut w = zip::ZipWriter::new(std::io::Cursor::new(Vec::new()));
+    let opts = zip::write::SimpleFileOptions::default()
+        .compression_method(zip::CompressionMethod::Deflated)
+        .last_modified_time(zip::DateTime::default())
+        .unix_permissions(0o644);
+    for f in &files.files {
+        w.start_file(f.name.as_str(), opts)
+            .map_err(|e| e.to_string())?;
+        w.write_all(&f.bytes).map_err(|e| e.to_string())?;
+    }
+    w.finish()
+        .map(std::io::Cursor::into_inner)
+        .map_err(|e| e.to_string())
+}
+
+/// `GET /api/about`: the program, the cautions, and the priors the page offers.
+pub fn about() -> WebResponse {
+    let priors: Vec<String> = crate::prior::shipped_priors()
+        .map(|v| v.into_iter().map(|p| p.name).collect())
+        .unwrap_or_default();
+    WebResponse::json(
+        200,
+        &json!({
+            "program": "tessera",
+            "version": crate::VERSION,
+            "cautions": CAUTIONS,
+            "priors": priors,
+        }),
+    )
+}

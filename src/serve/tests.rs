@@ -1,0 +1,170 @@
+//! Unit tests of the page's router (no network: `route` is called directly).
+
+use super::*;
+
+fn get(path: &str) -> WebRequest {
+    WebRequest {
+        method: "GET".into(),
+        path: path.into(),
+        host: Some("127.0.0.1:8726".into()),
+        ..WebRequest::default()
+    }
+}
+
+fn post(path: &str, query: &str, body: &[u8]) -> WebRequest {
+    WebRequest {
+        method: "POST".into(),
+        path: path.into(),
+        query: query.into(),
+        host: Some("localhost:8726".into()),
+        body: body.to_vec(),
+    }
+}
+
+fn json(r: &WebResponse) -> serde_json::Value {
+    serde_json::from_slice(&r.body).expect("a JSON answer")
+}
+
+const TABLE: &[u8] = b"id,phase,glabella,mastoid,ventral_arc,lesion\n\
+A,early,1,2,1,0\nB,early,5,4,5,1\nC,late,2,,2,0\nD,late,4,5,,1\nE,late,,,,0\n";
+
+#[test]
+fn the_page_and_its_files_are_served_and_other_hosts_refused() {
+    let s = State::new();
+    let r = route(&s, &get("/"));
+    assert_eq!(r.status, 200);
+    assert!(String::from_utf8_lossy(&r.body).contains("<script src=\"page.js\">"));
+    assert_eq!(route(&s, &get("/page.js")).status, 200);
+    assert_eq!(route(&s, &get("/page.css")).status, 200);
+    assert_eq!(route(&s, &get("/nothing")).status, 404);
+    let mut away = get("/");
+    away.host = Some("example.org".into());
+    assert_eq!(route(&s, &away).status, 403);
+    away.host = None;
+    assert_eq!(route(&s, &away).status, 403);
+    assert!(host_is_local(Some("[::1]:80")));
+    assert!(!host_is_local(Some("127.0.0.1.example.org:80")));
+}
+
+#[test]
+fn a_table_is_checked_analysed_and_downloaded() {
+    let s = State::new();
+    let up = route(&s, &post("/api/tables", "name=dig%20one.csv", TABLE));
+    assert_eq!(up.status, 200, "{}", String::from_utf8_lossy(&up.body));
+    let up = json(&up);
+    assert_eq!(up["name"], "dig one.csv");
+    assert_eq!(up["summary"]["individuals"], 5);
+    assert!(up["columns"]
+        .as_array()
+        .unwrap()
+        .iter()
+        .any(|c| c == "lesion"));
+    let table = up["table"].as_str().unwrap();
+    let options = br#"{"group_by": "phase", "by_sex": ["lesion"], "priors": "flat,fixed:0.3"}"#;
+    let r = route(
+        &s,
+        &post(&format!("/api/tables/{table}/analyse"), "", options),
+    );
+    assert_eq!(r.status, 200, "{}", String::from_utf8_lossy(&r.body));
+    let r = json(&r);
+    assert_eq!(r["individuals"].as_array().unwrap().len(), 5);
+    assert_eq!(r["cautions"].as_array().unwrap().len(), 4);
+    assert_eq!(r["groups"].as_array().unwrap().len(), 2);
+    let a = &r["individuals"][0];
+    assert_eq!(a["id"], "A");
+    assert_eq!(a["under_priors"].as_array().unwrap().len(), 2);
+    // The regions' log10 LRs add up to the total (blocks are independent given sex).
+    let total: f64 = a["regions"]
+        .as_array()
+        .unwrap()
+        .iter()
+        .filter_map(|g| g["log10_lr"].as_f64())
+        .sum();
+    assert!((total - a["log10_lr"].as_f64().unwrap()).abs() < 1e-9);
+    assert!(r["command"]
+        .as_str()
+        .unwrap()
+        .starts_with("tessera analyse dig one.csv --out results --priors flat,fixed:0.3 --group-by phase --by-sex lesion"));
+    let run = r["run"].as_str().unwrap();
+    let z = route(&s, &get(&format!("/api/runs/{run}/outputs.zip")));
+    assert_eq!(z.status, 200);
+    assert_eq!(&z.body[..2], b"PK");
+    assert_eq!(z.download.as_deref(), Some("dig_one-results.zip"));
+    // The same run gives the same zip.
+    let again = route(&s, &get(&format!("/api/runs/{run}/outputs.zip")));
+    assert_eq!(z.body, again.body);
+}
+
+#[test]
+fn bad_tables_and_options_are_answered_with_every_problem() {
+    let s = State::new();
+    let bad = b"id,glabella,mastoid\nA,7,2\nA,1,x\n";
+    let r = route(&s, &post("/api/tables", "name=bad.csv", bad));
+    assert_eq!(r.status, 422);
+    let problems = json(&r)["problems"]["problems"].as_array().unwrap().len();
+    assert!(problems >= 3, "{problems} problems");
+    assert_eq!(route(&s, &post("/api/tables", "", TABLE)).status, 400);
+    assert_eq!(
+        route(&s, &post("/api/tables", "name=e.csv", b"")).status,
+        400
+    );
+    let up = json(&route(&s, &post("/api/tables", "name=t.csv", TABLE)));
+    let table = up["table"].as_str().unwrap();
+    let path = format!("/api/tables/{table}/analyse");
+    // A prior file, a model or an unknown option: refused before anything runs.
+    for body in [
+        &br#"{"prior": "/etc/passwd"}"#[..],
+        br#"{"priors": "flat,../secret.yaml"}"#,
+        br#"{"model": "x.yaml"}"#,
+        b"{not json",
+    ] {
+        let r = route(&s, &post(&path, "", body));
+        assert!(
+            r.status == 400 || r.status == 422,
+            "{}: {}",
+            String::from_utf8_lossy(body),
+            r.status
+        );
+    }
+    let r = route(
+        &s,
+        &post(&path, "", br#"{"thresholds": "0.9,0.1,0.5,0.2"}"#),
+    );
+    assert_eq!(r.status, 422);
+    assert_eq!(
+        route(&s, &post("/api/tables/t999/analyse", "", b"")).status,
+        404
+    );
+    assert_eq!(route(&s, &get("/api/runs/r999/outputs.zip")).status, 404);
+}
+
+#[test]
+fn tables_beyond_the_cap_are_dropped_oldest_first() {
+    let s = State::new();
+    let ids: Vec<String> = (0..KEPT_TABLES + 2)
+        .map(|_| {
+            json(&route(&s, &post("/api/tables", "name=t.csv", TABLE)))["table"]
+                .as_str()
+                .unwrap()
+                .to_string()
+        })
+        .collect();
+    let first = format!("/api/tables/{}/analyse", ids[0]);
+    assert_eq!(route(&s, &post(&first, "", b"")).status, 404);
+    let last = format!("/api/tables/{}/analyse", ids[ids.len() - 1]);
+    assert_eq!(route(&s, &post(&last, "", b"")).status, 200);
+}
+
+#[test]
+fn query_values_are_decoded() {
+    assert_eq!(
+        api::query_value("a=1&name=caf%C3%A9+1.csv", "name").as_deref(),
+        Some("café 1.csv")
+    );
+    assert_eq!(api::query_value("name=%", "name").as_deref(), Some("%"));
+    assert_eq!(
+        api::query_value("name=%e9%", "name").as_deref(),
+        Some("\u{fffd}%")
+    );
+    assert_eq!(api::query_value("x=1", "name"), None);
+}

@@ -1,0 +1,156 @@
+//! The local web page's server: its download equals the command line's folder byte for byte,
+//! and it survives malformed requests on the network (127.0.0.1 only, a bounded loop).
+
+mod common;
+use common::{stderr, tessera_in};
+use std::io::{Read, Write};
+use std::net::TcpStream;
+use std::path::Path;
+use std::time::Duration;
+use tessera::serve::{route, Server, State, WebRequest};
+
+fn demo_bytes() -> Vec<u8> {
+    std::fs::read(Path::new(env!("CARGO_MANIFEST_DIR")).join("examples/mirefold.csv")).unwrap()
+}
+
+fn request(method: &str, path: &str, query: &str, body: &[u8]) -> WebRequest {
+    WebRequest {
+        method: method.into(),
+        path: path.into(),
+        query: query.into(),
+        host: Some("127.0.0.1:8726".into()),
+        body: body.to_vec(),
+    }
+}
+
+#[test]
+fn the_page_s_zip_holds_the_command_line_s_files_byte_for_byte() {
+    let dir = tempfile::tempdir().unwrap();
+    std::fs::write(dir.path().join("mirefold.csv"), demo_bytes()).unwrap();
+    // The page's run.
+    let state = State::new();
+    let up = route(
+        &state,
+        &request("POST", "/api/tables", "name=mirefold.csv", &demo_bytes()),
+    );
+    assert_eq!(up.status, 200);
+    let up: serde_json::Value = serde_json::from_slice(&up.body).unwrap();
+    let table = up["table"].as_str().unwrap();
+    let options = br#"{"group_by": "phase", "draws": 200, "by_sex": ["cribra_orbitalia"]}"#;
+    let r = route(
+        &state,
+        &request("POST", &format!("/api/tables/{table}/analyse"), "", options),
+    );
+    assert_eq!(r.status, 200, "{}", String::from_utf8_lossy(&r.body));
+    let r: serde_json::Value = serde_json::from_slice(&r.body).unwrap();
+    let command = r["command"].as_str().unwrap().to_string();
+    let zip = route(
+        &state,
+        &request(
+            "GET",
+            &format!("/api/runs/{}/outputs.zip", r["run"].as_str().unwrap()),
+            "",
+            b"",
+        ),
+    );
+    assert_eq!(zip.status, 200);
+    // The command line, run as the page says, in a folder holding the same file.
+    let args: Vec<&str> = command.split(' ').skip(1).collect();
+    assert_eq!(
+        args,
+        [
+            "analyse",
+            "mirefold.csv",
+            "--out",
+            "results",
+            "--group-by",
+            "phase",
+            "--draws",
+            "200",
+            "--by-sex",
+            "cribra_orbitalia"
+        ]
+    );
+    let o = tessera_in(dir.path(), &args);
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    let mut archive = zip::ZipArchive::new(std::io::Cursor::new(zip.body)).unwrap();
+    let mut names = Vec::new();
+    for k in 0..archive.len() {
+        let mut f = archive.by_index(k).unwrap();
+        let mut bytes = Vec::new();
+        f.read_to_end(&mut bytes).unwrap();
+        let on_disk = std::fs::read(dir.path().join("results").join(f.name())).unwrap();
+        assert!(
+            bytes == on_disk,
+            "{} differs from the command line's",
+            f.name()
+        );
+        names.push(f.name().to_string());
+    }
+    assert!(names.iter().any(|n| n == "individuals.csv"));
+    assert!(names.iter().any(|n| n == "figures/p_female.png"));
+    // Every file the command line wrote is in the zip (its folder marker aside).
+    let manifest = std::fs::read_to_string(dir.path().join("results/.tessera-output")).unwrap();
+    for line in manifest
+        .lines()
+        .filter(|l| !l.starts_with('#') && !l.is_empty())
+    {
+        assert!(
+            names.iter().any(|n| n == line),
+            "{line} missing from the zip"
+        );
+    }
+}
+
+/// Send raw bytes and read whatever comes back, within a second.
+fn exchange(port: u16, bytes: &[u8]) -> Vec<u8> {
+    let Ok(mut s) = TcpStream::connect(("127.0.0.1", port)) else {
+        return Vec::new();
+    };
+    let _ = s.set_read_timeout(Some(Duration::from_secs(1)));
+    let _ = s.set_write_timeout(Some(Duration::from_secs(1)));
+    let _ = s.write_all(bytes);
+    let _ = s.shutdown(std::net::Shutdown::Write);
+    let mut out = Vec::new();
+    let _ = s.read_to_end(&mut out);
+    out
+}
+
+#[test]
+fn the_server_answers_after_ten_thousand_malformed_requests() {
+    let server = Server::bind(0).unwrap();
+    let port = server.port();
+    std::thread::scope(|scope| {
+        scope.spawn(|| server.run(4));
+        let garbage: Vec<Vec<u8>> = vec![
+            b"\x00\x01\x02\xff\xfe".to_vec(),
+            b"GET\r\n\r\n".to_vec(),
+            b"GET / HTTP/9.9\r\nHost: 127.0.0.1\r\n\r\n".to_vec(),
+            b"POST /api/tables?name=a.csv HTTP/1.1\r\nHost: 127.0.0.1\r\nContent-Length: 99999999999\r\n\r\nid".to_vec(),
+            b"POST /api/tables?name=a.csv HTTP/1.1\r\nHost: 127.0.0.1\r\nContent-Length: 10\r\n\r\nid,glab".to_vec(),
+            b"POST /api/tables/t1/analyse HTTP/1.1\r\nHost: 127.0.0.1\r\nContent-Length: 5\r\n\r\n{{{{{".to_vec(),
+            b"GET /api/runs/../../etc/passwd/outputs.zip HTTP/1.1\r\nHost: 127.0.0.1\r\n\r\n".to_vec(),
+            b"GET / HTTP/1.1\r\nHost: attacker.example\r\n\r\n".to_vec(),
+            b"DELETE / HTTP/1.1\r\nHost: 127.0.0.1\r\n\r\n".to_vec(),
+            format!("GET /{} HTTP/1.1\r\nHost: 127.0.0.1\r\n\r\n", "a".repeat(20_000)).into_bytes(),
+            b"POST /api/tables?name=%ZZ%00.csv HTTP/1.1\r\nHost: 127.0.0.1\r\nTransfer-Encoding: chunked\r\n\r\nzz\r\n".to_vec(),
+        ];
+        for k in 0..10_000 {
+            exchange(port, &garbage[k % garbage.len()]);
+        }
+        // Still answering, and correctly.
+        let ok = exchange(
+            port,
+            b"GET /api/about HTTP/1.1\r\nHost: 127.0.0.1\r\nConnection: close\r\n\r\n",
+        );
+        let text = String::from_utf8_lossy(&ok);
+        assert!(text.starts_with("HTTP/1.1 200"), "{text}");
+        assert!(text.contains("\"program\":\"tessera\""), "{text}");
+        let refused = exchange(
+            port,
+            b"GET / HTTP/1.1\r\nHost: attacker.example\r\nConnection: close\r\n\r\n",
+        );
+        assert!(String::from_utf8_lossy(&refused).starts_with("HTTP/1.1 403"));
+        server.stop();
+    });
+}
