@@ -139,6 +139,8 @@ pub struct PageOptions {
     pub thresholds: String,
     /// The column holding the groups (empty: the `group` column, if any).
     pub group_by: String,
+    /// Which side of a bilateral trait to use: `left-first`, `right-first` or `both`.
+    pub sides: String,
     /// 0/1 columns to compare between the sexes.
     pub by_sex: Vec<String>,
     /// Joint posterior draws to write.
@@ -157,6 +159,7 @@ impl Default for PageOptions {
             priors: d.priors,
             thresholds: d.thresholds,
             group_by: String::new(),
+            sides: "left-first".into(),
             by_sex: Vec::new(),
             draws: None,
             recalibrate: false,
@@ -192,6 +195,16 @@ impl PageOptions {
                 ));
             }
         }
+        let sides = match self.sides.as_str() {
+            "left-first" | "" => crate::data::SidePolicy::LeftFirst,
+            "right-first" => crate::data::SidePolicy::RightFirst,
+            "both" => crate::data::SidePolicy::Both,
+            other => {
+                return Err(format!(
+                    "`{other}`: sides are left-first, right-first or both"
+                ))
+            }
+        };
         Ok(AnalysisOptions {
             model: ModelChoice::Embedded,
             prior: self.prior.clone(),
@@ -203,6 +216,7 @@ impl PageOptions {
             seed: self.seed,
             read: ReadOptions {
                 group_by: (!self.group_by.trim().is_empty()).then(|| self.group_by.clone()),
+                sides,
                 ..ReadOptions::default()
             },
             ..AnalysisOptions::default()
@@ -228,6 +242,11 @@ fn command_of(table: &str, o: &AnalysisOptions) -> Vec<String> {
     }
     if o.thresholds != d.thresholds {
         opt("--thresholds", o.thresholds.clone());
+    }
+    match o.read.sides {
+        crate::data::SidePolicy::LeftFirst => {}
+        crate::data::SidePolicy::RightFirst => opt("--sides", "right-first".into()),
+        crate::data::SidePolicy::Both => opt("--sides", "both".into()),
     }
     if let Some(g) = &o.read.group_by {
         opt("--group-by", g.clone());
@@ -337,7 +356,11 @@ pub fn results_json(r: &AnalysisResult) -> Value {
                         "status": e.status.as_str(),
                         "log10_lr": used.then_some(e.ln_lr / LN_10),
                         "words": if used { lr_support(e.ln_lr / LN_10) } else { String::new() },
-                        "traits": e.traits_used,
+                        "traits": e
+                            .traits_used
+                            .iter()
+                            .map(|t| r.model.catalogue.get(t).map_or_else(|| t.clone(), |d| d.name.clone()))
+                            .collect::<Vec<_>>(),
                         "note": e.note,
                     })
                 })
@@ -393,7 +416,15 @@ pub fn results_json(r: &AnalysisResult) -> Value {
         .collect();
     let sensitivity: Vec<Value> = priors
         .iter()
-        .map(|p| json!({ "prior": p.prior.name, "mean": p.pi.mean, "lo": p.pi.lo, "hi": p.pi.hi }))
+        .map(|p| {
+            json!({
+                "prior": p.prior.name,
+                "fixed": matches!(p.prior.shape, crate::prior::PriorShape::Fixed { .. }),
+                "mean": p.pi.mean,
+                "lo": p.pi.lo,
+                "hi": p.pi.hi,
+            })
+        })
         .collect();
     json!({
         "cautions": CAUTIONS,

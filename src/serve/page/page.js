@@ -134,6 +134,7 @@ async function run(event) {
     priors: $("priors").value,
     thresholds: $("thresholds").value,
     group_by: $("group-by").value,
+    sides: $("sides").value,
     by_sex: Array.from(document.querySelectorAll("#by-sex input:checked")).map((b) => b.value),
     draws: $("draws").value ? Number($("draws").value) : null,
     recalibrate: $("recalibrate").checked,
@@ -171,7 +172,12 @@ function showResults(r) {
   head.appendChild(el("p", "Proportion female (" + p.model + "): " + fixed(p.mean, 3) + ", 95% interval " + fixed(p.lo, 3) + " to " + fixed(p.hi, 3) + ". Prior: " + r.prior + "; model: " + r.model + "; " + r.n_estimable + " of " + r.n_individuals + " individuals with usable evidence."));
   head.appendChild(el("p", "Input " + r.input + ", SHA-256 " + r.sha256, "note"));
   table($("categories"), ["category", "individuals"], r.categories.map((c) => [c.category, c.n]), [false, true]);
-  table($("sensitivity"), ["prior", "mean", "95% interval"], r.sensitivity.map((s) => [s.prior, fixed(s.mean, 3), fixed(s.lo, 3) + " to " + fixed(s.hi, 3)]), [false, true, true]);
+  // A fixed prior's row would only repeat its value: those are counted under the table.
+  const free = r.sensitivity.filter((s, k) => k === 0 || !s.fixed);
+  const fixedOnes = r.sensitivity.length - free.length;
+  table($("sensitivity"), ["prior", "mean", "95% interval"], free.map((s) => [s.prior, fixed(s.mean, 3), fixed(s.lo, 3) + " to " + fixed(s.hi, 3)]), [false, true, true]);
+  const more = $("sensitivity-more");
+  more.textContent = fixedOnes ? "and " + fixedOnes + " priors that fix the proportion; every individual under each of them is shown when you open it." : "";
   $("groups-box").hidden = r.groups.length === 0;
   table($("groups"), ["group", "n", "proportion female", "95% interval"], r.groups.map((g) => [g.group, g.n, fixed(g.mean, 3), fixed(g.lo, 3) + " to " + fixed(g.hi, 3)]), [false, true, true, true]);
   const flagged = $("flagged");
