@@ -293,3 +293,43 @@ fn two_observers_are_compared() {
     let columns = std::fs::read_to_string(dir.path().join("columns.md")).unwrap();
     assert!(columns.contains("## agreement.csv") && !columns.contains("(not described)"));
 }
+
+#[test]
+fn a_column_profile_reads_a_lab_s_own_names_and_a_bad_one_lists_every_problem() {
+    let dir = tempfile::tempdir().unwrap();
+    let sheet = dir.path().join("lab.csv");
+    std::fs::write(&sheet, "Burial,Glab,Mastoid L\nA,1,2\nB,5,unobs\nC,2,3\n").unwrap();
+    let profile = dir.path().join("lab-columns.yaml");
+    std::fs::write(
+        &profile,
+        "columns:\n  Burial: id\n  Glab: glabella\n  Mastoid L: mastoid_l\nnot_recorded: [unobs]\n",
+    )
+    .unwrap();
+    let (s, p) = (sheet.to_str().unwrap(), profile.to_str().unwrap());
+    // Without the profile there is no id column; with it the sheet reads as it is.
+    assert_eq!(tessera(&["check", s]).status.code(), Some(3));
+    let o = tessera(&["check", s, "--columns", p]);
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    let text = stdout(&o);
+    assert!(text.contains("Individuals  3"), "{text}");
+    assert!(
+        text.lines()
+            .any(|l| l.starts_with("glabella") && l.split_whitespace().nth(1) == Some("3")),
+        "{text}"
+    );
+    std::fs::write(
+        &profile,
+        "columns:\n  Burial: ident\n  Glab: glabela\n  glab: glabella\n",
+    )
+    .unwrap();
+    let o = tessera(&["check", s, "--columns", p]);
+    assert_eq!(o.status.code(), Some(4), "{}", stderr(&o));
+    let e = stderr(&o);
+    for needle in [
+        "`ident` is not a column",
+        "`glabela` is not a column",
+        "same column",
+    ] {
+        assert!(e.contains(needle), "{needle} not in {e}");
+    }
+}

@@ -62,7 +62,8 @@ pub fn run(args: Args) -> Result<i32, Error> {
         eprintln!("warning: {w}");
     }
     if let Some(out) = &args.out {
-        let protected: Vec<&Path> = vec![args.first.as_path(), args.second.as_path()];
+        let mut protected: Vec<&Path> = vec![args.first.as_path(), args.second.as_path()];
+        protected.extend(args.input.settings_files());
         write_folder(out, &agreement_files(&r)?, "agreement", &protected)?;
     }
     Ok(0)

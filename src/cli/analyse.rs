@@ -102,6 +102,7 @@ pub fn run(args: Args) -> Result<i32, Error> {
     )?;
     let files = render(&r)?;
     let mut protected: Vec<&Path> = vec![args.file.as_path()];
+    protected.extend(args.input.settings_files());
     if let Some(m) = &args.model {
         protected.push(m.as_path());
     }

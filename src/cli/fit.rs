@@ -90,7 +90,8 @@ pub fn run(args: Args) -> Result<i32, Error> {
     })?;
     // The written model must load as any model does.
     crate::model::Model::from_yaml_in(&args.out.display().to_string(), &yaml, args.out.parent())?;
-    let protected: Vec<&Path> = vec![args.reference.as_path(), args.traits.as_path()];
+    let mut protected: Vec<&Path> = vec![args.reference.as_path(), args.traits.as_path()];
+    protected.extend(args.input.settings_files());
     let estimates = estimates_path(&args.out);
     let table = fitted.estimates_csv()?;
     write_all_atomic(

@@ -39,6 +39,10 @@ pub struct InputArgs {
     /// Worksheet to read from a workbook (default: the first).
     #[arg(long, value_name = "NAME")]
     pub sheet: Option<String>,
+    /// Column profile: the sheet's own column names and not-recorded words (YAML, as the
+    /// web page saves it).
+    #[arg(long, value_name = "PROFILE.yaml")]
+    pub columns: Option<PathBuf>,
 }
 
 /// Which column holds the groups: only on the commands whose results are by group (`check`
@@ -51,6 +55,16 @@ pub struct GroupArgs {
 }
 
 impl InputArgs {
+    /// The settings files these options name (scale map, column profile): inputs of the run,
+    /// never to be overwritten by its outputs.
+    pub fn settings_files(&self) -> Vec<&std::path::Path> {
+        self.scale_map
+            .iter()
+            .chain(self.columns.iter())
+            .map(PathBuf::as_path)
+            .collect()
+    }
+
     /// The options as plain data, with the groups read from `groups`' column.
     pub fn read_options(&self, groups: &GroupArgs) -> ReadOptions {
         ReadOptions {
@@ -65,6 +79,8 @@ impl InputArgs {
             scale_map: self.scale_map.clone(),
             sheet: self.sheet.clone(),
             group_by: groups.group_by.clone(),
+            columns: self.columns.clone(),
+            ..ReadOptions::default()
         }
     }
 

@@ -171,6 +171,7 @@ pub fn run(args: Args) -> Result<i32, Error> {
     if let Some(out) = &args.out {
         let files = validation_files(&v, &a.file, &a.sha256, &name, &command)?;
         let mut protected: Vec<&Path> = vec![args.reference.as_path()];
+        protected.extend(args.input.settings_files());
         if let Some(t) = &args.traits {
             protected.push(t.as_path());
         }

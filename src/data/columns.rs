@@ -49,12 +49,14 @@ pub fn normalise(name: &str) -> String {
 /// Assign roles to the header's columns, reporting header problems and likely misspellings.
 ///
 /// With `group_column`, that column holds the groups (and a column named `group`, if any, is
-/// carried through instead).
+/// carried through instead). `renames` (a column profile: normalised sheet name → tessera's
+/// name) gives a column the role of another name; messages still name the sheet's column.
 pub fn assign_roles(
     file: &str,
     header: &[String],
     catalogue: &Catalogue,
     group_column: Option<&str>,
+    renames: &[(String, String)],
 ) -> (Vec<ColumnRole>, Vec<Problem>, Vec<Warning>) {
     let group_column = group_column.map(normalise);
     let mut roles = Vec::with_capacity(header.len());
@@ -71,6 +73,10 @@ pub fn assign_roles(
     };
     for (i, raw) in header.iter().enumerate() {
         let name = normalise(raw);
+        let name = renames
+            .iter()
+            .find(|(from, _)| *from == name)
+            .map_or(name, |(_, to)| to.clone());
         if let Some(&first) = seen.get(&name) {
             if !name.is_empty() {
                 problems.push(problem(

@@ -11,6 +11,7 @@ pub mod cell;
 pub mod columns;
 pub mod completeness;
 pub mod problem;
+pub mod profile;
 pub mod reader;
 pub mod settings;
 pub mod source;
@@ -19,9 +20,10 @@ pub use age::{AgeAtDeath, Maturity, Sex, ADULT_AGE_YEARS};
 pub use cell::Observation;
 pub use completeness::Completeness;
 pub use problem::{Problem, ProblemKind, Warning, WarningKind};
+pub use profile::ColumnProfile;
 pub use reader::{
-    read_assemblage, read_assemblage_bytes, read_assemblage_text, sha256_hex, Assemblage,
-    Individual, InputError, SideUsed,
+    header_of_bytes, read_assemblage, read_assemblage_bytes, read_assemblage_text, sha256_hex,
+    Assemblage, Individual, InputError, SideUsed,
 };
 pub use settings::{ReadSettings, ScaleMap, SidePolicy, SideTolerance};
 pub use source::TableFormat;

@@ -174,6 +174,22 @@ pub fn read_assemblage_bytes(
     build(name, table, sha256_hex(bytes), catalogue, settings)
 }
 
+/// The header row of a table held in memory (a workbook's sheet, or delimited text), or
+/// `None` when the file cannot be split into cells: what a column mapping starts from, even
+/// when the table has problems.
+pub fn header_of_bytes(name: &str, bytes: &[u8], sheet: Option<&str>) -> Option<Vec<String>> {
+    if bytes.len() as u64 > MAX_INPUT_BYTES {
+        return None;
+    }
+    let path = Path::new(name);
+    let table = if is_workbook(path) {
+        read_workbook(path, bytes, sheet).ok()?
+    } else {
+        read_text(name, bytes).ok()?
+    };
+    Some(table.header)
+}
+
 /// Read and validate delimited text held in memory. `name` is used in messages.
 ///
 /// # Errors
@@ -251,6 +267,7 @@ fn build(
         &table.header,
         catalogue,
         settings.group_column.as_deref(),
+        &settings.renames,
     );
     if problems.iter().any(|p| {
         matches!(

@@ -72,6 +72,10 @@ pub struct ReadSettings {
     pub sheet: Option<String>,
     /// Column holding the groups (burial zone, phase, site); default `group`.
     pub group_column: Option<String>,
+    /// Columns of the sheet read under another name (a column profile): normalised sheet
+    /// name → tessera's name.
+    #[serde(default)]
+    pub renames: Vec<(String, String)>,
 }
 
 impl ReadSettings {

@@ -32,6 +32,14 @@ pub struct ReadOptions {
     pub sheet: Option<String>,
     /// Column holding the groups (default `group`).
     pub group_by: Option<String>,
+    /// A column profile file (`--columns`): the sheet's own column names and not-recorded
+    /// words.
+    pub columns: Option<PathBuf>,
+    /// Column names given directly (the page's mapping), over the profile's: sheet column →
+    /// tessera's name.
+    pub renames: std::collections::BTreeMap<String, String>,
+    /// Not-recorded words given with `renames` (the page's mapping).
+    pub not_recorded: Vec<String>,
 }
 
 impl Default for ReadOptions {
@@ -44,6 +52,9 @@ impl Default for ReadOptions {
             scale_map: None,
             sheet: None,
             group_by: None,
+            columns: None,
+            renames: Default::default(),
+            not_recorded: Vec::new(),
         }
     }
 }
@@ -59,7 +70,29 @@ impl ReadOptions {
         catalogue: &Catalogue,
         problems: &mut Vec<OptionProblem>,
     ) -> Result<ReadSettings, Error> {
-        for word in &self.missing {
+        // The column profile: from its file, then the names given directly over it.
+        let mut profile = match &self.columns {
+            None => crate::data::ColumnProfile::default(),
+            Some(p) => {
+                let text = crate::limits::read_settings_text(p).map_err(|e| e.into_error(p))?;
+                crate::data::ColumnProfile::from_yaml(&text, catalogue).map_err(|message| {
+                    Error::Settings {
+                        file: p.display().to_string(),
+                        message,
+                    }
+                })?
+            }
+        };
+        profile.columns.extend(self.renames.clone());
+        profile
+            .not_recorded
+            .extend(self.not_recorded.iter().cloned());
+        for message in profile.problems(catalogue) {
+            problems.push(OptionProblem::new("columns", message));
+        }
+        let mut missing = self.missing.clone();
+        missing.extend(profile.not_recorded.iter().cloned());
+        for word in &missing {
             if let Some(hits) = values_meaning(word, catalogue) {
                 problems.push(OptionProblem::new("missing", format!(
                     "`{word}` is a value that {hits} can take: as a not-recorded word it would silently drop every such score or measurement; choose a word or code that no trait uses (e.g. `nr`, `x`, or a number outside every scale such as 9 for 1–5 grades)"
@@ -95,7 +128,7 @@ impl ReadOptions {
             }
         };
         Ok(ReadSettings {
-            missing_words: self.missing.clone(),
+            missing_words: missing,
             side_policy: self.sides,
             side_tolerance: SideTolerance {
                 grades: self.side_grade_tolerance,
@@ -104,6 +137,7 @@ impl ReadOptions {
             scale_maps,
             sheet: self.sheet.clone(),
             group_column: self.group_by.clone(),
+            renames: profile.renames(),
         })
     }
 

@@ -12,6 +12,7 @@ use crate::results::AnalysisResult;
 use crate::Error;
 use serde::Deserialize;
 use serde_json::{json, Value};
+use std::collections::BTreeMap;
 use std::f64::consts::LN_10;
 
 /// The cautions shown on every results view, in the page's own words.
@@ -69,25 +70,40 @@ fn problems_json(e: &InputError) -> Value {
 }
 
 fn error_response(e: &Error) -> WebResponse {
-    match e {
-        Error::Input(problems) => WebResponse::json(
-            422,
-            &json!({
-                "error": "the table has problems; every one is listed",
-                "problems": problems_json(problems),
-            }),
-        ),
-        Error::Options(o) => WebResponse::json(
-            422,
-            &json!({ "error": "some options cannot be used", "options": o.to_string() }),
-        ),
-        other => WebResponse::error(422, &other.to_string()),
+    WebResponse::json(422, &error_detail(e))
+}
+
+/// A column mapping as the page sends it: sheet column → tessera's name, and the lab's words
+/// for "not recordable". The same content as a column profile file.
+#[derive(Debug, Clone, Default, Deserialize)]
+#[serde(default, deny_unknown_fields)]
+pub struct Mapping {
+    /// Sheet column → tessera's name.
+    pub columns: BTreeMap<String, String>,
+    /// Words meaning "not recordable".
+    pub not_recorded: Vec<String>,
+}
+
+impl Mapping {
+    fn read_options(&self) -> ReadOptions {
+        ReadOptions {
+            renames: self.columns.clone(),
+            not_recorded: self.not_recorded.clone(),
+            ..ReadOptions::default()
+        }
     }
 }
 
+/// The profile file a mapping is saved as, named after its table: `dig.csv` →
+/// `dig-columns.yaml`.
+pub fn profile_name(table: &str) -> String {
+    let stem = table.rsplit_once('.').map_or(table, |(s, _)| s);
+    format!("{stem}-columns.yaml")
+}
+
 /// `POST /api/tables?name=FILE` with the file as the body: keep it in memory and answer what
-/// `check` would say (every problem at once), with the columns a group or a by-sex comparison
-/// can use.
+/// `check` would say of it (every problem at once), with its header and, for each column
+/// tessera does not recognise, the names it most likely means.
 pub fn upload(state: &State, query: &str, body: &[u8]) -> WebResponse {
     let Some(name) = query_value(query, "name").as_deref().and_then(file_name) else {
         return WebResponse::error(400, "name the file: /api/tables?name=FILE.csv");
@@ -95,34 +111,138 @@ pub fn upload(state: &State, query: &str, body: &[u8]) -> WebResponse {
     if body.is_empty() {
         return WebResponse::error(400, &format!("`{name}` is empty"));
     }
-    let options = match AnalysisOptions::default().validate() {
-        Ok(o) => o,
+    let id = match state.store.lock() {
+        Ok(mut s) => s.add_table(Table {
+            name: name.clone(),
+            bytes: body.to_vec(),
+        }),
+        Err(_) => return WebResponse::error(500, "the server's memory is unusable"),
+    };
+    check_table(state, &id, &Mapping::default())
+}
+
+/// `POST /api/tables/ID/check` with a mapping as JSON: the check again, reading the sheet's
+/// columns as mapped.
+pub fn recheck(state: &State, table: &str, body: &[u8]) -> WebResponse {
+    let mapping: Mapping = if body.iter().all(u8::is_ascii_whitespace) {
+        Mapping::default()
+    } else {
+        match serde_json::from_slice(body) {
+            Ok(m) => m,
+            Err(e) => return WebResponse::error(400, &format!("the mapping is not valid: {e}")),
+        }
+    };
+    check_table(state, table, &mapping)
+}
+
+/// What the page shows of a table under a mapping.
+fn check_table(state: &State, id: &str, mapping: &Mapping) -> WebResponse {
+    let Some(t) = state.store.lock().ok().and_then(|s| s.table(id)) else {
+        return WebResponse::error(404, "that table is no longer held: load it again");
+    };
+    let options = AnalysisOptions {
+        read: mapping.read_options(),
+        ..AnalysisOptions::default()
+    };
+    let model = match crate::pipeline::load_model(None) {
+        Ok(m) => m,
         Err(e) => return error_response(&e),
     };
-    match options.read_bytes(&name, body) {
-        Ok(a) => {
-            let summary = Completeness::of(&a, Some(options.model.minimum_age));
-            let notes = options.input_notes(&a);
-            let id = match state.store.lock() {
-                Ok(mut s) => s.add_table(Table {
-                    name: name.clone(),
-                    bytes: body.to_vec(),
-                }),
-                Err(_) => return WebResponse::error(500, "the server's memory is unusable"),
-            };
-            WebResponse::json(
-                200,
-                &json!({
-                    "table": id,
-                    "name": name,
-                    "summary": summary,
-                    "notes": notes,
-                    "columns": a.carried_columns,
-                    "has_group_column": a.individuals.iter().any(|i| i.group.is_some()),
-                }),
-            )
+    let known = crate::data::profile::column_names(&model.catalogue);
+    let header = crate::data::header_of_bytes(&t.name, &t.bytes, None).unwrap_or_default();
+    let unrecognised: Vec<Value> = header
+        .iter()
+        .filter(|h| {
+            let n = crate::data::columns::normalise(h);
+            !n.is_empty() && !known.contains(&n)
+        })
+        .map(|h| {
+            json!({
+                "column": h,
+                "suggestions": crate::data::profile::suggestions(h, &model.catalogue),
+                "mapped_to": mapping.columns.get(h.as_str()),
+            })
+        })
+        .collect();
+    let mut answer = json!({
+        "table": id,
+        "name": t.name,
+        "header": header,
+        "unrecognised": unrecognised,
+        "names": known,
+        "profile_name": profile_name(&t.name),
+    });
+    let checked = options
+        .validate_with(model, "embedded default".into())
+        .and_then(|run| {
+            let a = run.read_bytes(&t.name, &t.bytes)?;
+            Ok((run, a))
+        });
+    let Value::Object(m) = &mut answer else {
+        return WebResponse::error(500, "unreachable");
+    };
+    match checked {
+        Ok((run, a)) => {
+            m.insert("readable".into(), json!(true));
+            m.insert(
+                "summary".into(),
+                json!(Completeness::of(&a, Some(run.model.minimum_age))),
+            );
+            m.insert("notes".into(), json!(run.input_notes(&a)));
+            m.insert("columns".into(), json!(a.carried_columns));
+            m.insert(
+                "has_group_column".into(),
+                json!(a.individuals.iter().any(|i| i.group.is_some())),
+            );
         }
-        Err(e) => error_response(&e),
+        Err(e) => {
+            m.insert("readable".into(), json!(false));
+            let detail = json!(error_detail(&e));
+            if let Value::Object(d) = detail {
+                m.extend(d);
+            }
+        }
+    }
+    WebResponse::json(200, &answer)
+}
+
+/// An error as the page lists it: `error`, and `problems` or `options` where there are such.
+fn error_detail(e: &Error) -> Value {
+    match e {
+        Error::Input(problems) => json!({
+            "error": "the table has problems; every one is listed",
+            "problems": problems_json(problems),
+        }),
+        Error::Options(o) => {
+            json!({ "error": "some options cannot be used", "options": o.to_string() })
+        }
+        other => json!({ "error": other.to_string() }),
+    }
+}
+
+/// `POST /api/profile` with a mapping as JSON: the column profile file (YAML) that the
+/// command line takes with `--columns`, checked first (every problem at once).
+pub fn profile(body: &[u8]) -> WebResponse {
+    let mapping: Mapping = match serde_json::from_slice(body) {
+        Ok(m) => m,
+        Err(e) => return WebResponse::error(400, &format!("the mapping is not valid: {e}")),
+    };
+    let catalogue = match crate::catalogue::Catalogue::standard() {
+        Ok(c) => c,
+        Err(e) => return WebResponse::error(500, &e.to_string()),
+    };
+    let p = crate::data::ColumnProfile {
+        columns: mapping.columns,
+        not_recorded: mapping.not_recorded,
+    };
+    let problems = p.problems(&catalogue);
+    if problems.is_empty() {
+        WebResponse::new(200, "application/yaml", p.to_yaml())
+    } else {
+        WebResponse::json(
+            422,
+            &json!({ "error": "the mapping cannot be saved", "options": problems.join("\n") }),
+        )
     }
 }
 
@@ -149,6 +269,10 @@ pub struct PageOptions {
     pub recalibrate: bool,
     /// Seed.
     pub seed: u64,
+    /// The sheet's columns under tessera's names (the mapping).
+    pub columns: BTreeMap<String, String>,
+    /// The lab's words for "not recordable" (the mapping).
+    pub not_recorded: Vec<String>,
 }
 
 impl Default for PageOptions {
@@ -164,6 +288,8 @@ impl Default for PageOptions {
             draws: None,
             recalibrate: false,
             seed: d.seed,
+            columns: BTreeMap::new(),
+            not_recorded: Vec::new(),
         }
     }
 }
@@ -217,6 +343,8 @@ impl PageOptions {
             read: ReadOptions {
                 group_by: (!self.group_by.trim().is_empty()).then(|| self.group_by.clone()),
                 sides,
+                renames: self.columns.clone(),
+                not_recorded: self.not_recorded.clone(),
                 ..ReadOptions::default()
             },
             ..AnalysisOptions::default()
@@ -251,6 +379,9 @@ fn command_of(table: &str, o: &AnalysisOptions) -> Vec<String> {
     if let Some(g) = &o.read.group_by {
         opt("--group-by", g.clone());
     }
+    if !o.read.renames.is_empty() || !o.read.not_recorded.is_empty() {
+        opt("--columns", profile_name(table));
+    }
     if let Some(n) = o.draws {
         opt("--draws", n.to_string());
     }
@@ -264,6 +395,24 @@ fn command_of(table: &str, o: &AnalysisOptions) -> Vec<String> {
         c.push("--recalibrate".into());
     }
     c
+}
+
+/// A command line to paste into a POSIX shell: words with anything but letters, digits and
+/// `-_.,:/=+` quoted in single quotes.
+pub fn shell_words(args: &[String]) -> String {
+    args.iter()
+        .map(|a| {
+            let plain = !a.is_empty()
+                && a.chars()
+                    .all(|c| c.is_ascii_alphanumeric() || "-_.,:/=+".contains(c));
+            if plain {
+                a.clone()
+            } else {
+                format!("'{}'", a.replace('\'', "'\\''"))
+            }
+        })
+        .collect::<Vec<_>>()
+        .join(" ")
 }
 
 /// `POST /api/tables/ID/analyse` with the options as JSON: the whole analysis, as `analyse`
@@ -323,10 +472,9 @@ pub fn analyse(state: &State, table: &str, body: &[u8]) -> WebResponse {
         m.insert("figures".into(), json!(figures));
         m.insert("methods".into(), json!(methods));
         m.insert("files".into(), json!(names));
-        m.insert(
-            "command".into(),
-            json!(command_of(&t.name, &options).join(" ")),
-        );
+        let args = command_of(&t.name, &options);
+        m.insert("command".into(), json!(shell_words(&args)));
+        m.insert("command_args".into(), json!(args));
     }
     WebResponse::json(200, &body)
 }

@@ -100,7 +100,8 @@ fn bad_tables_and_options_are_answered_with_every_problem() {
     let s = State::new();
     let bad = b"id,glabella,mastoid\nA,7,2\nA,1,x\n";
     let r = route(&s, &post("/api/tables", "name=bad.csv", bad));
-    assert_eq!(r.status, 422);
+    assert_eq!(r.status, 200);
+    assert_eq!(json(&r)["readable"], false);
     let problems = json(&r)["problems"]["problems"].as_array().unwrap().len();
     assert!(problems >= 3, "{problems} problems");
     assert_eq!(route(&s, &post("/api/tables", "", TABLE)).status, 400);
@@ -167,4 +168,60 @@ fn query_values_are_decoded() {
         Some("\u{fffd}%")
     );
     assert_eq!(api::query_value("x=1", "name"), None);
+}
+
+#[test]
+fn a_lab_s_own_column_names_are_mapped_saved_and_used() {
+    let s = State::new();
+    let sheet = b"Individual,Phase,Glab,Mastoid L,vent arc\nA,early,1,2,1\nB,early,5,4,unobs\nC,late,2,,2\n";
+    let up = json(&route(&s, &post("/api/tables", "name=lab.csv", sheet)));
+    // No `id` column: not readable as it is, and every unrecognised column has suggestions.
+    assert_eq!(up["readable"], false);
+    let unrecognised = up["unrecognised"].as_array().unwrap();
+    let of = |c: &str| {
+        unrecognised
+            .iter()
+            .find(|u| u["column"] == c)
+            .unwrap_or_else(|| panic!("{c} not listed"))["suggestions"][0]
+            .clone()
+    };
+    assert_eq!(of("Glab"), "glabella");
+    assert_eq!(of("Mastoid L"), "mastoid_l");
+    let table = up["table"].as_str().unwrap();
+    let mapping = br#"{"columns": {"Individual": "id", "Glab": "glabella", "Mastoid L": "mastoid_l", "vent arc": "ventral_arc"}, "not_recorded": ["unobs"]}"#;
+    let checked = json(&route(
+        &s,
+        &post(&format!("/api/tables/{table}/check"), "", mapping),
+    ));
+    assert_eq!(checked["readable"], true, "{checked}");
+    assert_eq!(checked["summary"]["individuals"], 3);
+    // The mapping saved as a profile, which the command line reads with --columns.
+    let yaml = route(&s, &post("/api/profile", "", mapping));
+    assert_eq!(yaml.status, 200);
+    let text = String::from_utf8(yaml.body).unwrap();
+    let cat = crate::catalogue::Catalogue::standard().unwrap();
+    let p = crate::data::ColumnProfile::from_yaml(&text, &cat).unwrap();
+    assert_eq!(p.columns["Glab"], "glabella");
+    assert_eq!(p.not_recorded, ["unobs"]);
+    let bad = br#"{"columns": {"Glab": "glabela"}}"#;
+    assert_eq!(route(&s, &post("/api/profile", "", bad)).status, 422);
+    // The analysis reads the sheet as mapped, and says how to do the same from a terminal.
+    let mut options: serde_json::Value = serde_json::from_slice(mapping).unwrap();
+    options["group_by"] = "Phase".into();
+    options["priors"] = "flat".into();
+    let r = route(
+        &s,
+        &post(
+            &format!("/api/tables/{table}/analyse"),
+            "",
+            options.to_string().as_bytes(),
+        ),
+    );
+    assert_eq!(r.status, 200, "{}", String::from_utf8_lossy(&r.body));
+    let r = json(&r);
+    assert_eq!(r["individuals"][0]["id"], "A");
+    assert!(r["command"]
+        .as_str()
+        .unwrap()
+        .contains("--group-by Phase --columns lab-columns.yaml"));
 }

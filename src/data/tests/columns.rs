@@ -7,17 +7,23 @@ fn assign_roles_(
     h: &[String],
     c: &Catalogue,
 ) -> (Vec<ColumnRole>, Vec<Problem>, Vec<Warning>) {
-    assign_roles(f, h, c, None)
+    assign_roles(f, h, c, None, &[])
 }
 
 #[test]
 fn group_by_another_column() {
     let cat = Catalogue::standard().unwrap();
-    let (roles, p, _) = assign_roles("f", &header(&["id", "group", "Phase"]), &cat, Some("phase"));
+    let (roles, p, _) = assign_roles(
+        "f",
+        &header(&["id", "group", "Phase"]),
+        &cat,
+        Some("phase"),
+        &[],
+    );
     assert!(p.is_empty());
     assert_eq!(roles[1], ColumnRole::Carried);
     assert_eq!(roles[2], ColumnRole::Group);
-    let (_, p, _) = assign_roles("f", &header(&["id", "zone"]), &cat, Some("phase"));
+    let (_, p, _) = assign_roles("f", &header(&["id", "zone"]), &cat, Some("phase"), &[]);
     assert_eq!(p[0].kind, ProblemKind::MissingGroupColumn);
 }
 
