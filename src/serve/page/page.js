@@ -65,13 +65,93 @@ function showProblems(target, body) {
   if (body.options) target.appendChild(el("pre", body.options));
 }
 
+// The mapping of the sheet's own column names.
+function currentMapping() {
+  const columns = {};
+  document.querySelectorAll("#mapping-table select").forEach((sel) => {
+    if (sel.value) columns[sel.dataset.column] = sel.value;
+  });
+  const not_recorded = $("not-recorded").value.split(",").map((w) => w.trim()).filter((w) => w);
+  return { columns, not_recorded };
+}
+
+function drawMapping(t) {
+  const box = $("mapping");
+  const rows = t.unrecognised || [];
+  box.hidden = rows.length === 0 && !$("not-recorded").value;
+  const tbl = $("mapping-table");
+  tbl.replaceChildren();
+  const head = el("tr");
+  ["your column", "holds"].forEach((h) => head.appendChild(el("th", h)));
+  const thead = el("thead");
+  thead.appendChild(head);
+  const tbody = el("tbody");
+  rows.forEach((u, i) => {
+    const tr = el("tr");
+    tr.appendChild(el("td", u.column));
+    const sel = el("select");
+    sel.dataset.column = u.column;
+    sel.id = "map-" + i;
+    sel.setAttribute("aria-label", "What " + u.column + " holds");
+    sel.appendChild(new Option("keep as it is (carried through)", ""));
+    const first = u.suggestions.concat(t.names.filter((n) => !u.suggestions.includes(n)));
+    first.forEach((n, k) => {
+      const label = k < u.suggestions.length ? n + " (close to your name)" : n;
+      sel.appendChild(new Option(label, n));
+    });
+    if (u.mapped_to) sel.value = u.mapped_to;
+    const td = el("td");
+    td.appendChild(sel);
+    tr.appendChild(td);
+    tbody.appendChild(tr);
+  });
+  tbl.append(thead, tbody);
+}
+
+async function applyMapping() {
+  if (!state.table) return;
+  const r = await ask("api/tables/" + state.table.table + "/check", {
+    method: "POST",
+    headers: { "Content-Type": "application/json" },
+    body: JSON.stringify(currentMapping()),
+  });
+  showCheck(r);
+}
+
+async function saveProfile() {
+  if (!state.table) return;
+  const r = await fetch("api/profile", {
+    method: "POST",
+    headers: { "Content-Type": "application/json" },
+    body: JSON.stringify(currentMapping()),
+  });
+  if (!r.ok) {
+    const body = await r.json();
+    $("profile-note").textContent = body.options || body.error;
+    return;
+  }
+  const text = await r.text();
+  const a = el("a");
+  a.href = URL.createObjectURL(new Blob([text], { type: "application/yaml" }));
+  a.download = state.table.profile_name;
+  document.body.appendChild(a);
+  a.click();
+  a.remove();
+  $("profile-note").textContent = "Saved as " + state.table.profile_name + ": give it to the command line with --columns " + state.table.profile_name + ".";
+}
+
 // 1. The table.
 async function load(file) {
   $("table-status").textContent = "Reading " + file.name + "…";
   $("settings-step").hidden = true;
   $("results-step").hidden = true;
   const bytes = await file.arrayBuffer();
+  $("not-recorded").value = "";
   const r = await ask("api/tables?name=" + encodeURIComponent(file.name), { method: "POST", body: bytes });
+  showCheck(r);
+}
+
+function showCheck(r) {
   const out = $("table-report");
   if (!r.ok) {
     $("table-status").textContent = "";
@@ -79,7 +159,15 @@ async function load(file) {
     return;
   }
   state.table = r.body;
-  $("table-status").textContent = file.name + ": no problems found; it can be analysed.";
+  drawMapping(r.body);
+  if (!r.body.readable) {
+    $("settings-step").hidden = true;
+    $("results-step").hidden = true;
+    $("table-status").textContent = r.body.name + " cannot be analysed as it is.";
+    showProblems(out, r.body);
+    return;
+  }
+  $("table-status").textContent = r.body.name + ": no problems found; it can be analysed.";
   const s = r.body.summary;
   out.replaceChildren();
   const facts = el("ul");
@@ -140,6 +228,9 @@ async function run(event) {
     recalibrate: $("recalibrate").checked,
     seed: Number($("seed").value || 1),
   };
+  const mapping = currentMapping();
+  if (Object.keys(mapping.columns).length) options.columns = mapping.columns;
+  if (mapping.not_recorded.length) options.not_recorded = mapping.not_recorded;
   const button = $("run");
   button.disabled = true;
   $("run-status").textContent = "Running the analysis";
@@ -298,6 +389,8 @@ drop.addEventListener("drop", (e) => {
   if (e.dataTransfer.files[0]) load(e.dataTransfer.files[0]);
 });
 $("settings").addEventListener("submit", run);
+$("apply-mapping").addEventListener("click", applyMapping);
+$("save-profile").addEventListener("click", saveProfile);
 $("filter").addEventListener("input", drawIndividuals);
 $("copy-methods").addEventListener("click", async () => {
   try {
