@@ -415,9 +415,49 @@ pub fn shell_words(args: &[String]) -> String {
         .join(" ")
 }
 
+/// `POST /api/tables/ID/start` with the options as JSON: the analysis of
+/// [`analyse`], in the background; answers `{"job": ID}` at once (202), and
+/// `GET /api/jobs/ID` tells how far it has got until it answers as `analyse` would.
+pub fn start(state: &State, table: &str, body: &[u8]) -> WebResponse {
+    let (id, job) = match state.jobs.lock() {
+        Ok(mut j) => j.add(),
+        Err(_) => return WebResponse::error(500, "the server's memory is unusable"),
+    };
+    let (state, table, body) = (state.clone(), table.to_string(), body.to_vec());
+    let spawned = std::thread::Builder::new()
+        .name(format!("analysis {id}"))
+        .spawn({
+            let job = std::sync::Arc::clone(&job);
+            move || job.complete(analyse_with(&state, &table, &body, job.as_ref()))
+        });
+    if spawned.is_err() {
+        return WebResponse::error(500, "the analysis could not be started");
+    }
+    WebResponse::json(202, &json!({ "job": id }))
+}
+
+/// `GET /api/jobs/ID`: 202 with the stage and its steps while the analysis runs, then its
+/// answer.
+pub fn poll(state: &State, job: &str) -> WebResponse {
+    match state.jobs.lock().ok().and_then(|j| j.get(job)) {
+        Some(j) => j.poll(),
+        None => WebResponse::error(404, "that analysis is no longer held: run it again"),
+    }
+}
+
 /// `POST /api/tables/ID/analyse` with the options as JSON: the whole analysis, as `analyse`
 /// runs it, and what the page shows of it.
 pub fn analyse(state: &State, table: &str, body: &[u8]) -> WebResponse {
+    analyse_with(state, table, body, &Silent)
+}
+
+/// [`analyse`], telling `progress` how far it has got.
+fn analyse_with(
+    state: &State,
+    table: &str,
+    body: &[u8],
+    progress: &dyn crate::progress::Progress,
+) -> WebResponse {
     let Some(t) = state.store.lock().ok().and_then(|s| s.table(table)) else {
         return WebResponse::error(404, "that table is no longer held: load it again");
     };
@@ -442,7 +482,7 @@ pub fn analyse(state: &State, table: &str, body: &[u8]) -> WebResponse {
         Err(e) => return error_response(&e),
     };
     let notes = run.input_notes(&a);
-    let result = match run.analyse(a, command_of(&t.name, &options), &Silent) {
+    let result = match run.analyse(a, command_of(&t.name, &options), progress) {
         Ok(r) => r,
         Err(e) => return error_response(&e),
     };

@@ -11,6 +11,7 @@
 
 pub mod api;
 pub mod http;
+mod jobs;
 mod store;
 
 use std::sync::atomic::AtomicBool;
@@ -77,10 +78,12 @@ impl WebResponse {
     }
 }
 
-/// What the server holds between requests: uploaded tables and finished runs.
-#[derive(Debug, Default)]
+/// What the server holds between requests: uploaded tables, finished runs, analyses under
+/// way. Cloning shares it (background analyses hold a clone).
+#[derive(Debug, Default, Clone)]
 pub struct State {
-    store: std::sync::Mutex<store::Store>,
+    store: Arc<std::sync::Mutex<store::Store>>,
+    jobs: Arc<std::sync::Mutex<jobs::Jobs>>,
 }
 
 impl State {
@@ -122,6 +125,8 @@ pub fn route(state: &State, req: &WebRequest) -> WebResponse {
         ("POST", ["api", "tables"]) => api::upload(state, &req.query, &req.body),
         ("POST", ["api", "tables", table, "check"]) => api::recheck(state, table, &req.body),
         ("POST", ["api", "tables", table, "analyse"]) => api::analyse(state, table, &req.body),
+        ("POST", ["api", "tables", table, "start"]) => api::start(state, table, &req.body),
+        ("GET", ["api", "jobs", job]) => api::poll(state, job),
         ("POST", ["api", "profile"]) => api::profile(&req.body),
         ("GET", ["api", "runs", run, "outputs.zip"]) => api::download(state, run),
         ("GET", ["api", "about"]) => api::about(),

@@ -84,7 +84,7 @@ fn a_table_is_checked_analysed_and_downloaded() {
     assert!(r["command"]
         .as_str()
         .unwrap()
-        .starts_with("tessera analyse dig one.csv --out results --priors flat,fixed:0.3 --group-by phase --by-sex lesion"));
+        .starts_with("tessera analyse 'dig one.csv' --out results --priors flat,fixed:0.3 --group-by phase --by-sex lesion"));
     let run = r["run"].as_str().unwrap();
     let z = route(&s, &get(&format!("/api/runs/{run}/outputs.zip")));
     assert_eq!(z.status, 200);
@@ -224,4 +224,71 @@ fn a_lab_s_own_column_names_are_mapped_saved_and_used() {
         .as_str()
         .unwrap()
         .contains("--group-by Phase --columns lab-columns.yaml"));
+}
+
+#[test]
+fn an_analysis_in_the_background_is_polled_until_it_answers() {
+    let s = State::new();
+    let up = json(&route(&s, &post("/api/tables", "name=t.csv", TABLE)));
+    let table = up["table"].as_str().unwrap();
+    let started = route(
+        &s,
+        &post(
+            &format!("/api/tables/{table}/start"),
+            "",
+            br#"{"priors": "flat"}"#,
+        ),
+    );
+    assert_eq!(started.status, 202);
+    let job = json(&started)["job"].as_str().unwrap().to_string();
+    let start = std::time::Instant::now();
+    let answer = loop {
+        let r = route(&s, &get(&format!("/api/jobs/{job}")));
+        if r.status != 202 {
+            break r;
+        }
+        let p = json(&r);
+        assert!(p["stage"].is_string() && p["done"].is_u64() && p["steps"].is_u64());
+        assert!(start.elapsed().as_secs() < 60, "no answer");
+        std::thread::sleep(std::time::Duration::from_millis(20));
+    };
+    assert_eq!(answer.status, 200);
+    // The same answer as the direct request (the run ids aside).
+    let direct = json(&route(
+        &s,
+        &post(
+            &format!("/api/tables/{table}/analyse"),
+            "",
+            br#"{"priors": "flat"}"#,
+        ),
+    ));
+    let mut polled = json(&answer);
+    polled["run"] = direct["run"].clone();
+    assert_eq!(polled, direct);
+    assert_eq!(route(&s, &get("/api/jobs/j999")).status, 404);
+}
+
+#[test]
+fn two_tabs_running_at_once_each_get_their_own_results() {
+    let s = State::new();
+    let up = json(&route(&s, &post("/api/tables", "name=t.csv", TABLE)));
+    let table = up["table"].as_str().unwrap().to_string();
+    let (a, b) = std::thread::scope(|scope| {
+        let run = |prior: &'static str| {
+            let (s, table) = (&s, &table);
+            scope.spawn(move || {
+                let body = format!(r#"{{"prior": "{prior}", "priors": "{prior}"}}"#);
+                json(&route(
+                    s,
+                    &post(&format!("/api/tables/{table}/analyse"), "", body.as_bytes()),
+                ))
+            })
+        };
+        let (x, y) = (run("mostly-female"), run("mostly-male"));
+        (x.join().unwrap(), y.join().unwrap())
+    });
+    assert_eq!(a["prior"], "mostly-female");
+    assert_eq!(b["prior"], "mostly-male");
+    assert_ne!(a["run"], b["run"]);
+    assert!(a["proportion_female"]["mean"].as_f64() > b["proportion_female"]["mean"].as_f64());
 }

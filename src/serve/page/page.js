@@ -235,11 +235,26 @@ async function run(event) {
   button.disabled = true;
   $("run-status").textContent = "Running the analysis";
   $("run-status").className = "busy";
-  const r = await ask("api/tables/" + state.table.table + "/analyse", {
+  const started = await ask("api/tables/" + state.table.table + "/start", {
     method: "POST",
     headers: { "Content-Type": "application/json" },
     body: JSON.stringify(options),
   });
+  let r = started;
+  if (started.status === 202) {
+    // Poll the analysis until it answers, showing its stage and how far it has got.
+    const bar = $("run-progress");
+    bar.hidden = false;
+    for (;;) {
+      await new Promise((done) => setTimeout(done, 250));
+      r = await ask("api/jobs/" + started.body.job);
+      if (r.status !== 202) break;
+      $("run-status").textContent = "Running: " + r.body.stage;
+      bar.max = Math.max(1, r.body.steps);
+      bar.value = Math.min(r.body.done, bar.max);
+    }
+    bar.hidden = true;
+  }
   button.disabled = false;
   $("run-status").className = "";
   if (!r.ok) {
