@@ -152,11 +152,14 @@ impl Driver {
     }
 
     fn script(&self, js: &str) -> serde_json::Value {
-        self.call(
+        let v = self.call(
             "POST",
             "/execute/sync",
             serde_json::json!({"script": js, "args": []}),
-        )
+        );
+        // A script that threw is a failed step, not a value.
+        assert!(v.get("error").is_none(), "{js}: {v}");
+        v
     }
 
     /// Wait until a script returns true (20 s at most).
@@ -313,6 +316,33 @@ fn the_page_runs_the_demo_in_a_real_browser() {
                 );
             }
             assert!(detail.contains("Why MH-004 is female"), "{detail}");
+            // One case typed into the form.
+            d.script("document.getElementById('case-glabella').value = '1'; document.getElementById('case-mastoid_l').value = '2'; document.getElementById('case-femur_head_diameter_l').value = '41.5'; document.getElementById('case-prior-0').checked = true; return true");
+            let weigh = d.element("#case-run");
+            d.call(
+                "POST",
+                &format!("/element/{weigh}/click"),
+                serde_json::json!({}),
+            );
+            d.wait("return !document.getElementById('case-result').hidden");
+            let headline = d
+                .script("return document.getElementById('case-headline').textContent")
+                .as_str()
+                .unwrap()
+                .to_string();
+            let expected = case_log10_lr();
+            let shown = format!("log10 {expected:.2}").replace('-', "\u{2212}");
+            assert!(headline.contains(&shown), "{shown} not in {headline}");
+            let cautions = d.script("return document.getElementById('case-cautions').textContent");
+            assert!(cautions.as_str().unwrap().contains("not identifications"));
+            if let Some(path) = std::env::var_os("TESSERA_SCREENSHOT_CASE") {
+                d.script("document.getElementById('case-result').scrollIntoView(); return true");
+                let shot = d.call("GET", "/screenshot", serde_json::Value::Null);
+                std::fs::write(path, base64(shot.as_str().unwrap())).unwrap();
+            }
+            d.script(
+                "document.getElementById('detail').scrollIntoView({block: 'end'}); return true",
+            );
             if let Some(path) = std::env::var_os("TESSERA_SCREENSHOT") {
                 d.script(
                     "document.getElementById('detail').scrollIntoView({block: 'end'}); return true",
@@ -342,4 +372,20 @@ fn expected_mh004() -> Vec<(String, f64)> {
         }
     }
     out
+}
+
+/// The log10 LR of the case typed into the form, from the library.
+fn case_log10_lr() -> f64 {
+    let model = tessera::model::Model::default_model().unwrap();
+    let a = tessera::data::read_assemblage_text(
+        "x",
+        b"id,glabella,mastoid_l,femur_head_diameter_l\ncase,1,2,41.5\n",
+        &model.catalogue,
+        &Default::default(),
+    )
+    .unwrap();
+    model
+        .evaluate(&a.individuals[0], &tessera::model::Context::new(1))
+        .ln_lr
+        / std::f64::consts::LN_10
 }

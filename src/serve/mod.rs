@@ -10,6 +10,7 @@
 //! the oldest dropped first. Every request gets an answer; no input can stop the server.
 
 pub mod api;
+pub mod case;
 pub mod http;
 mod jobs;
 mod store;
@@ -130,6 +131,8 @@ pub fn route(state: &State, req: &WebRequest) -> WebResponse {
         ("POST", ["api", "profile"]) => api::profile(&req.body),
         ("GET", ["api", "runs", run, "outputs.zip"]) => api::download(state, run),
         ("GET", ["api", "about"]) => api::about(),
+        ("GET", ["api", "catalogue"]) => case::catalogue(),
+        ("POST", ["api", "case"]) => case::case(&req.body),
         (_, ["api", ..]) => WebResponse::error(404, "no such request"),
         ("GET", _) => WebResponse::error(404, "no such page"),
         _ => WebResponse::error(405, "this page answers GET and POST only"),

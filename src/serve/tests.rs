@@ -292,3 +292,56 @@ fn two_tabs_running_at_once_each_get_their_own_results() {
     assert_ne!(a["run"], b["run"]);
     assert!(a["proportion_female"]["mean"].as_f64() > b["proportion_female"]["mean"].as_f64());
 }
+
+#[test]
+fn one_case_typed_in_gives_the_case_report_s_numbers() {
+    let s = State::new();
+    assert_eq!(route(&s, &get("/api/catalogue")).status, 200);
+    let form = br#"{"values": {"glabella": "1", "mastoid_l": "2", "femur_head_diameter": "41.5"},
+        "age": "30-40", "priors": ["flat", "fixed:0.3"], "case_number": "K-7"}"#;
+    let r = route(&s, &post("/api/case", "", form));
+    assert_eq!(r.status, 200, "{}", String::from_utf8_lossy(&r.body));
+    let r = json(&r);
+    // The same individual through the library's reader and case report.
+    let model = crate::model::Model::default_model().unwrap();
+    let a = crate::data::read_assemblage_text(
+        "x",
+        b"id,age,glabella,mastoid_l,femur_head_diameter\ncase,30-40,1,2,41.5\n",
+        &model.catalogue,
+        &Default::default(),
+    )
+    .unwrap();
+    let e = model.evaluate(&a.individuals[0], &crate::model::Context::new(1));
+    let shown = r["report"]["log10_lr"].as_f64().unwrap();
+    assert!((shown - e.ln_lr / std::f64::consts::LN_10).abs() < 1e-12);
+    assert_eq!(r["report"]["under_priors"].as_array().unwrap().len(), 2);
+    assert_eq!(r["report"]["details"]["case_number"], "K-7");
+    assert!(r["markdown"].as_str().unwrap().contains("K-7"));
+    assert!(r["html"].as_str().unwrap().contains("<html"));
+    assert_eq!(r["cautions"].as_array().unwrap().len(), 4);
+    // A value out of scale, a column the model does not know, a prior file: refused.
+    let bad = route(
+        &s,
+        &post(
+            "/api/case",
+            "",
+            br#"{"values": {"glabella": "7", "mastoid_l": "x"}}"#,
+        ),
+    );
+    assert_eq!(bad.status, 422);
+    assert_eq!(
+        json(&bad)["problems"]["problems"].as_array().unwrap().len(),
+        2
+    );
+    let unknown = route(&s, &post("/api/case", "", br#"{"values": {"skull": "2"}}"#));
+    assert_eq!(unknown.status, 422);
+    let prior = route(
+        &s,
+        &post(
+            "/api/case",
+            "",
+            br#"{"values": {"glabella": "2"}, "priors": ["/etc/passwd"]}"#,
+        ),
+    );
+    assert_eq!(prior.status, 422);
+}

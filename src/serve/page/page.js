@@ -386,11 +386,109 @@ function showIndividual(k) {
   d.appendChild(el("p", "An estimate, not an identification; biological sex is not gender.", "note"));
 }
 
+// The one-case form.
+async function caseForm(priors) {
+  const r = await ask("api/catalogue");
+  if (!r.ok) return;
+  const box = $("case-traits");
+  box.replaceChildren();
+  const regions = [];
+  r.body.traits.forEach((t) => { if (!regions.includes(t.region)) regions.push(t.region); });
+  regions.forEach((region) => {
+    const fs = el("fieldset", null, "field");
+    fs.appendChild(el("legend", region));
+    r.body.traits.filter((t) => t.region === region).forEach((t) => {
+      const sides = t.bilateral ? [["_l", "left"], ["_r", "right"]] : [["", ""]];
+      sides.forEach(([suffix, side]) => {
+        const id = t.id + suffix;
+        const line = el("div", null, "case-line");
+        const label = el("label", t.name + (side ? ", " + side : "") + (t.kind === "measurement" ? " (" + t.scale.unit + ")" : ""));
+        label.htmlFor = "case-" + id;
+        let input;
+        if (t.kind === "grade") {
+          input = el("select");
+          input.appendChild(new Option("not recorded", ""));
+          for (let g = t.scale.lowest; g <= t.scale.highest; g++) input.appendChild(new Option(String(g), String(g)));
+        } else {
+          input = el("input");
+          input.inputMode = "decimal";
+          if (t.kind === "measurement") input.placeholder = t.scale.low + " to " + t.scale.high;
+        }
+        input.id = "case-" + id;
+        input.dataset.column = id;
+        input.title = t.definition + " (" + t.source + ")";
+        line.append(label, " ", input);
+        fs.appendChild(line);
+      });
+    });
+    box.appendChild(fs);
+  });
+  const pbox = $("case-priors");
+  pbox.replaceChildren();
+  priors.forEach((p, i) => {
+    const b = el("input");
+    b.type = "checkbox";
+    b.id = "case-prior-" + i;
+    b.value = p;
+    const l = el("label", p);
+    l.htmlFor = b.id;
+    const line = el("div", null, "check");
+    line.append(b, " ", l);
+    pbox.appendChild(line);
+  });
+}
+
+async function weighCase(event) {
+  event.preventDefault();
+  const values = {};
+  document.querySelectorAll("#case-traits [data-column]").forEach((i) => { if (i.value.trim()) values[i.dataset.column] = i.value.trim(); });
+  const form = {
+    values,
+    age: $("case-age").value,
+    priors: Array.from(document.querySelectorAll("#case-priors input:checked")).map((b) => b.value),
+    case_number: $("case-number").value,
+    analyst: $("case-analyst").value,
+    reviewer: $("case-reviewer").value,
+  };
+  const r = await ask("api/case", { method: "POST", headers: { "Content-Type": "application/json" }, body: JSON.stringify(form) });
+  const problems = $("case-problems");
+  problems.replaceChildren();
+  if (!r.ok) {
+    $("case-result").hidden = true;
+    showProblems(problems, r.body || { error: "The server answered " + r.status + "." });
+    return;
+  }
+  const c = r.body.report;
+  $("case-result").hidden = false;
+  const cautions = $("case-cautions");
+  cautions.replaceChildren();
+  r.body.cautions.forEach((x) => cautions.appendChild(el("li", x)));
+  $("case-headline").textContent = c.estimable
+    ? "Likelihood ratio female:male over all the evidence: " + r.body.ratio + " (log10 " + fixed(c.log10_lr, 2) + "), " + c.support + "."
+    : "No usable evidence: nothing was recorded that the model can use.";
+  table($("case-regions"), ["body region", "status", "log10 LR", "in words"], c.regions.map((g) => [g.block, g.status.replace(/_/g, " "), g.status === "used" ? fixed(g.log10_lr, 2) : "–", g.support]), [false, false, true, false]);
+  const alone = [];
+  c.regions.forEach((g) => g.traits.forEach((t) => alone.push([g.block, t.name, t.side || "", t.recorded, t.log10_lr_alone === null ? "–" : fixed(t.log10_lr_alone, 2)])));
+  table($("case-traits-alone"), ["body region", "trait", "side", "recorded", "log10 LR alone"], alone, [false, false, false, false, true]);
+  const under = $("case-under");
+  under.replaceChildren();
+  if (c.under_priors.length) {
+    under.appendChild(el("h3", "Probability of female under the priors ticked"));
+    const t = el("table");
+    table(t, ["prior", "prior probability of female", "P(female)", "category"], c.under_priors.map((u) => [u.prior, fixed(u.prior_female, 3), probability(u.p_female), u.category]), [false, true, true, false]);
+    under.appendChild(t);
+    under.appendChild(el("p", "The category depends on the prior; the words of the likelihood ratio describe the evidence alone.", "note"));
+  }
+  $("case-md").href = URL.createObjectURL(new Blob([r.body.markdown], { type: "text/markdown" }));
+  $("case-html").href = URL.createObjectURL(new Blob([r.body.html], { type: "text/html" }));
+}
+
 async function about() {
   const r = await ask("api/about");
   if (!r.ok) return;
   const prior = $("prior");
   r.body.priors.forEach((p) => prior.appendChild(new Option(p, p, p === "flat", p === "flat")));
+  caseForm(r.body.priors);
   $("footer-cautions").textContent = "tessera " + r.body.version + ". " + r.body.cautions.join(" ");
 }
 
@@ -405,6 +503,7 @@ drop.addEventListener("drop", (e) => {
 });
 $("settings").addEventListener("submit", run);
 $("apply-mapping").addEventListener("click", applyMapping);
+$("case-form").addEventListener("submit", weighCase);
 $("save-profile").addEventListener("click", saveProfile);
 $("filter").addEventListener("input", drawIndividuals);
 $("copy-methods").addEventListener("click", async () => {
