@@ -41,6 +41,13 @@ fn page_and_command_line_agree(
     assert_eq!(up.status, 200);
     let up: serde_json::Value = serde_json::from_slice(&up.body).unwrap();
     let table = up["table"].as_str().unwrap();
+    if let Some(name) = options.get("model_name").and_then(|n| n.as_str()) {
+        std::fs::write(
+            dir.path().join(name),
+            options["model_yaml"].as_str().unwrap(),
+        )
+        .unwrap();
+    }
     if options.get("columns").is_some() {
         let mapping = serde_json::json!({"columns": options["columns"], "not_recorded": options.get("not_recorded").cloned().unwrap_or_default()});
         let yaml = route(
@@ -206,4 +213,55 @@ fn the_server_answers_after_ten_thousand_malformed_requests() {
         assert!(String::from_utf8_lossy(&refused).starts_with("HTTP/1.1 403"));
         server.stop();
     });
+}
+
+#[test]
+fn a_model_file_chosen_in_the_page_gives_the_command_line_s_files() {
+    // A model fitted to the invented reference collection, as a user would bring it.
+    let root = Path::new(env!("CARGO_MANIFEST_DIR"));
+    let dir = tempfile::tempdir().unwrap();
+    let model = dir.path().join("saltmarsh.yaml");
+    let o = common::tessera(&[
+        "fit",
+        root.join("examples/saltmarsh-reference.csv")
+            .to_str()
+            .unwrap(),
+        "--traits",
+        root.join("examples/saltmarsh-spec.yaml").to_str().unwrap(),
+        "--out",
+        model.to_str().unwrap(),
+    ]);
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    let options = serde_json::json!({
+        "priors": "flat",
+        "model_name": "saltmarsh.yaml",
+        "model_yaml": std::fs::read_to_string(&model).unwrap(),
+    });
+    let names = page_and_command_line_agree("mirefold.csv", &demo_bytes(), &options);
+    assert!(
+        names.last().unwrap().contains("--model saltmarsh.yaml"),
+        "{names:?}"
+    );
+    // A model that includes a file (not the shipped model) is refused: the page reads no
+    // file of the machine.
+    let state = State::new();
+    let up = route(
+        &state,
+        &request("POST", "/api/tables", "name=m.csv", &demo_bytes()),
+    );
+    let up: serde_json::Value = serde_json::from_slice(&up.body).unwrap();
+    let bad = serde_json::json!({
+        "model_name": "x.yaml",
+        "model_yaml": "name: x\nprovenance: test\ninclude: [{model: /etc/other.yaml, blocks: [dna]}]\nblocks: []\n",
+    });
+    let r = route(
+        &state,
+        &request(
+            "POST",
+            &format!("/api/tables/{}/analyse", up["table"].as_str().unwrap()),
+            "",
+            bad.to_string().as_bytes(),
+        ),
+    );
+    assert_eq!(r.status, 422, "{}", String::from_utf8_lossy(&r.body));
 }

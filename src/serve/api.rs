@@ -273,6 +273,10 @@ pub struct PageOptions {
     pub columns: BTreeMap<String, String>,
     /// The lab's words for "not recordable" (the mapping).
     pub not_recorded: Vec<String>,
+    /// The name of a model file the user chose (empty: the embedded default model).
+    pub model_name: String,
+    /// That model file's text.
+    pub model_yaml: String,
 }
 
 impl Default for PageOptions {
@@ -290,6 +294,8 @@ impl Default for PageOptions {
             seed: d.seed,
             columns: BTreeMap::new(),
             not_recorded: Vec::new(),
+            model_name: String::new(),
+            model_yaml: String::new(),
         }
     }
 }
@@ -358,6 +364,9 @@ fn command_of(table: &str, o: &AnalysisOptions) -> Vec<String> {
     let d = AnalysisOptions::default();
     let mut c: Vec<String> = vec!["tessera".into(), "analyse".into(), table.into()];
     c.extend(["--out".to_string(), "results".to_string()]);
+    if let ModelChoice::File(p) = &o.model {
+        c.extend(["--model".to_string(), p.display().to_string()]);
+    }
     let mut opt = |k: &str, v: String| {
         c.push(k.to_string());
         c.push(v);
@@ -473,7 +482,28 @@ fn analyse_with(
         Ok(o) => o,
         Err(m) => return WebResponse::error(422, &m),
     };
-    let run = match options.validate() {
+    let mut options = options;
+    let validated = if page.model_yaml.trim().is_empty() {
+        options.validate()
+    } else {
+        // A model file the user chose (from `tessera fit`, or written by hand), read from the
+        // text sent, never from a path: it may include only the shipped model.
+        let name = file_name(&page.model_name).unwrap_or_else(|| "model.yaml".into());
+        if page.model_yaml.len() as u64 > crate::limits::MAX_SETTINGS_BYTES {
+            return WebResponse::error(
+                413,
+                "the model file is larger than any model tessera reads",
+            );
+        }
+        match crate::model::Model::from_yaml(&name, &page.model_yaml) {
+            Ok(m) => {
+                options.model = ModelChoice::File(name.clone().into());
+                options.validate_with(m, name)
+            }
+            Err(e) => Err(Error::Model(e)),
+        }
+    };
+    let run = match validated {
         Ok(r) => r,
         Err(e) => return error_response(&e),
     };

@@ -182,6 +182,14 @@ function showCheck(r) {
     s.regions.map((g) => [g.region, g.traits_in_file, g.individuals, fixed(100 * g.share, 0) + "%"]), [false, true, true, true]);
   out.appendChild(el("h3", "What survives"));
   out.appendChild(regions);
+  const byTrait = el("details");
+  byTrait.appendChild(el("summary", "By trait"));
+  const traits = el("table");
+  table(traits, ["trait", "recorded", "share", "as a range", "left", "right"],
+    s.traits.map((t) => [t.trait_id, t.recorded, fixed(100 * t.share, 0) + "%", t.as_range, t.left, t.right]),
+    [false, true, true, true, true, true]);
+  byTrait.appendChild(traits);
+  out.appendChild(byTrait);
   if (r.body.notes.length) {
     out.appendChild(el("h3", "To look at before trusting the results"));
     const ul = el("ul");
@@ -228,6 +236,11 @@ async function run(event) {
     recalibrate: $("recalibrate").checked,
     seed: Number($("seed").value || 1),
   };
+  const modelFile = $("model-file").files[0];
+  if (modelFile) {
+    options.model_name = modelFile.name;
+    options.model_yaml = await modelFile.text();
+  }
   const mapping = currentMapping();
   if (Object.keys(mapping.columns).length) options.columns = mapping.columns;
   if (mapping.not_recorded.length) options.not_recorded = mapping.not_recorded;
