@@ -31,8 +31,22 @@ fn page_and_command_line_agree(
     bytes: &[u8],
     options: &serde_json::Value,
 ) -> Vec<String> {
+    page_and_command_line_agree_with_file(name, bytes, options, ("", ""))
+}
+
+/// [`page_and_command_line_agree`] with one more file beside the table for the command line
+/// (a settings file the page was given as text).
+fn page_and_command_line_agree_with_file(
+    name: &str,
+    bytes: &[u8],
+    options: &serde_json::Value,
+    beside: (&str, &str),
+) -> Vec<String> {
     let dir = tempfile::tempdir().unwrap();
     std::fs::write(dir.path().join(name), bytes).unwrap();
+    if !beside.0.is_empty() {
+        std::fs::write(dir.path().join(beside.0), beside.1).unwrap();
+    }
     let state = State::new();
     let up = route(
         &state,
@@ -264,4 +278,27 @@ fn a_model_file_chosen_in_the_page_gives_the_command_line_s_files() {
         ),
     );
     assert_eq!(r.status, 422, "{}", String::from_utf8_lossy(&r.body));
+}
+
+#[test]
+fn a_scale_map_chosen_in_the_page_gives_the_command_line_s_files() {
+    let options = serde_json::json!({
+        "priors": "flat",
+        "scale_map_name": "lab-scales.yaml",
+        "scale_map_yaml": "glabella: {1: 1, 2: 1, 3: 3, 4: 5, 5: 5, \"3-4\": 4}\n",
+    });
+    let dir_name = "lab-scales.yaml";
+    let names = page_and_command_line_agree_with_file(
+        "mirefold.csv",
+        &demo_bytes(),
+        &options,
+        (dir_name, options["scale_map_yaml"].as_str().unwrap()),
+    );
+    assert!(
+        names
+            .last()
+            .unwrap()
+            .ends_with("--scale-map lab-scales.yaml"),
+        "{names:?}"
+    );
 }

@@ -40,6 +40,9 @@ pub struct ReadOptions {
     pub renames: std::collections::BTreeMap<String, String>,
     /// Not-recorded words given with `renames` (the page's mapping).
     pub not_recorded: Vec<String>,
+    /// A scale map given as text (the page: a file the user chose), with its file name for
+    /// messages; used instead of `scale_map`.
+    pub scale_map_text: Option<(String, String)>,
 }
 
 impl Default for ReadOptions {
@@ -55,6 +58,7 @@ impl Default for ReadOptions {
             columns: None,
             renames: Default::default(),
             not_recorded: Vec::new(),
+            scale_map_text: None,
         }
     }
 }
@@ -117,9 +121,21 @@ impl ReadOptions {
                 ),
             ));
         }
-        let scale_maps = match &self.scale_map {
-            None => Default::default(),
-            Some(p) => {
+        let scale_maps = match (&self.scale_map_text, &self.scale_map) {
+            (Some((name, text)), _) => {
+                if text.len() as u64 > crate::limits::MAX_SETTINGS_BYTES {
+                    return Err(Error::Settings {
+                        file: name.clone(),
+                        message: "larger than any scale map tessera reads".into(),
+                    });
+                }
+                parse_scale_maps(text, catalogue).map_err(|message| Error::Settings {
+                    file: name.clone(),
+                    message,
+                })?
+            }
+            (None, None) => Default::default(),
+            (None, Some(p)) => {
                 let text = crate::limits::read_settings_text(p).map_err(|e| e.into_error(p))?;
                 parse_scale_maps(&text, catalogue).map_err(|message| Error::Settings {
                     file: p.display().to_string(),

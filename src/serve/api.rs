@@ -277,6 +277,10 @@ pub struct PageOptions {
     pub model_name: String,
     /// That model file's text.
     pub model_yaml: String,
+    /// The name of a scale map file the user chose (empty: none).
+    pub scale_map_name: String,
+    /// That scale map's text.
+    pub scale_map_yaml: String,
 }
 
 impl Default for PageOptions {
@@ -296,6 +300,8 @@ impl Default for PageOptions {
             not_recorded: Vec::new(),
             model_name: String::new(),
             model_yaml: String::new(),
+            scale_map_name: String::new(),
+            scale_map_yaml: String::new(),
         }
     }
 }
@@ -351,6 +357,12 @@ impl PageOptions {
                 sides,
                 renames: self.columns.clone(),
                 not_recorded: self.not_recorded.clone(),
+                scale_map_text: (!self.scale_map_yaml.trim().is_empty()).then(|| {
+                    (
+                        file_name(&self.scale_map_name).unwrap_or_else(|| "scale-map.yaml".into()),
+                        self.scale_map_yaml.clone(),
+                    )
+                }),
                 ..ReadOptions::default()
             },
             ..AnalysisOptions::default()
@@ -390,6 +402,9 @@ fn command_of(table: &str, o: &AnalysisOptions) -> Vec<String> {
     }
     if !o.read.renames.is_empty() || !o.read.not_recorded.is_empty() {
         opt("--columns", profile_name(table));
+    }
+    if let Some((name, _)) = &o.read.scale_map_text {
+        opt("--scale-map", name.clone());
     }
     if let Some(n) = o.draws {
         opt("--draws", n.to_string());

@@ -241,6 +241,11 @@ async function run(event) {
     options.model_name = modelFile.name;
     options.model_yaml = await modelFile.text();
   }
+  const scaleFile = $("scale-map-file").files[0];
+  if (scaleFile) {
+    options.scale_map_name = scaleFile.name;
+    options.scale_map_yaml = await scaleFile.text();
+  }
   const mapping = currentMapping();
   if (Object.keys(mapping.columns).length) options.columns = mapping.columns;
   if (mapping.not_recorded.length) options.not_recorded = mapping.not_recorded;
