@@ -40,6 +40,22 @@ function table(target, head, rows, numeric) {
   target.append(thead, tbody);
 }
 
+// One labelled checkbox per value, ids `prefix0`, `prefix1`, …
+function checkboxes(target, values, prefix) {
+  target.replaceChildren();
+  values.forEach((v, i) => {
+    const box = el("input");
+    box.type = "checkbox";
+    box.id = prefix + i;
+    box.value = v;
+    const label = el("label", v);
+    label.htmlFor = box.id;
+    const line = el("div", null, "check");
+    line.append(box, " ", label);
+    target.appendChild(line);
+  });
+}
+
 async function ask(url, options) {
   const response = await fetch(url, options);
   const type = response.headers.get("Content-Type") || "";
@@ -204,19 +220,7 @@ function settingsFor(t) {
   group.replaceChildren();
   group.appendChild(new Option(t.has_group_column ? "the column `group`" : "none", ""));
   t.columns.forEach((c) => group.appendChild(new Option(c, c)));
-  const bySex = $("by-sex");
-  bySex.replaceChildren();
-  t.columns.forEach((c, i) => {
-    const box = el("input");
-    box.type = "checkbox";
-    box.id = "by-sex-" + i;
-    box.value = c;
-    const label = el("label", c);
-    label.htmlFor = box.id;
-    const line = el("div", null, "check");
-    line.append(box, " ", label);
-    bySex.appendChild(line);
-  });
+  checkboxes($("by-sex"), t.columns, "by-sex-");
   $("by-sex-field").hidden = t.columns.length === 0;
   $("settings-step").hidden = false;
 }
@@ -441,19 +445,7 @@ async function caseForm(priors) {
     });
     box.appendChild(fs);
   });
-  const pbox = $("case-priors");
-  pbox.replaceChildren();
-  priors.forEach((p, i) => {
-    const b = el("input");
-    b.type = "checkbox";
-    b.id = "case-prior-" + i;
-    b.value = p;
-    const l = el("label", p);
-    l.htmlFor = b.id;
-    const line = el("div", null, "check");
-    line.append(b, " ", l);
-    pbox.appendChild(line);
-  });
+  checkboxes($("case-priors"), priors, "case-prior-");
 }
 
 async function weighCase(event) {
