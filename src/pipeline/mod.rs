@@ -144,6 +144,15 @@ struct TableChecked {
     n_draws: usize,
 }
 
+/// The joint draws made for the count intervals when none are asked for:
+/// [`DEFAULT_DRAWS`], or fewer for a table so large that those would pass
+/// [`MAX_INDIVIDUAL_DRAWS`] (200 for a million individuals), never fewer than one.
+pub fn internal_draws(n_individuals: usize) -> usize {
+    DEFAULT_DRAWS
+        .min(MAX_INDIVIDUAL_DRAWS / n_individuals.max(1))
+        .max(1)
+}
+
 impl ValidatedOptions {
     /// Read a table from a path with these options.
     ///
@@ -172,7 +181,11 @@ impl ValidatedOptions {
     fn check_against(&self, a: &Assemblage) -> Result<TableChecked, Error> {
         let o = &self.options;
         let mut problems = Vec::new();
-        let n_draws = o.draws.unwrap_or(DEFAULT_DRAWS);
+        // Draws asked for must fit the bound; the draws made only for the count intervals
+        // adapt to the size of the table instead of refusing it.
+        let n_draws = o
+            .draws
+            .unwrap_or_else(|| internal_draws(a.individuals.len()));
         if n_draws.saturating_mul(a.individuals.len()) > MAX_INDIVIDUAL_DRAWS {
             problems.push(OptionProblem::new(
                 "draws",

@@ -86,3 +86,14 @@ fn the_tables_by_sex_leave_out_subadults_and_the_evidence_free_and_count_them() 
         "1 individual without evidence of sex and 1 subadult sexed by DNA"
     );
 }
+
+#[test]
+fn the_internal_draws_adapt_to_the_table_instead_of_refusing_it() {
+    assert_eq!(internal_draws(75), DEFAULT_DRAWS);
+    assert_eq!(internal_draws(200_000), DEFAULT_DRAWS);
+    // A million individuals: 200 draws (200 million individual-draws, the bound).
+    assert_eq!(internal_draws(1_000_000), 200);
+    assert!(internal_draws(1_000_000) * 1_000_000 <= MAX_INDIVIDUAL_DRAWS);
+    assert_eq!(internal_draws(usize::MAX), 1);
+    assert_eq!(internal_draws(0), DEFAULT_DRAWS);
+}

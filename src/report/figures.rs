@@ -199,6 +199,25 @@ pub fn region_look(b: usize) -> Look {
     Look::Marker(grey, shapes[b % 5])
 }
 
+/// Most points (or rows) a figure draws: beyond it every k-th of the sorted individuals is
+/// drawn (and the axis says so), so that a regional table of a million individuals still gives
+/// a figure that renders (usvg refuses documents of millions of elements).
+pub const MAX_FIGURE_POINTS: usize = 2000;
+
+/// The positions drawn of `n` sorted items: all of them up to [`MAX_FIGURE_POINTS`], else
+/// every k-th from the first, and the last; with k.
+fn thinned(n: usize) -> (Vec<usize>, usize) {
+    if n <= MAX_FIGURE_POINTS {
+        return ((0..n).collect(), 1);
+    }
+    let k = n.div_ceil(MAX_FIGURE_POINTS);
+    let mut v: Vec<usize> = (0..n).step_by(k).collect();
+    if v.last() != Some(&(n - 1)) {
+        v.push(n - 1);
+    }
+    (v, k)
+}
+
 /// Each individual's P(female) under the chosen prior (dots) with its range across the
 /// sensitivity set (bars), sorted; dashed lines at the category thresholds.
 pub fn p_female_figure(
@@ -210,6 +229,15 @@ pub fn p_female_figure(
     let mut v: Vec<(f64, f64, f64)> = points.to_vec();
     v.sort_by(|a, b| a.0.total_cmp(&b.0));
     let n = v.len().max(1);
+    let (shown, every) = thinned(v.len());
+    let x_desc = if every == 1 {
+        "individuals with usable evidence, sorted by P(female)".to_string()
+    } else {
+        format!(
+            "individuals with usable evidence, sorted by P(female) (every {every}th of {} drawn)",
+            v.len()
+        )
+    };
     let mut s = String::new();
     {
         let root = SVGBackend::with_string(&mut s, (800, 420)).into_drawing_area();
@@ -228,7 +256,7 @@ pub fn p_female_figure(
             .light_line_style(TRANSPARENT)
             .bold_line_style(RGBColor(215, 215, 215))
             .disable_x_mesh()
-            .x_desc("individuals with usable evidence, sorted by P(female)")
+            .x_desc(x_desc.as_str())
             .y_desc("P(female)")
             .x_label_formatter(&|v| tick(*v))
             .y_label_formatter(&|v| tick(*v))
@@ -257,7 +285,8 @@ pub fn p_female_figure(
             )))
             .map_err(fail(name))?;
         }
-        c.draw_series(v.iter().enumerate().map(|(i, &(_, lo, hi))| {
+        c.draw_series(shown.iter().map(|&i| {
+            let (_, lo, hi) = v[i];
             PathElement::new(
                 vec![(i as f64 + 1.0, lo), (i as f64 + 1.0, hi)],
                 RGBColor(120, 120, 120),
@@ -265,9 +294,9 @@ pub fn p_female_figure(
         }))
         .map_err(fail(name))?;
         c.draw_series(
-            v.iter()
-                .enumerate()
-                .map(|(i, &(p, _, _))| Circle::new((i as f64 + 1.0, p), 3, BLACK.filled())),
+            shown
+                .iter()
+                .map(|&i| Circle::new((i as f64 + 1.0, v[i].0), 3, BLACK.filled())),
         )
         .map_err(fail(name))?;
         root.present().map_err(fail(name))?;
@@ -346,6 +375,18 @@ pub fn lr_by_region_figure(
     let name = "lr_by_region";
     let n = rows.len().max(1);
     let label_all = rows.len() <= LR_FIGURE_MAX_LABELLED;
+    let (shown, every) = thinned(rows.len());
+    let y_desc = match (label_all, every) {
+        (true, _) => "individual (by total likelihood ratio)".to_string(),
+        (false, 1) => {
+            "individuals, by total likelihood ratio (too many to name: see individuals.csv)"
+                .to_string()
+        }
+        (false, k) => format!(
+            "individuals, by total likelihood ratio (every {k}th of {} drawn; see individuals.csv)",
+            rows.len()
+        ),
+    };
     let height = (120 + 14 * n).clamp(300, 4000) as u32;
     let max = rows
         .iter()
@@ -374,11 +415,7 @@ pub fn lr_by_region_figure(
             .bold_line_style(RGBColor(215, 215, 215))
             .disable_y_mesh()
             .x_desc("log10 LR (positive: female, negative: male; beyond ±10 at the edge)")
-            .y_desc(if label_all {
-                "individual (by total likelihood ratio)"
-            } else {
-                "individuals, by total likelihood ratio (too many to name: see individuals.csv)"
-            })
+            .y_desc(y_desc.as_str())
             .x_label_formatter(&|v| tick(*v))
             // At least one key point: plotters' integer axis loops without end on zero.
             .y_labels(if label_all { n + 2 } else { 1 })
@@ -403,9 +440,9 @@ pub fn lr_by_region_figure(
             let Look::Marker(grey, shape) = look else {
                 continue;
             };
-            let series: Vec<DynElement<'static, SVGBackend, (f64, i32)>> = rows
+            let series: Vec<DynElement<'static, SVGBackend, (f64, i32)>> = shown
                 .iter()
-                .enumerate()
+                .map(|&i| (i, &rows[i]))
                 .filter_map(|(i, r)| {
                     r.1.get(b)
                         .copied()

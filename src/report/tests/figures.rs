@@ -64,3 +64,29 @@ fn the_lr_figure_names_every_individual_or_none() {
         "some individuals named beyond the limit"
     );
 }
+
+/// A regional table: the figures draw every k-th of the sorted individuals beyond 2000, say
+/// so on the axis, and still render as PNG.
+#[test]
+fn a_million_individuals_give_figures_that_render() {
+    let (v, k) = thinned(1_000_000);
+    assert_eq!(k, 500);
+    assert!(v.len() <= MAX_FIGURE_POINTS + 1 && v[0] == 0 && *v.last().unwrap() == 999_999);
+    assert_eq!(thinned(3).0, [0, 1, 2]);
+    let n = 50_000;
+    let points: Vec<(f64, f64, f64)> = (0..n)
+        .map(|i| {
+            let p = i as f64 / n as f64;
+            (p, p * 0.9, (p * 1.1).min(1.0))
+        })
+        .collect();
+    let svg = p_female_figure(&points, [0.05, 0.2, 0.8, 0.95]).unwrap();
+    assert!(svg.contains("every 25th of 50000 drawn"));
+    assert!(png_of("p_female", svg.as_bytes()).is_ok());
+    let rows: Vec<(String, Vec<Option<f64>>)> = (0..n)
+        .map(|i| (format!("R{i}"), vec![Some(i as f64 / n as f64 - 0.5)]))
+        .collect();
+    let svg = lr_by_region_figure(&["cranium".to_string()], &rows).unwrap();
+    assert!(svg.contains("every 25th of 50000 drawn"));
+    assert!(png_of("lr_by_region", svg.as_bytes()).is_ok());
+}
