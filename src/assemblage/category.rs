@@ -154,28 +154,26 @@ impl Category {
 /// quoted from memory (the same cut-points appear in university teaching texts on
 /// likelihood ratios), not from the guideline's text.
 pub fn lr_support(log10_lr: f64) -> String {
-    let m = log10_lr.abs();
-    let strength = if m < 2f64.log10() {
-        return "no support for either sex".into();
-    } else if m < 1.0 {
-        "weak"
-    } else if m < 2.0 {
-        "moderate"
-    } else if m < 3.0 {
-        "moderately strong"
-    } else if m < 4.0 {
-        "strong"
-    } else if m < 6.0 {
-        "very strong"
-    } else {
-        "extremely strong"
-    };
-    let side = if log10_lr > 0.0 { "female" } else { "male" };
-    format!("{strength} support for {side}")
+    const STRENGTH: [&str; 6] = [
+        "weak",
+        "moderate",
+        "moderately strong",
+        "strong",
+        "very strong",
+        "extremely strong",
+    ];
+    match support_rank(log10_lr) {
+        0 => "no support for either sex".into(),
+        rank => {
+            let side = if log10_lr > 0.0 { "female" } else { "male" };
+            format!("{} support for {side}", STRENGTH[usize::from(rank) - 1])
+        }
+    }
 }
 
 /// Rank of a log10 likelihood ratio on the ENFSI verbal scale of [`lr_support`]: 0 no support,
-/// 1 weak, 2 moderate, 3 moderately strong, 4 strong, 5 very strong, 6 extremely strong.
+/// 1 weak, 2 moderate, 3 moderately strong, 4 strong, 5 very strong, 6 extremely strong (the
+/// lower edges, log10 of 2, 10, 100, 1 000, 10 000 and 1 000 000).
 fn support_rank(log10_lr: f64) -> u8 {
     let m = log10_lr.abs();
     [2f64.log10(), 1.0, 2.0, 3.0, 4.0, 6.0]
@@ -198,21 +196,29 @@ pub fn category_note(
     log10_lr: f64,
     prior: &str,
 ) -> Option<String> {
-    let lr = 10f64.powf(log10_lr.abs());
-    let lr_words = if lr < 1e6 {
-        format!("{lr:.0} to 1")
-    } else {
-        format!("10^{:.1} to 1", log10_lr.abs())
-    };
-    let alone = thresholds.categorise(1.0 / (1.0 + 10f64.powf(-log10_lr)));
     if category == Category::NotEstimable {
         return None;
     }
+    // Written only for the rows that get a note (most rows get none).
+    let lr_words = || {
+        let lr = 10f64.powf(log10_lr.abs());
+        if lr < 1e6 {
+            format!("{lr:.0} to 1")
+        } else {
+            format!("10^{:.1} to 1", log10_lr.abs())
+        }
+    };
+    // The category of the evidence alone, as individuals.csv's category_equal_prior.
+    let alone = thresholds.categorise(super::posterior::p_female_given(
+        0.5,
+        log10_lr * std::f64::consts::LN_10,
+    ));
     if alone != category {
         return Some(format!(
-            "{} under the {prior} prior; the evidence alone, at equal prior odds, gives {} ({lr_words}: {})",
+            "{} under the {prior} prior; the evidence alone, at equal prior odds, gives {} ({}: {})",
             category.label(),
             alone.label(),
+            lr_words(),
             lr_support(log10_lr)
         ));
     }
@@ -222,6 +228,9 @@ pub fn category_note(
         Category::ProbableFemale | Category::ProbableMale => (1..=2).contains(&rank),
         _ => rank <= 1,
     };
+    if agree {
+        return None;
+    }
     let rule = match category {
         Category::Female => format!("P(female) ≥ {}", thresholds.female),
         Category::ProbableFemale => format!(
@@ -238,13 +247,12 @@ pub fn category_note(
             thresholds.probable_male, thresholds.probable_female
         ),
     };
-    (!agree).then(|| {
-        format!(
-            "the category {} means {rule} under the {prior} prior; the likelihood ratio alone, {lr_words}, is {} on the ENFSI scale",
-            category.label(),
-            lr_support(log10_lr)
-        )
-    })
+    Some(format!(
+        "the category {} means {rule} under the {prior} prior; the likelihood ratio alone, {}, is {} on the ENFSI scale",
+        category.label(),
+        lr_words(),
+        lr_support(log10_lr)
+    ))
 }
 
 #[cfg(test)]

@@ -232,25 +232,37 @@ fn trait_role(name: &str, catalogue: &Catalogue) -> Option<ColumnRole> {
     None
 }
 
-/// A known column name this one is probably a misspelling of: the same after replacing
-/// spaces, hyphens and dots by underscores, or within Damerau–Levenshtein distance 2
-/// (1 for names of five characters or fewer).
-fn near_miss(name: &str, catalogue: &Catalogue) -> Option<String> {
-    let squashed: String = name
-        .chars()
-        .map(|c| if matches!(c, ' ' | '-' | '.') { '_' } else { c })
-        .collect();
-    let mut candidates: Vec<String> = ["id", "group", "age", "known_sex"]
+/// Every name a column may be given: `id`, `group`, `age`, `known_sex`, each trait id, and
+/// `<id>_l` / `<id>_r` for bilateral traits.
+pub fn column_names(catalogue: &Catalogue) -> Vec<String> {
+    let mut v: Vec<String> = ["id", "group", "age", "known_sex"]
         .iter()
         .map(|s| s.to_string())
         .collect();
     for t in catalogue.traits() {
-        candidates.push(t.id.clone());
+        v.push(t.id.clone());
         if t.bilateral {
-            candidates.push(format!("{}_l", t.id));
-            candidates.push(format!("{}_r", t.id));
+            v.push(format!("{}_l", t.id));
+            v.push(format!("{}_r", t.id));
         }
     }
+    v
+}
+
+/// A column name with spaces, hyphens and dots read as underscores (`mastoid L` →
+/// `mastoid_l` once normalised): how a lab's spelling is compared with tessera's names.
+pub fn squash(name: &str) -> String {
+    name.chars()
+        .map(|c| if matches!(c, ' ' | '-' | '.') { '_' } else { c })
+        .collect()
+}
+
+/// A known column name this one is probably a misspelling of: the same after replacing
+/// spaces, hyphens and dots by underscores, or within Damerau–Levenshtein distance 2
+/// (1 for names of five characters or fewer).
+fn near_miss(name: &str, catalogue: &Catalogue) -> Option<String> {
+    let squashed = squash(name);
+    let candidates = column_names(catalogue);
     if let Some(c) = candidates.iter().find(|c| **c == squashed) {
         return Some(c.clone());
     }

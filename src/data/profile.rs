@@ -13,7 +13,7 @@
 //! not_recorded: [unobs, n/r]
 //! ```
 
-use super::columns::normalise;
+use super::columns::{column_names, normalise, squash};
 use crate::catalogue::Catalogue;
 use serde::{Deserialize, Serialize};
 use std::collections::BTreeMap;
@@ -28,30 +28,12 @@ pub struct ColumnProfile {
     pub not_recorded: Vec<String>,
 }
 
-/// Every name a column may be given: `id`, `group`, `age`, `known_sex`, each trait id, and
-/// `<id>_l` / `<id>_r` for bilateral traits.
-pub fn column_names(catalogue: &Catalogue) -> Vec<String> {
-    let mut v: Vec<String> = ["id", "group", "age", "known_sex"]
-        .iter()
-        .map(|s| s.to_string())
-        .collect();
-    for t in catalogue.traits() {
-        v.push(t.id.clone());
-        if t.bilateral {
-            v.push(format!("{}_l", t.id));
-            v.push(format!("{}_r", t.id));
-        }
-    }
-    v
-}
-
 /// The names a column most likely means, closest first (at most three), by edit distance
-/// between the squashed column name and each name (Jaro–Winkler similarity, strsim).
+/// between the squashed column name and each name (Jaro–Winkler similarity, strsim). The
+/// cut-off of 0.75 and the 0.95 given to a prefix of three letters or more are choices of
+/// ours, set on the demo's names (`Glab`, `Mastoid L`).
 pub fn suggestions(column: &str, catalogue: &Catalogue) -> Vec<String> {
-    let squashed: String = normalise(column)
-        .chars()
-        .map(|c| if matches!(c, ' ' | '-' | '.') { '_' } else { c })
-        .collect();
+    let squashed = squash(&normalise(column));
     let mut scored: Vec<(f64, String)> = column_names(catalogue)
         .into_iter()
         .map(|n| {

@@ -162,15 +162,7 @@ pub fn read_assemblage_bytes(
         problems,
         warnings: Vec::new(),
     };
-    if bytes.len() as u64 > MAX_INPUT_BYTES {
-        return Err(fail(vec![too_large(name)]));
-    }
-    let path = Path::new(name);
-    let table = if is_workbook(path) {
-        read_workbook(path, bytes, settings.sheet.as_deref()).map_err(fail)?
-    } else {
-        read_text(name, bytes).map_err(fail)?
-    };
+    let table = raw_table(name, bytes, settings.sheet.as_deref()).map_err(fail)?;
     build(name, table, sha256_hex(bytes), catalogue, settings)
 }
 
@@ -178,16 +170,21 @@ pub fn read_assemblage_bytes(
 /// `None` when the file cannot be split into cells: what a column mapping starts from, even
 /// when the table has problems.
 pub fn header_of_bytes(name: &str, bytes: &[u8], sheet: Option<&str>) -> Option<Vec<String>> {
+    raw_table(name, bytes, sheet).ok().map(|t| t.header)
+}
+
+/// The cells of a table held in memory: a workbook's sheet (by the name's extension) or
+/// delimited text, within the size bound.
+fn raw_table(name: &str, bytes: &[u8], sheet: Option<&str>) -> Result<RawTable, Vec<Problem>> {
     if bytes.len() as u64 > MAX_INPUT_BYTES {
-        return None;
+        return Err(vec![too_large(name)]);
     }
     let path = Path::new(name);
-    let table = if is_workbook(path) {
-        read_workbook(path, bytes, sheet).ok()?
+    if is_workbook(path) {
+        read_workbook(path, bytes, sheet)
     } else {
-        read_text(name, bytes).ok()?
-    };
-    Some(table.header)
+        read_text(name, bytes)
+    }
 }
 
 /// Read and validate delimited text held in memory. `name` is used in messages.

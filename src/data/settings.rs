@@ -20,6 +20,18 @@ pub enum SidePolicy {
 }
 
 impl SidePolicy {
+    /// The policy a word names (`left-first`, `right-first`, `both`), as [`SidePolicy::as_str`]
+    /// writes it.
+    pub fn from_word(word: &str) -> Option<SidePolicy> {
+        [
+            SidePolicy::LeftFirst,
+            SidePolicy::RightFirst,
+            SidePolicy::Both,
+        ]
+        .into_iter()
+        .find(|p| p.as_str() == word)
+    }
+
     /// The word used on the command line and in outputs.
     pub fn as_str(self) -> &'static str {
         match self {

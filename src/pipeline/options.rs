@@ -121,7 +121,8 @@ impl ReadOptions {
                 ),
             ));
         }
-        let scale_maps = match (&self.scale_map_text, &self.scale_map) {
+        // The scale map's name and text: given as text (the page), or read from its file.
+        let scale_map = match (&self.scale_map_text, &self.scale_map) {
             (Some((name, text)), _) => {
                 if text.len() as u64 > crate::limits::MAX_SETTINGS_BYTES {
                     return Err(Error::Settings {
@@ -129,19 +130,18 @@ impl ReadOptions {
                         message: "larger than any scale map tessera reads".into(),
                     });
                 }
-                parse_scale_maps(text, catalogue).map_err(|message| Error::Settings {
-                    file: name.clone(),
-                    message,
-                })?
+                Some((name.clone(), text.clone()))
             }
-            (None, None) => Default::default(),
-            (None, Some(p)) => {
-                let text = crate::limits::read_settings_text(p).map_err(|e| e.into_error(p))?;
-                parse_scale_maps(&text, catalogue).map_err(|message| Error::Settings {
-                    file: p.display().to_string(),
-                    message,
-                })?
-            }
+            (None, Some(p)) => Some((
+                p.display().to_string(),
+                crate::limits::read_settings_text(p).map_err(|e| e.into_error(p))?,
+            )),
+            (None, None) => None,
+        };
+        let scale_maps = match scale_map {
+            None => Default::default(),
+            Some((file, text)) => parse_scale_maps(&text, catalogue)
+                .map_err(|message| Error::Settings { file, message })?,
         };
         Ok(ReadSettings {
             missing_words: missing,

@@ -176,6 +176,19 @@ impl Prior {
         Prior::from_yaml(&path.display().to_string(), &text)
     }
 
+    /// The value of π a fixed prior fixes; `None` for a Beta prior.
+    pub fn fixed_value(&self) -> Option<f64> {
+        match self.shape {
+            PriorShape::Fixed { pi } => Some(pi),
+            PriorShape::Beta { .. } => None,
+        }
+    }
+
+    /// Whether the prior fixes π (a point mass) rather than spreading it.
+    pub fn is_fixed(&self) -> bool {
+        self.fixed_value().is_some()
+    }
+
     /// The prior mean of π.
     pub fn mean(&self) -> f64 {
         match self.shape {

@@ -642,7 +642,7 @@ pub fn terminal_summary(r: &AnalysisResult) -> String {
     // effect on individuals is in the list below and in sensitivity.csv.
     let mut fixed = 0;
     for r in analysis.results() {
-        if matches!(r.prior.shape, crate::prior::PriorShape::Fixed { .. }) {
+        if r.prior.is_fixed() {
             fixed += 1;
             continue;
         }

@@ -64,13 +64,7 @@ pub fn png_of(name: &str, svg: &[u8]) -> Result<Vec<u8>, FigureError> {
 /// A tick label without spurious decimals and with a real minus sign: 0.25, 0.5, 2, 10, −3
 /// (never 2.0, 10.0 or -3).
 fn tick(v: f64) -> String {
-    let s = format!("{v:.2}");
-    let s = s.trim_end_matches('0').trim_end_matches('.');
-    if s == "-0" {
-        "0".into()
-    } else {
-        s.replace('-', "\u{2212}")
-    }
+    super::number::short(v, 2)
 }
 
 fn fail<E: std::fmt::Debug>(figure: &str) -> impl Fn(E) -> FigureError + '_ {
@@ -201,7 +195,8 @@ pub fn region_look(b: usize) -> Look {
 
 /// Most points (or rows) a figure draws: beyond it every k-th of the sorted individuals is
 /// drawn (and the axis says so), so that a regional table of a million individuals still gives
-/// a figure that renders (usvg refuses documents of millions of elements).
+/// a figure that renders (usvg refuses documents of millions of elements). 2000 is a choice of
+/// ours: more points than the 640 units of the plot's width can show apart.
 pub const MAX_FIGURE_POINTS: usize = 2000;
 
 /// The positions drawn of `n` sorted items: all of them up to [`MAX_FIGURE_POINTS`], else
@@ -358,11 +353,17 @@ pub fn pi_posterior_figure(curves: &[(String, Vec<(f64, f64)>)]) -> Result<Strin
     Ok(s)
 }
 
-/// Most individuals the LR figure labels: each row gets 14 units of height (room for one
-/// line of 11-unit text), so up to this many every individual is named; beyond it the figure
-/// would be taller than 4000 units and names none (the order is that of the total LR, as
-/// individuals.csv gives it).
-pub const LR_FIGURE_MAX_LABELLED: usize = 276;
+/// Height of one individual's row on the LR figure: room for one line of 11-unit text.
+const LR_ROW_HEIGHT: usize = 14;
+/// Height of the LR figure's caption, axis and margins.
+const LR_FRAME_HEIGHT: usize = 120;
+/// Tallest LR figure (a choice of ours: about five printed pages at its width).
+const LR_MAX_HEIGHT: usize = 4000;
+
+/// Most individuals the LR figure labels: up to this many every row fits at
+/// [`LR_ROW_HEIGHT`] within [`LR_MAX_HEIGHT`] and every individual is named; beyond it none is
+/// (the order is that of the total LR, as individuals.csv gives it).
+pub const LR_FIGURE_MAX_LABELLED: usize = (LR_MAX_HEIGHT - LR_FRAME_HEIGHT) / LR_ROW_HEIGHT;
 
 /// log10 LR of each body region for each individual (one marker per region, [`region_look`]):
 /// every individual named on the left when there are at most [`LR_FIGURE_MAX_LABELLED`], none
@@ -387,7 +388,7 @@ pub fn lr_by_region_figure(
             rows.len()
         ),
     };
-    let height = (120 + 14 * n).clamp(300, 4000) as u32;
+    let height = (LR_FRAME_HEIGHT + LR_ROW_HEIGHT * n).clamp(300, LR_MAX_HEIGHT) as u32;
     let max = rows
         .iter()
         .flat_map(|r| r.1.iter().flatten().map(|x| x.abs()))

@@ -58,6 +58,17 @@ pub fn reading(x: f64, decimals: usize) -> String {
     }
 }
 
+/// [`reading`] without trailing zeros: 0.25, 0.5, 2, 10, −3 (never 2.0 or 10.00), for tick
+/// labels and values an analyst typed (a fixed prior of 0.1).
+pub fn short(x: f64, decimals: usize) -> String {
+    let s = reading(x, decimals);
+    if s.contains('.') {
+        s.trim_end_matches('0').trim_end_matches('.').to_string()
+    } else {
+        s
+    }
+}
+
 /// A Bayes factor in words: what it compares and by how much, e.g. "the data are 10^88 times
 /// as probable if the community was mixed" (`yes` is the hypothesis a positive ln BF favours,
 /// `no` the other). Below a factor of 3 either way it says the data hardly tell them apart.

@@ -19,12 +19,6 @@ fn f1(x: f64) -> String {
     super::number::reading(x, 1)
 }
 
-/// A proportion as written by the analyst (0.1, 0.25, 0.5), without trailing zeros.
-fn tick_value(x: f64) -> String {
-    let s = format!("{x:.3}");
-    s.trim_end_matches('0').trim_end_matches('.').to_string()
-}
-
 fn f2(x: f64) -> String {
     super::number::reading(x, 2)
 }
@@ -240,7 +234,7 @@ pub fn figures_svg(r: &AnalysisResult) -> Result<OutputSet, RenderError> {
             .filter(|(r, _)| r.prior.name != analysis.main.prior.name),
     );
     for (r, post) in fitted {
-        if matches!(r.prior.shape, crate::prior::PriorShape::Fixed { .. }) || curves.len() >= 6 {
+        if r.prior.is_fixed() || curves.len() >= 6 {
             continue;
         }
         let step = (post.grid.len() / 400).max(1);
@@ -301,7 +295,8 @@ pub fn figures_svg(r: &AnalysisResult) -> Result<OutputSet, RenderError> {
     Ok(out)
 }
 
-/// The traits that entered some individual's evidence, and whether a latent block did.
+/// The traits that entered some individual's evidence, and whether a latent block did (each
+/// trait id copied once, not once per individual).
 fn traits_used(model: &Model, evidence: &[IndividualEvidence]) -> (BTreeSet<String>, bool) {
     let mut used_traits: BTreeSet<String> = BTreeSet::new();
     let mut used_latent = false;
@@ -310,7 +305,11 @@ fn traits_used(model: &Model, evidence: &[IndividualEvidence]) -> (BTreeSet<Stri
             if be.status != BlockStatus::Used {
                 continue;
             }
-            used_traits.extend(be.traits_used.iter().cloned());
+            for t in &be.traits_used {
+                if !used_traits.contains(t) {
+                    used_traits.insert(t.clone());
+                }
+            }
             match b {
                 Block::Latent(_) => used_latent = true,
                 Block::Dna(_) | Block::Equations(_) => {}
@@ -370,13 +369,14 @@ fn recording_sentence(model: &Model, used_traits: &BTreeSet<String>) -> String {
     s
 }
 
-/// Published methods actually used in a run, as (key, reference) in author–year style.
+/// Published methods actually used in a run, as (key, reference) in author–year style, from
+/// the traits that entered the evidence and whether a latent block did (`traits_used`).
 pub fn references_used(
     model: &Model,
-    evidence: &[IndividualEvidence],
+    used_traits: &BTreeSet<String>,
+    used_latent: bool,
     by_sex: &BySex,
 ) -> Vec<String> {
-    let (used_traits, used_latent) = traits_used(model, evidence);
     let mut refs = Vec::new();
     if used_latent {
         for key in ["Konigsberg & Hens 1998", "Genz 1992", "Genz 2004"] {
@@ -406,7 +406,7 @@ pub fn references_used(
         }
     }
     // The default model's femoral means come from Noussios et al.; a fitted model's do not.
-    if femoral_means_used(model, &used_traits) {
+    if femoral_means_used(model, used_traits) {
         refs.push(citations::work("Noussios et al. 2019"));
     }
     refs.push(citations::work("Bruzek et al. 2017"));
@@ -447,6 +447,7 @@ pub fn methods_md(r: &AnalysisResult) -> String {
         &r.run,
     );
     let main = &analysis.main;
+    let (used_traits, used_latent) = traits_used(model, evidence);
     let used_blocks: Vec<String> = model
         .blocks
         .iter()
@@ -488,11 +489,7 @@ pub fn methods_md(r: &AnalysisResult) -> String {
         "Biological sex was estimated for the {} individuals of the assemblage ({} with usable evidence) with tessera {} (model `{}`), which combines all surviving evidence of each individual in one Bayesian computation. The evidence was treated as {} blocks, assumed independent given sex: {}. ",
         main.n_individuals, main.n_estimable, run.version, model.name, used_blocks.len(), used_blocks.join("; ")
     );
-    let _ = write!(
-        s,
-        "{}",
-        recording_sentence(model, &traits_used(model, evidence).0)
-    );
+    let _ = write!(s, "{}", recording_sentence(model, &used_traits));
     if has_latent {
         let _ = write!(s, "Ordinal trait scores and measurements were modelled jointly by a multivariate cumulative probit with correlated latent traits (Konigsberg & Hens, 1998), extended to measurements; unobserved traits were integrated out, and probabilities of ordinal score combinations were computed exactly in one and two dimensions (Genz, 2004) and by Genz's separation-of-variables method with randomised quasi-Monte Carlo in three or more (Genz, 1992). ");
         let sides = match run.side_policy.as_str() {
@@ -561,10 +558,7 @@ pub fn methods_md(r: &AnalysisResult) -> String {
     let further: Vec<&crate::assemblage::PriorResult> = analysis.results().skip(1).collect();
     let fixed: Vec<f64> = further
         .iter()
-        .filter_map(|r| match r.prior.shape {
-            crate::prior::PriorShape::Fixed { pi } => Some(pi),
-            _ => None,
-        })
+        .filter_map(|r| r.prior.fixed_value())
         .collect();
     let _ = write!(
         s,
@@ -610,7 +604,7 @@ pub fn methods_md(r: &AnalysisResult) -> String {
         }
     );
     let _ = writeln!(s, "## References\n");
-    for r in references_used(model, evidence, by_sex) {
+    for r in references_used(model, &used_traits, used_latent, by_sex) {
         let _ = writeln!(s, "- {r}");
     }
     let _ = writeln!(s, "\nReferences are in APA style; check them against the sources and restyle them for your journal before publication.");
@@ -811,13 +805,14 @@ fn proportion_female_section(r: &AnalysisResult, m: &mut String, t: &mut String)
     let _ = writeln!(t, "\\begin{{table}}\n\\centering\n\\caption{{Posterior of the proportion female under each prior.}}\n\\begin{{tabular}}{{lrrrr}}\n\\toprule\nPrior & Mean & 2.5\\% & 97.5\\% & Expected females \\\\\n\\midrule");
     // A fixed prior's row would only repeat its value (0.100 to 0.100): those priors are
     // summarised in one sentence below (the chosen prior keeps its row even when fixed).
-    let is_fixed = |r: &crate::assemblage::PriorResult| {
-        matches!(r.prior.shape, crate::prior::PriorShape::Fixed { .. })
-    };
-    let fixed: Vec<&crate::assemblage::PriorResult> =
-        analysis.results().skip(1).filter(|r| is_fixed(r)).collect();
+
+    let fixed: Vec<&crate::assemblage::PriorResult> = analysis
+        .results()
+        .skip(1)
+        .filter(|r| r.prior.is_fixed())
+        .collect();
     for (k, r) in analysis.results().enumerate() {
-        if k > 0 && is_fixed(r) {
+        if k > 0 && r.prior.is_fixed() {
             continue;
         }
         let _ = writeln!(
@@ -853,10 +848,7 @@ fn proportion_female_section(r: &AnalysisResult, m: &mut String, t: &mut String)
         let values = |f: fn(f64, f64) -> f64| {
             fixed
                 .iter()
-                .filter_map(|r| match r.prior.shape {
-                    crate::prior::PriorShape::Fixed { pi } => Some(pi),
-                    _ => None,
-                })
+                .filter_map(|r| r.prior.fixed_value())
                 .reduce(f)
                 .unwrap_or(f64::NAN)
         };
@@ -865,8 +857,8 @@ fn proportion_female_section(r: &AnalysisResult, m: &mut String, t: &mut String)
             "\nThe sensitivity set also holds {} prior{} that fix the proportion female ({} to {}): under them the expected number of females runs from {:.1} to {:.1}; every individual under every prior is in sensitivity.csv.",
             fixed.len(),
             if fixed.len() == 1 { "" } else { "s" },
-            tick_value(values(f64::min)),
-            tick_value(values(f64::max)),
+            super::number::short(values(f64::min), 3),
+            super::number::short(values(f64::max), 3),
             expected(f64::min),
             expected(f64::max)
         );

@@ -64,6 +64,37 @@ fn file_name(raw: &str) -> Option<String> {
     (!clean.is_empty() && clean != "." && clean != "..").then_some(clean)
 }
 
+/// The names of the shipped priors (those the page offers).
+fn shipped_names() -> Vec<String> {
+    crate::prior::shipped_priors()
+        .map(|v| v.into_iter().map(|p| p.name).collect())
+        .unwrap_or_default()
+}
+
+/// Every prior word of `words` the page may use: a shipped name, `fixed:VALUE`, and (where
+/// `sets`) `shipped` and `sweep`; the page never names a prior file of this machine.
+///
+/// # Errors
+/// The first word that is not one of them, with what the page takes.
+pub fn page_prior_words<'w>(
+    words: impl IntoIterator<Item = &'w str>,
+    sets: bool,
+) -> Result<(), String> {
+    let shipped = shipped_names();
+    for word in words.into_iter().map(str::trim).filter(|w| !w.is_empty()) {
+        let ok = (sets && (word == "shipped" || word == "sweep"))
+            || word.starts_with("fixed:")
+            || shipped.iter().any(|n| n == word);
+        if !ok {
+            return Err(format!(
+                "`{word}`: on this page a prior is one of the shipped ones ({}) or fixed:VALUE; a prior file needs the command line",
+                shipped.join(", ")
+            ));
+        }
+    }
+    Ok(())
+}
+
 /// The problems of a table, as the page lists them (file, row, column, value, expected).
 fn problems_json(e: &InputError) -> Value {
     serde_json::to_value(e).unwrap_or(Value::Null)
@@ -148,7 +179,7 @@ fn check_table(state: &State, id: &str, mapping: &Mapping) -> WebResponse {
         Ok(m) => m,
         Err(e) => return error_response(&e),
     };
-    let known = crate::data::profile::column_names(&model.catalogue);
+    let known = crate::data::columns::column_names(&model.catalogue);
     let header = crate::data::header_of_bytes(&t.name, &t.bytes, None).unwrap_or_default();
     let unrecognised: Vec<Value> = header
         .iter()
@@ -310,38 +341,11 @@ impl PageOptions {
     /// The library's options, or why not: every prior word must be shipped, `fixed:VALUE`,
     /// `shipped` or `sweep` (the page never names a file of this machine).
     fn analysis_options(&self) -> Result<AnalysisOptions, String> {
-        let shipped: Vec<String> = crate::prior::shipped_priors()
-            .map_err(|e| e.to_string())?
-            .into_iter()
-            .map(|p| p.name)
-            .collect();
-        for word in self
-            .prior
-            .split(',')
-            .chain(self.priors.split(','))
-            .map(str::trim)
-            .filter(|w| !w.is_empty())
-        {
-            let ok = word == "shipped"
-                || word == "sweep"
-                || word.starts_with("fixed:")
-                || shipped.iter().any(|n| n == word);
-            if !ok {
-                return Err(format!(
-                    "`{word}`: on this page a prior is one of the shipped ones ({}) or fixed:VALUE; a prior file needs the command line",
-                    shipped.join(", ")
-                ));
-            }
-        }
+        page_prior_words(self.prior.split(',').chain(self.priors.split(',')), true)?;
         let sides = match self.sides.as_str() {
-            "left-first" | "" => crate::data::SidePolicy::LeftFirst,
-            "right-first" => crate::data::SidePolicy::RightFirst,
-            "both" => crate::data::SidePolicy::Both,
-            other => {
-                return Err(format!(
-                    "`{other}`: sides are left-first, right-first or both"
-                ))
-            }
+            "" => crate::data::SidePolicy::LeftFirst,
+            word => crate::data::SidePolicy::from_word(word)
+                .ok_or_else(|| format!("`{word}`: sides are left-first, right-first or both"))?,
         };
         Ok(AnalysisOptions {
             model: ModelChoice::Embedded,
@@ -392,10 +396,8 @@ fn command_of(table: &str, o: &AnalysisOptions) -> Vec<String> {
     if o.thresholds != d.thresholds {
         opt("--thresholds", o.thresholds.clone());
     }
-    match o.read.sides {
-        crate::data::SidePolicy::LeftFirst => {}
-        crate::data::SidePolicy::RightFirst => opt("--sides", "right-first".into()),
-        crate::data::SidePolicy::Both => opt("--sides", "both".into()),
+    if o.read.sides != crate::data::SidePolicy::default() {
+        opt("--sides", o.read.sides.as_str().into());
     }
     if let Some(g) = &o.read.group_by {
         opt("--group-by", g.clone());
@@ -493,11 +495,10 @@ fn analyse_with(
             Err(e) => return WebResponse::error(400, &format!("the options are not valid: {e}")),
         }
     };
-    let options = match page.analysis_options() {
+    let mut options = match page.analysis_options() {
         Ok(o) => o,
         Err(m) => return WebResponse::error(422, &m),
     };
-    let mut options = options;
     let validated = if page.model_yaml.trim().is_empty() {
         options.validate()
     } else {
@@ -527,7 +528,8 @@ fn analyse_with(
         Err(e) => return error_response(&e),
     };
     let notes = run.input_notes(&a);
-    let result = match run.analyse(a, command_of(&t.name, &options), progress) {
+    let args = command_of(&t.name, &options);
+    let result = match run.analyse(a, args.clone(), progress) {
         Ok(r) => r,
         Err(e) => return error_response(&e),
     };
@@ -557,7 +559,6 @@ fn analyse_with(
         m.insert("figures".into(), json!(figures));
         m.insert("methods".into(), json!(methods));
         m.insert("files".into(), json!(names));
-        let args = command_of(&t.name, &options);
         m.insert("command".into(), json!(shell_words(&args)));
         m.insert("command_args".into(), json!(args));
     }
@@ -652,7 +653,7 @@ pub fn results_json(r: &AnalysisResult) -> Value {
         .map(|p| {
             json!({
                 "prior": p.prior.name,
-                "fixed": matches!(p.prior.shape, crate::prior::PriorShape::Fixed { .. }),
+                "fixed": p.prior.is_fixed(),
                 "mean": p.pi.mean,
                 "lo": p.pi.lo,
                 "hi": p.pi.hi,
@@ -733,9 +734,7 @@ pub fn zip_of(files: &crate::output::OutputSet) -> Result<Vec<u8>, String> {
 
 /// `GET /api/about`: the program, the cautions, and the priors the page offers.
 pub fn about() -> WebResponse {
-    let priors: Vec<String> = crate::prior::shipped_priors()
-        .map(|v| v.into_iter().map(|p| p.name).collect())
-        .unwrap_or_default();
+    let priors = shipped_names();
     WebResponse::json(
         200,
         &json!({

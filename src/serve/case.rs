@@ -83,7 +83,7 @@ pub fn case(body: &[u8]) -> WebResponse {
         Ok(m) => m,
         Err(e) => return WebResponse::error(500, &e.to_string()),
     };
-    let known = crate::data::profile::column_names(&model.catalogue);
+    let known = crate::data::columns::column_names(&model.catalogue);
     let mut columns: Vec<(&String, &String)> = form
         .values
         .iter()
@@ -116,17 +116,11 @@ pub fn case(body: &[u8]) -> WebResponse {
             )
         }
     };
+    if let Err(m) = super::api::page_prior_words(form.priors.iter().map(String::as_str), false) {
+        return WebResponse::error(422, &m);
+    }
     let mut priors = Vec::new();
     for p in &form.priors {
-        let shipped = crate::prior::shipped_priors()
-            .map(|v| v.iter().any(|q| q.name == *p))
-            .unwrap_or(false);
-        if !(shipped || p.starts_with("fixed:")) {
-            return WebResponse::error(
-                422,
-                &format!("`{p}`: a prior here is a shipped one or fixed:VALUE"),
-            );
-        }
         match crate::prior::parse_prior_set(p) {
             Ok(mut v) => priors.append(&mut v),
             Err(e) => return WebResponse::error(422, &e.to_string()),

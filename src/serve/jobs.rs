@@ -8,7 +8,7 @@ use std::collections::VecDeque;
 use std::sync::atomic::{AtomicU64, Ordering};
 use std::sync::{Arc, Mutex};
 
-/// Jobs kept at once.
+/// Jobs kept at once (a choice of ours: two per kept run).
 pub const KEPT_JOBS: usize = 16;
 
 /// One analysis in the background.

@@ -18,11 +18,12 @@ mod store;
 use std::sync::atomic::AtomicBool;
 use std::sync::Arc;
 
-/// Largest upload: a table of this size is far beyond any cemetery and still fits in memory.
+/// Largest upload (a choice of ours): a table of this size is far beyond any cemetery (the
+/// demo's 75 individuals take 6 KB) and still fits in memory.
 pub const MAX_UPLOAD_BYTES: usize = 64 << 20;
-/// Tables kept in memory at once.
+/// Tables kept in memory at once (a choice of ours: at most 8 × 64 MB).
 pub const KEPT_TABLES: usize = 8;
-/// Runs kept in memory at once (for their downloads).
+/// Runs kept in memory at once, for their downloads (a choice of ours).
 pub const KEPT_RUNS: usize = 8;
 
 /// The page, its script and its style, inside the binary (no network, no build step).
@@ -142,7 +143,7 @@ pub fn route(state: &State, req: &WebRequest) -> WebResponse {
 /// A running server on 127.0.0.1.
 pub struct Server {
     listener: std::net::TcpListener,
-    state: Arc<State>,
+    state: State,
     stop: AtomicBool,
 }
 
@@ -160,7 +161,7 @@ impl Server {
         })?;
         Ok(Server {
             listener,
-            state: Arc::new(State::new()),
+            state: State::new(),
             stop: AtomicBool::new(false),
         })
     }

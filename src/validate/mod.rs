@@ -35,6 +35,16 @@ pub enum Folds {
     LeaveOneOut,
 }
 
+impl Folds {
+    /// How many folds, and so models, for `n` individuals.
+    pub fn count(self, n: usize) -> usize {
+        match self {
+            Folds::K(k) => k,
+            Folds::LeaveOneOut => n,
+        }
+    }
+}
+
 /// Settings of a validation.
 #[derive(Debug, Clone, PartialEq)]
 pub struct ValidationSettings {
@@ -379,10 +389,7 @@ pub fn validate_with_progress(
             vec![0; reference.len()],
         ),
         Subject::Refit(spec, catalogue) => {
-            let folds = match settings.folds {
-                Folds::K(k) => k,
-                Folds::LeaveOneOut => reference.len(),
-            };
+            let folds = settings.folds.count(reference.len());
             progress.stage("fitting a model per fold", folds as u64);
             let fitted = fold_models(spec, catalogue, reference, info, settings, progress);
             progress.finish();
@@ -516,10 +523,7 @@ fn fold_models(
 ) -> Result<(String, Vec<Model>, Vec<usize>), ValidationError> {
     let sexes: Vec<Sex> = reference.iter().map(|r| r.1).collect();
     let fold_of = assign_folds(&sexes, settings.folds, settings.seed);
-    let k = match settings.folds {
-        Folds::K(k) => k,
-        Folds::LeaveOneOut => reference.len(),
-    };
+    let k = settings.folds.count(reference.len());
     let models: Vec<Result<Model, ValidationError>> = (0..k)
         .into_par_iter()
         .map(|f| {
