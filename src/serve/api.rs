@@ -95,6 +95,28 @@ pub fn page_prior_words<'w>(
     Ok(())
 }
 
+/// A request's JSON body as `T`; an empty body is `T`'s default. `refusal` begins the 400
+/// answer ("the options are not valid").
+fn json_body<T: serde::de::DeserializeOwned + Default>(
+    body: &[u8],
+    refusal: &str,
+) -> Result<T, WebResponse> {
+    if body.iter().all(u8::is_ascii_whitespace) {
+        return Ok(T::default());
+    }
+    serde_json::from_slice(body).map_err(|e| WebResponse::error(400, &format!("{refusal}: {e}")))
+}
+
+/// A table the server still holds, or the 404 that says to load it again.
+fn held_table(state: &State, id: &str) -> Result<Table, WebResponse> {
+    state
+        .store
+        .lock()
+        .ok()
+        .and_then(|s| s.table(id))
+        .ok_or_else(|| WebResponse::error(404, "that table is no longer held: load it again"))
+}
+
 /// The problems of a table, as the page lists them (file, row, column, value, expected).
 fn problems_json(e: &InputError) -> Value {
     serde_json::to_value(e).unwrap_or(Value::Null)
@@ -155,21 +177,17 @@ pub fn upload(state: &State, query: &str, body: &[u8]) -> WebResponse {
 /// `POST /api/tables/ID/check` with a mapping as JSON: the check again, reading the sheet's
 /// columns as mapped.
 pub fn recheck(state: &State, table: &str, body: &[u8]) -> WebResponse {
-    let mapping: Mapping = if body.iter().all(u8::is_ascii_whitespace) {
-        Mapping::default()
-    } else {
-        match serde_json::from_slice(body) {
-            Ok(m) => m,
-            Err(e) => return WebResponse::error(400, &format!("the mapping is not valid: {e}")),
-        }
-    };
-    check_table(state, table, &mapping)
+    match json_body::<Mapping>(body, "the mapping is not valid") {
+        Ok(mapping) => check_table(state, table, &mapping),
+        Err(r) => r,
+    }
 }
 
 /// What the page shows of a table under a mapping.
 fn check_table(state: &State, id: &str, mapping: &Mapping) -> WebResponse {
-    let Some(t) = state.store.lock().ok().and_then(|s| s.table(id)) else {
-        return WebResponse::error(404, "that table is no longer held: load it again");
+    let t = match held_table(state, id) {
+        Ok(t) => t,
+        Err(r) => return r,
     };
     let options = AnalysisOptions {
         read: mapping.read_options(),
@@ -484,16 +502,13 @@ fn analyse_with(
     body: &[u8],
     progress: &dyn crate::progress::Progress,
 ) -> WebResponse {
-    let Some(t) = state.store.lock().ok().and_then(|s| s.table(table)) else {
-        return WebResponse::error(404, "that table is no longer held: load it again");
+    let t = match held_table(state, table) {
+        Ok(t) => t,
+        Err(r) => return r,
     };
-    let page: PageOptions = if body.iter().all(u8::is_ascii_whitespace) {
-        PageOptions::default()
-    } else {
-        match serde_json::from_slice(body) {
-            Ok(p) => p,
-            Err(e) => return WebResponse::error(400, &format!("the options are not valid: {e}")),
-        }
+    let page: PageOptions = match json_body(body, "the options are not valid") {
+        Ok(p) => p,
+        Err(r) => return r,
     };
     let mut options = match page.analysis_options() {
         Ok(o) => o,
