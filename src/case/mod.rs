@@ -239,7 +239,7 @@ pub fn case_report(
             } else {
                 String::new()
             },
-            note: e.note.clone(),
+            note: e.note.to_string(),
             traits,
             not_recorded,
             not_recorded_names,

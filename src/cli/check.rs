@@ -190,7 +190,10 @@ pub fn render_text(c: &Completeness, form: &str) -> String {
     if !c.warnings.is_empty() {
         let _ = writeln!(s);
         let _ = writeln!(s, "Warnings ({}):", c.warnings.len());
-        for w in &c.warnings {
+        for w in crate::data::problem::shown_warnings(
+            &c.warnings,
+            crate::data::problem::WARNINGS_SHOWN_PER_KIND,
+        ) {
             let _ = writeln!(s, "  {w}");
         }
     }

@@ -127,6 +127,69 @@ pub enum WarningKind {
     SecondSideUnused,
 }
 
+impl WarningKind {
+    /// The kind in a few words, for the line that counts warnings not shown.
+    pub fn words(self) -> &'static str {
+        match self {
+            WarningKind::PossibleMisspelling => "a column name close to a trait id",
+            WarningKind::SidesDisagree => "sides that disagree",
+            WarningKind::DecimalComma => "decimal commas",
+            WarningKind::NoEvidence => "a row with no trait recorded",
+            WarningKind::SecondSideUnused => "a second side recorded and not used",
+        }
+    }
+}
+
+/// How many warnings of one kind a terminal or the page shows before counting the rest.
+pub const WARNINGS_SHOWN_PER_KIND: usize = 20;
+
+/// The warnings as lines to show a person: every warning of a kind up to `per_kind`, then
+/// one line per kind saying how many more there are, from which row to which. A regional
+/// table of a million rows gave 93 000 lines of "no trait recorded" on the terminal; the
+/// complete list stays in `tessera check FILE --format json`, and every row's own state in
+/// the outputs (`status` in individuals.csv).
+pub fn shown_warnings(warnings: &[Warning], per_kind: usize) -> Vec<String> {
+    let mut seen: Vec<(WarningKind, usize, Option<usize>, Option<usize>)> = Vec::new();
+    let mut lines = Vec::new();
+    for w in warnings {
+        let k = match seen.iter().position(|s| s.0 == w.kind) {
+            Some(k) => k,
+            None => {
+                seen.push((w.kind, 0, None, None));
+                seen.len() - 1
+            }
+        };
+        let entry = &mut seen[k];
+        entry.1 += 1;
+        if entry.1 <= per_kind {
+            lines.push(w.to_string());
+        } else {
+            entry.2 = entry.2.or(w.row);
+            entry.3 = w.row.or(entry.3);
+        }
+    }
+    for (kind, count, first, last) in seen {
+        if count > per_kind {
+            let rows = match (first, last) {
+                (Some(a), Some(b)) if a != b => format!(" on rows {a} to {b}"),
+                (Some(a), _) => format!(" on row {a}"),
+                _ => String::new(),
+            };
+            let file = warnings
+                .iter()
+                .find(|w| w.kind == kind)
+                .map(|w| w.file.as_str())
+                .unwrap_or_default();
+            lines.push(format!(
+                "{file}: {} more warnings of {}{rows} are not shown ({count} in all; `tessera check {file} --format json` lists every one)",
+                count - per_kind,
+                kind.words()
+            ));
+        }
+    }
+    lines
+}
+
 /// Something a person should look at; the run goes on.
 #[derive(Debug, Clone, PartialEq, Serialize)]
 pub struct Warning {

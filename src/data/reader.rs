@@ -311,7 +311,7 @@ fn build(
     let individuals: Vec<Individual> = table
         .rows
         .iter()
-        .map(|raw| reader.read(raw, &mut found))
+        .map(|raw| reader.read(&raw, &mut found))
         .collect();
     let Findings {
         mut problems,
@@ -461,7 +461,7 @@ impl RowReader<'_> {
     }
 
     /// One row as an individual; its problems and warnings go to `found`.
-    fn read(&self, raw: &RawRow, found: &mut Findings) -> Individual {
+    fn read(&self, raw: &RawRow<'_>, found: &mut Findings) -> Individual {
         let n = self.catalogue.len();
         let mut written = vec![false; n];
         let mut cells: Vec<SidedCells> = (0..n)
@@ -494,7 +494,11 @@ impl RowReader<'_> {
             known_sex: fields.known_sex,
             observations,
             sides,
-            carried: self.carried.iter().map(|&c| raw.cells[c].clone()).collect(),
+            carried: self
+                .carried
+                .iter()
+                .map(|&c| raw.cell(c).to_string())
+                .collect(),
         }
     }
 
@@ -502,14 +506,14 @@ impl RowReader<'_> {
     /// observation on its side.
     fn read_cells(
         &self,
-        raw: &RawRow,
+        raw: &RawRow<'_>,
         cells: &mut [SidedCells],
         written: &mut [bool],
         found: &mut Findings,
     ) -> RowFields {
         let (row, settings) = (raw.row, self.settings);
         let mut f = RowFields::default();
-        for (c, cell) in raw.cells.iter().enumerate() {
+        for (c, cell) in raw.cells().enumerate() {
             let missing = settings.is_missing(cell);
             let mut push = |kind, expected: String| {
                 found

@@ -83,19 +83,19 @@ fn rows_of(model: &Model, ind: &Individual, ev: &IndividualEvidence) -> Vec<Ledg
             block: b.id().to_string(),
             block_type: b.kind().to_string(),
             status: e.status.as_str().to_string(),
-            traits_used: e.traits_used.clone(),
+            traits_used: e.traits_used.to_vec(),
             ln_l_female: e.ln_l_female,
             ln_l_male: e.ln_l_male,
             ln_lr: e.ln_lr,
             error: e.error,
-            note: e.note.clone(),
+            note: e.note.to_string(),
         });
     }
     let used: Vec<String> = ev
         .blocks
         .iter()
         .filter(|e| e.status == BlockStatus::Used)
-        .flat_map(|e| e.traits_used.clone())
+        .flat_map(|e| e.traits_used.iter().cloned())
         .collect();
     rows.push(LedgerRow {
         id: ind.id.clone(),
@@ -112,7 +112,7 @@ fn rows_of(model: &Model, ind: &Individual, ev: &IndividualEvidence) -> Vec<Ledg
         ln_l_male: None,
         ln_lr: ev.ln_lr,
         error: ev.error,
-        note: ev.note.clone(),
+        note: ev.note.to_string(),
     });
     rows
 }

@@ -68,6 +68,8 @@ pub struct DnaBlock {
     pub y_index: usize,
     /// Trait ids (X, Y).
     pub ids: [String; 2],
+    /// The two ids as one list, shared with the evidence of every individual with reads.
+    pub ids_used: std::sync::Arc<[String]>,
     /// Beta(α, β) of the Y fraction: female, male.
     pub beta: [(f64, f64); 2],
     /// z beyond which a count fits a sex badly.
@@ -130,6 +132,7 @@ impl DnaBlock {
             x_index: x?,
             y_index: y?,
             ids: [raw.x_reads.clone(), raw.y_reads.clone()],
+            ids_used: [raw.x_reads.clone(), raw.y_reads.clone()].into(),
             beta: [
                 (raw.female.alpha, raw.female.beta),
                 (raw.male.alpha, raw.male.beta),
@@ -197,13 +200,13 @@ impl DnaBlock {
             return BlockEvidence::not_used(BlockStatus::NoEvidence, "no reads on X or Y");
         }
         let (zf, zm) = (self.z(0, ny, n), self.z(1, ny, n));
-        let used = vec![self.ids[0].clone(), self.ids[1].clone()];
+        let used = self.ids_used.clone();
         if zf.abs() > self.atypical_z && zm.abs() > self.atypical_z {
             return BlockEvidence {
                 traits_used: used,
                 ..BlockEvidence::not_used(
                     BlockStatus::Atypical,
-                    &format!(
+                    format!(
                         "Y fraction {:.4} fits neither sex (z female {zf:.1}, male {zm:.1}): atypical karyotype or contamination? not used",
                         ny as f64 / n as f64
                     ),
@@ -212,9 +215,9 @@ impl DnaBlock {
         }
         let [ln_f, ln_m] = self.ln_likelihoods(ny, n);
         let mut e = BlockEvidence::from_likelihoods(used, ln_f, ln_m, 0.0);
-        e.note = format!("Y fraction {:.4} of {n} reads", ny as f64 / n as f64);
+        e.note = format!("Y fraction {:.4} of {n} reads", ny as f64 / n as f64).into();
         if self.contamination > 0.0 && e.ln_lr.abs() > self.lr_bound().ln() - 0.01 {
-            e.note.push_str(&format!(
+            e.note.to_mut().push_str(&format!(
                 "; at the ceiling of {:.0} that a contamination rate of {} allows",
                 self.lr_bound(),
                 self.contamination

@@ -18,8 +18,8 @@ use crate::data::{Individual, Observation, Sex};
 pub struct Equation {
     /// Name (author, year, variant).
     pub name: String,
-    /// Input trait ids.
-    pub inputs: Vec<String>,
+    /// Input trait ids (shared with the evidence of every individual the equation is used for).
+    pub inputs: std::sync::Arc<[String]>,
     /// Catalogue positions of the inputs.
     pub input_index: Vec<usize>,
     /// Coefficients.
@@ -140,7 +140,7 @@ impl EquationBlock {
             }
             equations.push(Equation {
                 name: e.name.clone(),
-                inputs: e.inputs.clone(),
+                inputs: e.inputs.as_slice().into(),
                 input_index,
                 coefficients: e.coefficients.clone(),
                 intercept: e.intercept,
@@ -180,7 +180,7 @@ impl EquationBlock {
                     ln_l_male: None,
                     ln_lr,
                     error: 0.0,
-                    note: format!("equation: {}", e.name),
+                    note: format!("equation: {}", e.name).into(),
                 };
             }
         }

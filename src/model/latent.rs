@@ -334,7 +334,7 @@ impl LatentBlock {
                     ln_l[s] = l;
                     error += e;
                 }
-                Err(msg) => return BlockEvidence::not_used(BlockStatus::NumericalFailure, &msg),
+                Err(msg) => return BlockEvidence::not_used(BlockStatus::NumericalFailure, msg),
             }
         }
         BlockEvidence::from_likelihoods(used, ln_l[0], ln_l[1], error)

@@ -94,8 +94,11 @@ impl Block {
         match self {
             Block::Latent(b) => b.traits.iter().map(|t| t.id.clone()).collect(),
             Block::Equations(b) => {
-                let mut v: Vec<String> =
-                    b.equations.iter().flat_map(|e| e.inputs.clone()).collect();
+                let mut v: Vec<String> = b
+                    .equations
+                    .iter()
+                    .flat_map(|e| e.inputs.iter().cloned())
+                    .collect();
                 v.sort();
                 v.dedup();
                 v
@@ -179,8 +182,8 @@ pub struct IndividualEvidence {
     pub n_traits: usize,
     /// Whether any block contributed.
     pub estimable: bool,
-    /// Age note (unknown age, below the minimum age).
-    pub note: String,
+    /// Age note (unknown age, below the minimum age); fixed texts, not copied per individual.
+    pub note: std::borrow::Cow<'static, str>,
 }
 
 impl Model {
@@ -443,10 +446,10 @@ impl Model {
                 && e.status != BlockStatus::NoEvidence
             {
                 e = BlockEvidence {
-                    traits_used: Vec::new(),
+                    traits_used: std::sync::Arc::from([]),
                     ..BlockEvidence::not_used(
                         BlockStatus::BelowMinimumAge,
-                        &format!(
+                        format!(
                             "below the model's minimum age ({} years) for morphological evidence",
                             self.minimum_age
                         ),
@@ -461,12 +464,12 @@ impl Model {
         let n_traits = used.clone().map(|b| b.traits_used.len()).sum();
         let estimable = used.count() > 0;
         let note = match maturity {
-            Maturity::Subadult => "subadult: DNA only".to_string(),
+            Maturity::Subadult => "subadult: DNA only".into(),
             Maturity::Unknown if ind.age.is_some() => {
-                "age range straddles the minimum age: treated as adult".to_string()
+                "age range straddles the minimum age: treated as adult".into()
             }
-            Maturity::Unknown => "age not recorded: treated as adult".to_string(),
-            Maturity::Adult => String::new(),
+            Maturity::Unknown => "age not recorded: treated as adult".into(),
+            Maturity::Adult => "".into(),
         };
         IndividualEvidence {
             blocks,

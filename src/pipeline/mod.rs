@@ -98,7 +98,10 @@ pub fn read_bytes(
 /// reader's warnings, recorded evidence the model leaves out, and how many scored individuals
 /// are below the minimum age (their morphology is not used).
 pub fn input_notes(model: &Model, a: &Assemblage) -> Vec<String> {
-    let mut notes: Vec<String> = a.warnings.iter().map(ToString::to_string).collect();
+    let mut notes = crate::data::problem::shown_warnings(
+        &a.warnings,
+        crate::data::problem::WARNINGS_SHOWN_PER_KIND,
+    );
     notes.extend(model.unused_evidence(a));
     let n = model.scored_below_minimum_age(a);
     if n > 0 {

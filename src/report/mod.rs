@@ -108,6 +108,26 @@ impl CsvText {
     }
 }
 
+/// How many individuals a list meant for reading (the terminal summary, report.md, the page)
+/// names before it counts the rest: a choice of ours. A regional table of a million rows
+/// put 313 000 ids on one line of the summary and of report.md.
+pub const NAMED_AT_MOST: usize = 50;
+
+/// The first [`NAMED_AT_MOST`] items, then one more item counting the rest and saying
+/// where every one of them is (`rest_where`, e.g. "the `flags` column of individuals.csv").
+pub fn named_at_most(items: Vec<String>, rest_where: &str) -> Vec<String> {
+    let total = items.len();
+    if total <= NAMED_AT_MOST {
+        return items;
+    }
+    let mut shown: Vec<String> = items.into_iter().take(NAMED_AT_MOST).collect();
+    shown.push(format!(
+        "and {} more ({total} in all; {rest_where} marks every one)",
+        total - NAMED_AT_MOST
+    ));
+    shown
+}
+
 /// A header row from column names.
 pub fn header(names: &[&str]) -> Vec<String> {
     names.iter().map(|s| s.to_string()).collect()
@@ -116,6 +136,19 @@ pub fn header(names: &[&str]) -> Vec<String> {
 #[cfg(test)]
 mod tests {
     use super::*;
+
+    #[test]
+    fn long_lists_name_fifty_and_count_the_rest() {
+        let ids: Vec<String> = (0..120).map(|i| format!("B-{i}")).collect();
+        let shown = named_at_most(ids.clone(), "the `flags` column");
+        assert_eq!(shown.len(), NAMED_AT_MOST + 1);
+        assert_eq!(shown[49], "B-49");
+        assert_eq!(
+            shown[50],
+            "and 70 more (120 in all; the `flags` column marks every one)"
+        );
+        assert_eq!(named_at_most(ids[..50].to_vec(), "x"), ids[..50].to_vec());
+    }
 
     #[test]
     fn a_row_of_the_wrong_width_is_an_error_not_a_silent_gap() {

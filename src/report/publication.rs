@@ -305,7 +305,7 @@ fn traits_used(model: &Model, evidence: &[IndividualEvidence]) -> (BTreeSet<Stri
             if be.status != BlockStatus::Used {
                 continue;
             }
-            for t in &be.traits_used {
+            for t in be.traits_used.iter() {
                 if !used_traits.contains(t) {
                     used_traits.insert(t.clone());
                 }
@@ -694,10 +694,13 @@ pub fn report_md_and_tex(r: &AnalysisResult, files: &[String]) -> (String, Strin
     let a = &r.assemblage;
     if !a.warnings.is_empty() || !flagged.is_empty() {
         let _ = writeln!(m, "## Warnings\n");
-        for f in flagged {
+        for f in super::named_at_most(flagged.clone(), "the `flags` column of individuals.csv") {
             let _ = writeln!(m, "- {f}");
         }
-        for w in &a.warnings {
+        for w in crate::data::problem::shown_warnings(
+            &a.warnings,
+            crate::data::problem::WARNINGS_SHOWN_PER_KIND,
+        ) {
             let _ = writeln!(m, "- {w}");
         }
         let _ = writeln!(m);
@@ -888,7 +891,7 @@ fn categories_section(r: &AnalysisResult, m: &mut String, t: &mut String) {
     }
     let _ = writeln!(t, "\\bottomrule\n\\end{{tabular}}\n\\end{{table}}\n");
     // The categories and the verbal scale of the likelihood ratios measure different things.
-    let noted: Vec<&str> = r
+    let noted: Vec<String> = r
         .assemblage
         .individuals
         .iter()
@@ -904,7 +907,7 @@ fn categories_section(r: &AnalysisResult, m: &mut String, t: &mut String) {
                 )
                 .is_some()
         })
-        .map(|((i, _), _)| i.id.as_str())
+        .map(|((i, _), _)| i.id.clone())
         .collect();
     let _ = writeln!(
         m,
@@ -919,7 +922,8 @@ fn categories_section(r: &AnalysisResult, m: &mut String, t: &mut String) {
                     1 => "one individual".to_string(),
                     n => format!("{n} individuals"),
                 },
-                noted.join(", ")
+                super::named_at_most(noted.clone(), "the `category_note` column of individuals.csv")
+                    .join(", ")
             )
         }
     );
@@ -1005,7 +1009,8 @@ fn sensitivity_section(r: &AnalysisResult, m: &mut String, _tex: &mut String) {
             m,
             "{} individuals change category under some prior of the set: {}.\n",
             sens.len(),
-            sens.join(", ")
+            super::named_at_most(sens, "the `prior_sensitive` column of individuals.csv")
+                .join(", ")
         );
     }
 }

@@ -693,7 +693,7 @@ pub fn results_json(r: &AnalysisResult) -> Value {
         "categories": categories,
         "groups": groups,
         "sensitivity": sensitivity,
-        "flagged": r.flagged,
+        "flagged": crate::report::named_at_most(r.flagged.clone(), "the `flags` column of individuals.csv"),
         "individuals": individuals,
     })
 }

@@ -11,7 +11,7 @@ fn ev(ln_lr: Option<f64>) -> IndividualEvidence {
         error: 0.0,
         n_traits: usize::from(ln_lr.is_some()),
         estimable: ln_lr.is_some(),
-        note: String::new(),
+        note: "".into(),
     }
 }
 

@@ -23,3 +23,25 @@ fn printable_escapes_and_shortens() {
     assert_eq!(printable("a\tb"), "a\\tb");
     assert_eq!(printable(&"x".repeat(100)).chars().count(), 61);
 }
+
+#[test]
+fn warnings_beyond_the_shown_number_are_counted_by_kind() {
+    let w = |row, kind| Warning {
+        file: "a.csv".into(),
+        row: Some(row),
+        column: None,
+        kind,
+        message: "m".into(),
+    };
+    let mut all: Vec<Warning> = (2..30).map(|r| w(r, WarningKind::NoEvidence)).collect();
+    all.insert(5, w(7, WarningKind::SidesDisagree));
+    let lines = shown_warnings(&all, 3);
+    // 3 of each kind shown in their order, then one count per kind cut short.
+    assert_eq!(lines.len(), 3 + 1 + 1);
+    assert!(lines[..4].iter().any(|l| l.starts_with("a.csv, row 7")));
+    assert_eq!(
+        lines[4],
+        "a.csv: 25 more warnings of a row with no trait recorded on rows 5 to 29 are not shown (28 in all; `tessera check a.csv --format json` lists every one)"
+    );
+    assert_eq!(shown_warnings(&all, 100).len(), all.len());
+}
