@@ -60,6 +60,8 @@ pub struct RunInfo {
 pub struct BySex {
     /// Age at death by sex, when the input has ages.
     pub age: Option<AgeBySex>,
+    /// Life tables by sex, when the input has ages.
+    pub life_tables: Option<crate::summary::LifeTables>,
     /// Prevalence by sex of each condition column named.
     pub prevalence: Vec<PrevalenceBySex>,
     /// Age interval of each individual.

@@ -172,6 +172,8 @@ fn options_are_checked_before_anything_is_written() {
         vec!["--prior", "fixed:1.5"],
         vec!["--priors", "flat,nope"],
         vec!["--thresholds", "0.5,0.2,0.8,0.95"],
+        vec!["--life-table-classes", "18-25,30-40,40+"],
+        vec!["--life-table-classes", "18-30,25-40,40-50"],
     ] {
         let d = demo();
         let mut args = vec!["analyse", &d, "--out", out.to_str().unwrap()];
@@ -180,6 +182,26 @@ fn options_are_checked_before_anything_is_written() {
         assert_eq!(o.status.code(), Some(4), "{bad:?}: {}", stderr(&o));
         assert!(!out.exists(), "{bad:?} wrote output");
     }
+}
+
+#[test]
+fn a_bad_life_table_class_names_the_option_and_every_problem() {
+    let dir = tempfile::tempdir().unwrap();
+    let out = dir.path().join("r");
+    let d = demo();
+    let o = tessera(&[
+        "analyse",
+        &d,
+        "--out",
+        out.to_str().unwrap(),
+        "--life-table-classes",
+        "18-30,25-40,40-50",
+    ]);
+    let err = stderr(&o);
+    assert!(err.contains("life-table-classes"), "{err}");
+    assert!(err.contains("`18-30` and `25-40` overlap"), "{err}");
+    assert!(err.contains("the last class `40-50` is closed"), "{err}");
+    assert!(!out.exists());
 }
 
 /// Swapping F and M (every ln LR negated, the prior mirrored) mirrors every result.

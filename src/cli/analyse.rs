@@ -51,6 +51,10 @@ pub struct Args {
     /// individuals are assessed from DNA only (default: the model's, usually 18).
     #[arg(long, value_name = "YEARS")]
     pub minimum_age: Option<f64>,
+    /// Age classes of the life tables by sex (life_table.csv): from-to in years, each
+    /// starting where the one before ends, the last one open.
+    #[arg(long, value_name = "CLASSES", default_value = crate::summary::DEFAULT_LIFE_TABLE_CLASSES)]
+    pub life_table_classes: String,
     /// Seed of every random stream (same seed, same bytes).
     #[arg(long, default_value_t = 1)]
     pub seed: u64,
@@ -79,6 +83,7 @@ impl Args {
             shift: self.shift,
             iterations: self.iterations,
             minimum_age: self.minimum_age,
+            life_table_classes: self.life_table_classes.clone(),
             seed: self.seed,
             read: self.input.read_options(&self.groups),
         }

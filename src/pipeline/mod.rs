@@ -288,11 +288,17 @@ impl ValidatedOptions {
             .zip(&in_tables)
             .map(|(g, &t)| if t { *g } else { None })
             .collect();
+        let with_ages = table_ages.iter().any(Option::is_some);
         BySex {
-            age: table_ages
-                .iter()
-                .any(Option::is_some)
-                .then(|| age_by_sex(&table_ages, &draws.female, seed)),
+            age: with_ages.then(|| age_by_sex(&table_ages, &draws.female, seed)),
+            life_tables: with_ages.then(|| {
+                crate::summary::life_tables(
+                    &table_ages,
+                    &draws.female,
+                    &self.life_table_classes,
+                    seed,
+                )
+            }),
             prevalence,
             ages,
             left_out,

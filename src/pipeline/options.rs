@@ -238,6 +238,8 @@ pub struct AnalysisOptions {
     pub iterations: usize,
     /// Minimum age (years) from which skeletal evidence is used (default: the model's).
     pub minimum_age: Option<f64>,
+    /// Age classes of the life tables by sex (`18-25,25-35,35-50,50+`).
+    pub life_table_classes: String,
     /// Seed of every random stream.
     pub seed: u64,
     /// How to read the table.
@@ -257,6 +259,7 @@ impl Default for AnalysisOptions {
             shift: 1.0,
             iterations: 2000,
             minimum_age: None,
+            life_table_classes: crate::summary::DEFAULT_LIFE_TABLE_CLASSES.into(),
             seed: 1,
             read: ReadOptions::default(),
         }
@@ -286,6 +289,8 @@ pub struct ValidatedOptions {
     pub read: ReadSettings,
     /// Recalibration settings, when asked for.
     pub recalibration: Option<RecalibrationSettings>,
+    /// Age classes of the life tables.
+    pub life_table_classes: crate::summary::AgeClasses,
     /// The options as given.
     pub options: AnalysisOptions,
 }
@@ -360,6 +365,11 @@ impl AnalysisOptions {
                 "give from 1 up to 200 million individual-draws in all (found 0 draws)".to_string(),
             ));
         }
+        let life_table_classes = crate::summary::AgeClasses::parse(&self.life_table_classes)
+            .unwrap_or_else(|message| {
+                problems.push(OptionProblem::new("life-table-classes", message));
+                crate::summary::AgeClasses::default()
+            });
         let recalibration = self.recalibrate.then(|| RecalibrationSettings {
             shift: self.shift,
             iterations: self.iterations,
@@ -394,6 +404,7 @@ impl AnalysisOptions {
                 thresholds,
                 read,
                 recalibration,
+                life_table_classes,
                 options: self.clone(),
             }),
             _ => Err(Error::Options(OptionProblems(problems))),

@@ -98,6 +98,17 @@ pub const COLUMNS: &[Entry] = &[
     ("assemblage_draws.csv", "n_female", "females among the individuals in the draw", "individuals", COUNT),
     ("assemblage_draws.csv", "n_male", "males among the individuals in the draw", "individuals", COUNT),
     ("assemblage_draws.csv", "sex_ratio", "males per 100 females among the individuals in the draw", "males per 100 females", "0 or above; empty with no female"),
+    // life_table.csv
+    ("life_table.csv", "sex", "whose life table: female, male, or all (both sexes of the tables by sex)", "", "female | male | all"),
+    ("life_table.csv", "age_class", "age class as set by --life-table-classes (the last one open)", "", "text"),
+    ("life_table.csv", "age_from", "start of the class", "years", "≥ 0"),
+    ("life_table.csv", "age_to", "end of the class (not included); empty for the open last class", "years", "> age_from"),
+    ("life_table.csv", "quantity", "deaths (number in the class); dx (share of deaths, per cent); lx (survivors entering the class, per cent); qx (probability of dying in the class on entering it); Lx (years lived in the class per 100 entering the first); Tx (years lived from the class on); ex (mean years still to live on entering the class)", "", "deaths | dx | lx | qx | Lx | Tx | ex"),
+    ("life_table.csv", "estimate", "mean over the joint draws of sex and of age within its recorded interval: the table of these dead (ex of the open last class follows from closing it at the age in report.md)", "as the quantity says", "≥ 0"),
+    ("life_table.csv", "lo", "2.5% quantile over the draws: these dead, sex and age uncertain", "as estimate", "≥ 0"),
+    ("life_table.csv", "hi", "97.5% quantile over the draws: these dead", "as estimate", "≥ 0"),
+    ("life_table.csv", "population_lo", "2.5% quantile of the population's table, the sampling of the dead added (Bayesian bootstrap); empty for deaths", "as estimate", "≥ 0"),
+    ("life_table.csv", "population_hi", "97.5% quantile of the population's table; empty for deaths", "as estimate", "≥ 0"),
     // by_sex_age.csv, by_sex_prevalence.csv, category_by_age.csv
     ("by_sex_age.csv", "quantity", "what the row gives: mean_age_female, mean_age_male, difference_female_minus_male (years); p_females_die_younger (a probability, estimate only); females_aged_CLASS and males_aged_CLASS (numbers of individuals)", "", "text"),
     ("by_sex_age.csv", "estimate", "mean over the joint draws (the probability for p_females_die_younger)", "years, probability or individuals, as the quantity says", ANY),

@@ -190,6 +190,9 @@ pub fn by_sex_tables(r: &AnalysisResult) -> Result<OutputSet, RenderError> {
         }
         files.push("by_sex_prevalence.csv", csv_bytes(rows)?);
     }
+    if let Some(lt) = &by_sex.life_tables {
+        files.push("life_table.csv", life_table_csv(lt)?);
+    }
     let mut rows = vec![std::iter::once("age_class".to_string())
         .chain(Category::ALL.iter().map(|c| c.as_str().to_string()))
         .collect::<Vec<_>>()];
@@ -202,6 +205,63 @@ pub fn by_sex_tables(r: &AnalysisResult) -> Result<OutputSet, RenderError> {
     }
     files.push("category_by_age.csv", csv_bytes(rows)?);
     Ok(files)
+}
+
+/// `life_table.csv`, tidy: one row per sex, age class and quantity (deaths, dx, lx, qx, Lx,
+/// Tx, ex) with its mean over the joint draws, its 95% interval for these dead and its 95%
+/// interval for the population (empty for deaths, a count of these dead only).
+fn life_table_csv(lt: &crate::summary::LifeTables) -> Result<Vec<u8>, RenderError> {
+    let mut rows = vec![header(&[
+        "sex",
+        "age_class",
+        "age_from",
+        "age_to",
+        "quantity",
+        "estimate",
+        "lo",
+        "hi",
+        "population_lo",
+        "population_hi",
+    ])];
+    let c3 = |x: f64| super::number::cell(x, 3);
+    for (sex, table) in [("female", &lt.female), ("male", &lt.male), ("all", &lt.all)] {
+        for row in table {
+            let (d, dlo, dhi) = row.deaths;
+            let deaths = crate::summary::life_table::Quantity {
+                estimate: d,
+                lo: dlo,
+                hi: dhi,
+                population_lo: f64::NAN,
+                population_hi: f64::NAN,
+            };
+            for (q, v) in [
+                ("deaths", deaths),
+                ("dx", row.dx),
+                ("lx", row.lx),
+                ("qx", row.qx),
+                ("Lx", row.big_lx),
+                ("Tx", row.tx),
+                ("ex", row.ex),
+            ] {
+                rows.push(vec![
+                    sex.to_string(),
+                    row.class.label.clone(),
+                    super::number::cell(row.class.from, 1),
+                    row.class
+                        .to
+                        .map(|t| super::number::cell(t, 1))
+                        .unwrap_or_default(),
+                    q.to_string(),
+                    c3(v.estimate),
+                    c3(v.lo),
+                    c3(v.hi),
+                    c3(v.population_lo),
+                    c3(v.population_hi),
+                ]);
+            }
+        }
+    }
+    csv_bytes(rows)
 }
 
 /// The figures (SVG).
@@ -411,6 +471,16 @@ pub fn references_used(
     }
     refs.push(citations::work("Bruzek et al. 2017"));
     refs.push(citations::work("ENFSI 2015"));
+    if by_sex.age.is_some() && by_sex.life_tables.is_some() {
+        for key in [
+            "Chiang 1984",
+            "Acsádi & Nemeskéri 1970",
+            "Rubin 1981",
+            "Wood et al. 1992",
+        ] {
+            refs.push(citations::work(key));
+        }
+    }
     if !by_sex.prevalence.is_empty() {
         refs.push(citations::work("Tanner & Wong 1987"));
         refs.push(citations::work("Gelman et al. 2013"));
@@ -575,7 +645,10 @@ pub fn methods_md(r: &AnalysisResult) -> String {
         let _ = write!(
             s,
             "Analyses by sex left out individuals without evidence of sex and subadults (counted beside each table){}{}. ",
-            if by_sex.age.is_some() { format!("; age at death by sex was computed over {} joint posterior draws of every individual's sex, so that uncertainty in sex is carried into it", draws.mu.len()) } else { String::new() },
+            if by_sex.age.is_some() { format!("; age at death by sex was computed over {} joint posterior draws of every individual's sex, so that uncertainty in sex is carried into it{}", draws.mu.len(), match &by_sex.life_tables {
+                Some(lt) => format!(", and so were abridged life tables by sex (classes {}; deaths evenly spread within classes, the open last class closed at {} years; Chiang, 1984; Acsádi & Nemeskéri, 1970), with intervals for the population's table from a Bayesian bootstrap of the dead (Rubin, 1981), which assumes them a fair sample of the deaths of a stationary population (Wood et al., 1992)", lt.classes.0.iter().map(|c| c.label.as_str()).collect::<Vec<_>>().join(", "), crate::report::number::short(lt.open_end, 1)),
+                None => String::new(),
+            }) } else { String::new() },
             if by_sex.prevalence.is_empty() { String::new() } else { let chain = crate::summary::ChainLength::default_with_seed(run.seed); format!(
                 "; the prevalence of {} by sex was estimated from the joint posterior of every individual's sex and the two prevalences (uniform priors), by Gibbs sampling with data augmentation (Tanner & Wong, 1987), so that the condition informs each sex and the comparison is not diluted toward no difference; {} chains of {} kept draws each were checked by split-R-hat and effective sample size (Gelman et al., 2013)",
                 by_sex.prevalence.iter().map(|p| p.column.replace('_', " ")).collect::<Vec<_>>().join(", "),
@@ -711,6 +784,7 @@ pub fn report_md_and_tex(r: &AnalysisResult, files: &[String]) -> (String, Strin
         sensitivity_section,
         groups_section,
         age_section,
+        life_table_section,
         prevalence_section,
         recalibration_section,
     ] {
@@ -1097,6 +1171,71 @@ fn age_section(r: &AnalysisResult, m: &mut String, t: &mut String) {
         let _ = writeln!(t, "\\bottomrule\n\\end{{tabular}}\n\\end{{table}}\n");
         let _ = writeln!(m);
     }
+}
+
+/// The life tables by sex: per class, the deaths, qx and ex of each sex with their intervals.
+fn life_table_section(r: &AnalysisResult, m: &mut String, t: &mut String) {
+    let by_sex = &r.by_sex;
+    let Some(lt) = &by_sex.life_tables else {
+        return;
+    };
+    let first = lt.classes.0.first().map(|c| c.from).unwrap_or_default();
+    let last = lt.classes.0.last().map(|c| c.from).unwrap_or_default();
+    let _ = writeln!(
+        m,
+        "## Life tables by sex
+
+Abridged life tables (radix 100) over the joint draws of sex and of each age within its recorded interval ({} individuals with evidence of sex and a recorded age{}). Deaths are counts among these dead (mean and 95% interval over the draws); qx and ex are given with the 95% interval of the population's table, which adds the sampling of the dead (Bayesian bootstrap, Rubin, 1981) and assumes, as palaeodemography does, that they are a fair sample of the deaths of a stationary population (see Wood et al., 1992). Deaths are taken as evenly spread within each class; the open last class is closed at {} years for its years lived, so its ex, {} years, is that assumption and not a finding. Every quantity, with both intervals, is in life_table.csv.\n",
+        lt.n_with_age,
+        left_out_clause(by_sex),
+        crate::report::number::short(lt.open_end, 1),
+        crate::report::number::short((lt.open_end - last) / 2.0, 1),
+    );
+    if lt.below_first_class > 0.0 {
+        let _ = writeln!(
+            m,
+            "{} individuals per draw on average have an age below {} years, where the tables start, and are not in them.\n",
+            f1(lt.below_first_class),
+            crate::report::number::short(first, 1)
+        );
+    }
+    let _ = writeln!(
+        m,
+        "| age class | female deaths | female qx | female ex (years) | male deaths | male qx | male ex (years) |\n|---|---|---|---|---|---|---|"
+    );
+    let _ = writeln!(t, "\\begin{{table}}\n\\centering\n\\caption{{Life tables by sex over the joint posterior draws: deaths, probability of dying in the class ($q_x$) and mean years still to live ($e_x$); deaths with their 95\\% interval among these dead, $q_x$ and $e_x$ with the 95\\% interval of the population's table (Bayesian bootstrap). The $e_x$ of the open last class follows from closing it at {} years.}}\n\\begin{{tabular}}{{lrrrrrr}}\n\\toprule\nAge class & Female deaths & Female $q_x$ & Female $e_x$ & Male deaths & Male $q_x$ & Male $e_x$ \\\\\n\\midrule", crate::report::number::short(lt.open_end, 1));
+    let count = |v: (f64, f64, f64)| format!("{:.1} ({:.0} to {:.0})", v.0, v.1, v.2);
+    // The population's interval: what a paper says of the community, not only of these dead.
+    let with = |v: crate::summary::life_table::Quantity, f: fn(f64) -> String| {
+        if v.estimate.is_finite() {
+            format!(
+                "{} ({})",
+                f(v.estimate),
+                range(v.population_lo, v.population_hi, f)
+            )
+        } else {
+            "—".to_string()
+        }
+    };
+    for (fc, mc) in lt.female.iter().zip(&lt.male) {
+        let cells = [
+            count(fc.deaths),
+            with(fc.qx, f3),
+            with(fc.ex, f1),
+            count(mc.deaths),
+            with(mc.qx, f3),
+            with(mc.ex, f1),
+        ];
+        let _ = writeln!(m, "| {} | {} |", fc.class.label, cells.join(" | "));
+        let _ = writeln!(
+            t,
+            "{} & {} \\\\",
+            tex(&fc.class.label),
+            cells.iter().map(|c| tex(c)).collect::<Vec<_>>().join(" & ")
+        );
+    }
+    let _ = writeln!(t, "\\bottomrule\n\\end{{tabular}}\n\\end{{table}}\n");
+    let _ = writeln!(m);
 }
 
 /// "; left out and counted beside: 3 individuals without evidence of sex", or nothing.

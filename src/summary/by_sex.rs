@@ -30,8 +30,8 @@ pub fn age_interval(age: Option<AgeAtDeath>, adult_from: f64) -> Option<(f64, f6
     }
 }
 
-/// Mean, 2.5% and 97.5% quantiles of a sample.
-fn spread(v: &[f64]) -> (f64, f64, f64) {
+/// Mean, 2.5% and 97.5% quantiles of a sample (its finite values).
+pub(super) fn spread(v: &[f64]) -> (f64, f64, f64) {
     let mut s: Vec<f64> = v.iter().copied().filter(|x| x.is_finite()).collect();
     if s.is_empty() {
         return (f64::NAN, f64::NAN, f64::NAN);

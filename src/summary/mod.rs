@@ -7,10 +7,12 @@
 //! have it).
 
 pub mod by_sex;
+pub mod life_table;
 pub mod prevalence;
 
 pub use by_sex::{
     age_by_sex, category_by_age, condition_column, AgeBySex, AgeClassRow, AGE_CLASSES,
     OPEN_CLASS_END,
 };
+pub use life_table::{life_tables, AgeClasses, LifeTables, DEFAULT_LIFE_TABLE_CLASSES};
 pub use prevalence::{prevalence_by_sex, ChainLength, PrevalenceBySex, SexEvidence, SexRatioPrior};
