@@ -549,6 +549,106 @@ pub fn age_figure(age: &AgeBySex) -> Result<String, FigureError> {
     Ok(s)
 }
 
+/// Survivorship by sex: lx (per cent entering each class) at the start of every age class,
+/// and 0 where the open last class is closed; the mean over the draws as a line with markers,
+/// the population's 95% interval as thin dotted lines of the same grey.
+///
+/// # Errors
+/// [`FigureError`] when plotting fails.
+pub fn survivorship_figure(lt: &crate::summary::LifeTables) -> Result<String, FigureError> {
+    register_font();
+    let name = "survivorship";
+    let x_end = lt.open_end;
+    let x_start = lt.classes.0.first().map_or(0.0, |c| c.from);
+    let mut s = String::new();
+    {
+        let root = SVGBackend::with_string(&mut s, (800, 420)).into_drawing_area();
+        root.fill(&WHITE).map_err(fail(name))?;
+        let (chart, legend) = root.split_horizontally(800 - LEGEND_WIDTH);
+        let mut c = ChartBuilder::on(&chart)
+            .caption(
+                "Survivorship by sex (lx; mean over joint draws, population 95% interval)",
+                ("sans-serif", 16),
+            )
+            .margin(12)
+            .x_label_area_size(40)
+            .y_label_area_size(50)
+            .build_cartesian_2d(x_start..x_end, 0f64..105.0)
+            .map_err(fail(name))?;
+        c.configure_mesh()
+            .light_line_style(TRANSPARENT)
+            .bold_line_style(RGBColor(215, 215, 215))
+            .x_desc("age (years)")
+            .y_desc("survivors entering the class (per cent)")
+            .x_label_formatter(&|v| tick(*v))
+            .y_label_formatter(&|v| tick(*v))
+            .draw()
+            .map_err(fail(name))?;
+        let mut entries = Vec::new();
+        for (table, label, look, shape) in [
+            (
+                &lt.female,
+                "female",
+                Look::Line(RGBColor(120, 120, 120), 2, None),
+                Shape::Dot,
+            ),
+            (
+                &lt.male,
+                "male",
+                Look::Line(BLACK, 2, Some((6, 4))),
+                Shape::Triangle,
+            ),
+        ] {
+            let Look::Line(grey, width, dash) = look else {
+                continue;
+            };
+            let at = |q: fn(&crate::summary::life_table::Quantity) -> f64| -> Vec<(f64, f64)> {
+                table
+                    .iter()
+                    .map(|r| (r.class.from, q(&r.lx)))
+                    .chain(std::iter::once((x_end, 0.0)))
+                    .filter(|p| p.1.is_finite())
+                    .collect()
+            };
+            let line = at(|q| q.estimate);
+            match dash {
+                None => c
+                    .draw_series(std::iter::once(PathElement::new(
+                        line.clone(),
+                        grey.stroke_width(width),
+                    )))
+                    .map(|_| ()),
+                Some((d, g)) => c
+                    .draw_series(std::iter::once(plotters::element::DashedPathElement::new(
+                        line.clone(),
+                        d,
+                        g,
+                        grey.stroke_width(width),
+                    )))
+                    .map(|_| ()),
+            }
+            .map_err(fail(name))?;
+            c.draw_series(line.iter().map(|&p| marker(grey, shape, p)))
+                .map_err(fail(name))?;
+            let band = Look::Line(grey, 1, Some((2, 3)));
+            for bound in [at(|q| q.population_lo), at(|q| q.population_hi)] {
+                c.draw_series(std::iter::once(plotters::element::DashedPathElement::new(
+                    bound,
+                    2,
+                    3,
+                    grey.stroke_width(1),
+                )))
+                .map_err(fail(name))?;
+            }
+            entries.push((label.to_string(), look));
+            entries.push((format!("{label}, 95%"), band));
+        }
+        draw_legend(&legend, &entries, name)?;
+        root.present().map_err(fail(name))?;
+    }
+    Ok(s)
+}
+
 /// Reliability of predicted probabilities: for each bin of P(female), the share of
 /// documented females (dots, with 95% Wilson intervals as bars) against the mean predicted
 /// P(female); the dashed diagonal is perfect calibration. `bins` holds

@@ -340,6 +340,12 @@ pub fn figures_svg(r: &AnalysisResult) -> Result<OutputSet, RenderError> {
     if let Some(age) = &by_sex.age {
         out.push("figures/age_at_death.svg", figures::age_figure(age)?);
     }
+    if let Some(lt) = &by_sex.life_tables {
+        out.push(
+            "figures/survivorship.svg",
+            figures::survivorship_figure(lt)?,
+        );
+    }
     // A PNG beside every SVG, for word processors and journals that take raster images.
     let pngs: Vec<(String, Vec<u8>)> = out
         .files
@@ -796,6 +802,7 @@ pub fn report_md_and_tex(r: &AnalysisResult, files: &[String]) -> (String, Strin
         ("figures/pi_posterior.png", "Posterior of the proportion female of the assemblage (as one population) under each prior that is not fixed."),
         ("figures/lr_by_region.png", "log10 likelihood ratio of each body region for each individual with usable evidence."),
         ("figures/age_at_death.png", "Age at death by sex over the joint posterior draws."),
+        ("figures/survivorship.png", "Survivorship (lx, per cent entering each age class) by sex over the joint posterior draws, with the 95% interval of the population's table (dotted)."),
     ];
     let shown: Vec<&(&str, &str)> = captions
         .iter()
