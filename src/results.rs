@@ -62,6 +62,9 @@ pub struct BySex {
     pub age: Option<AgeBySex>,
     /// Life tables by sex, when the input has ages.
     pub life_tables: Option<crate::summary::LifeTables>,
+    /// The sex ratio of the assemblage and of each group against the reference (none under a
+    /// fixed prior).
+    pub sex_ratio: Vec<crate::summary::SexRatioTest>,
     /// Prevalence by sex of each condition column named.
     pub prevalence: Vec<PrevalenceBySex>,
     /// Age interval of each individual.

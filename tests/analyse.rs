@@ -174,6 +174,8 @@ fn options_are_checked_before_anything_is_written() {
         vec!["--thresholds", "0.5,0.2,0.8,0.95"],
         vec!["--life-table-classes", "18-25,30-40,40+"],
         vec!["--life-table-classes", "18-30,25-40,40-50"],
+        vec!["--reference-ratio", "0"],
+        vec!["--reference-ratio=-105"],
     ] {
         let d = demo();
         let mut args = vec!["analyse", &d, "--out", out.to_str().unwrap()];

@@ -55,6 +55,10 @@ pub struct Args {
     /// starting where the one before ends, the last one open.
     #[arg(long, value_name = "CLASSES", default_value = crate::summary::DEFAULT_LIFE_TABLE_CLASSES)]
     pub life_table_classes: String,
+    /// The sex ratio, in males per 100 females, that the population's (and each group's) is
+    /// compared with (sex_ratio.csv); 105 is the usual ratio at birth.
+    #[arg(long, value_name = "MALES_PER_100_FEMALES", default_value_t = crate::summary::DEFAULT_REFERENCE_RATIO)]
+    pub reference_ratio: f64,
     /// Seed of every random stream (same seed, same bytes).
     #[arg(long, default_value_t = 1)]
     pub seed: u64,
@@ -84,6 +88,7 @@ impl Args {
             iterations: self.iterations,
             minimum_age: self.minimum_age,
             life_table_classes: self.life_table_classes.clone(),
+            reference_ratio: self.reference_ratio,
             seed: self.seed,
             read: self.input.read_options(&self.groups),
         }

@@ -289,6 +289,14 @@ impl ValidatedOptions {
             .map(|(g, &t)| if t { *g } else { None })
             .collect();
         let with_ages = table_ages.iter().any(Option::is_some);
+        let groups: Vec<Option<&str>> = a.individuals.iter().map(|i| i.group.as_deref()).collect();
+        let sex_ratio = crate::summary::sex_ratio_tests(
+            &results.fitted.ln_lrs,
+            &estimable,
+            &groups,
+            &self.prior,
+            self.options.reference_ratio,
+        );
         BySex {
             age: with_ages.then(|| age_by_sex(&table_ages, &draws.female, seed)),
             life_tables: with_ages.then(|| {
@@ -299,6 +307,7 @@ impl ValidatedOptions {
                     seed,
                 )
             }),
+            sex_ratio,
             prevalence,
             ages,
             left_out,

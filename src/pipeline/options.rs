@@ -240,6 +240,8 @@ pub struct AnalysisOptions {
     pub minimum_age: Option<f64>,
     /// Age classes of the life tables by sex (`18-25,25-35,35-50,50+`).
     pub life_table_classes: String,
+    /// The sex ratio (males per 100 females) the population's is compared with.
+    pub reference_ratio: f64,
     /// Seed of every random stream.
     pub seed: u64,
     /// How to read the table.
@@ -260,6 +262,7 @@ impl Default for AnalysisOptions {
             iterations: 2000,
             minimum_age: None,
             life_table_classes: crate::summary::DEFAULT_LIFE_TABLE_CLASSES.into(),
+            reference_ratio: crate::summary::DEFAULT_REFERENCE_RATIO,
             seed: 1,
             read: ReadOptions::default(),
         }
@@ -370,6 +373,15 @@ impl AnalysisOptions {
                 problems.push(OptionProblem::new("life-table-classes", message));
                 crate::summary::AgeClasses::default()
             });
+        if !(self.reference_ratio.is_finite() && self.reference_ratio > 0.0) {
+            problems.push(OptionProblem::new(
+                "reference-ratio",
+                format!(
+                    "a sex ratio in males per 100 females, above 0 (105 is the usual ratio at birth); found {}",
+                    self.reference_ratio
+                ),
+            ));
+        }
         let recalibration = self.recalibrate.then(|| RecalibrationSettings {
             shift: self.shift,
             iterations: self.iterations,

@@ -624,6 +624,31 @@ pub fn terminal_summary(r: &AnalysisResult) -> String {
             }
         }
     }
+    if let Some(first) = r.by_sex.sex_ratio.first() {
+        let _ = writeln!(s);
+        let _ = writeln!(
+            s,
+            "Against a reference of {} males per 100 females (each group on its own; sex_ratio.csv):",
+            super::number::short(first.reference, 1)
+        );
+        let _ = writeln!(
+            s,
+            "  {:<14} {:>5}   males per 100 females (95% interval)   P(more males)   log10 BF reference:any",
+            "", "n"
+        );
+        for x in &r.by_sex.sex_ratio {
+            let ratio = format!("{:.0} ({:.0} to {:.0})", x.median, x.lo, x.hi);
+            let _ = writeln!(
+                s,
+                "  {:<14} {:>5}   {:<36}   {:<13.3}   {:>6.2}",
+                x.group.as_deref().unwrap_or("all"),
+                x.n,
+                ratio,
+                x.p_more_males,
+                x.ln_bf_reference / LN_10
+            );
+        }
+    }
     let _ = writeln!(s);
     let t = &analysis.thresholds;
     let _ = writeln!(

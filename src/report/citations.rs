@@ -48,6 +48,8 @@ const FULL_REFERENCES: &[(&str, &str)] = &[
     // From memory.
     ("Tanner & Wong 1987", "Tanner, M. A., & Wong, W. H. (1987). The calculation of posterior distributions by data augmentation. Journal of the American Statistical Association, 82, 528–540."),
     // From memory.
+    // From memory (the sex ratio against a reference).
+    ("Kass & Raftery 1995", "Kass, R. E., & Raftery, A. E. (1995). Bayes factors. Journal of the American Statistical Association, 90, 773–795."),
     // From memory (the life tables by sex).
     ("Chiang 1984", "Chiang, C. L. (1984). The life table and its applications. Malabar, FL: Krieger."),
     ("Acsádi & Nemeskéri 1970", "Acsádi, G., & Nemeskéri, J. (1970). History of human life span and mortality. Budapest: Akadémiai Kiadó."),

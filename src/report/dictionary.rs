@@ -98,6 +98,16 @@ pub const COLUMNS: &[Entry] = &[
     ("assemblage_draws.csv", "n_female", "females among the individuals in the draw", "individuals", COUNT),
     ("assemblage_draws.csv", "n_male", "males among the individuals in the draw", "individuals", COUNT),
     ("assemblage_draws.csv", "sex_ratio", "males per 100 females among the individuals in the draw", "males per 100 females", "0 or above; empty with no female"),
+    // sex_ratio.csv
+    ("sex_ratio.csv", "group", "`all` for the whole assemblage, else the group (each taken on its own)", "", "text"),
+    ("sex_ratio.csv", "n", "individuals", "individuals", COUNT),
+    ("sex_ratio.csv", "n_estimable", "individuals with usable evidence of sex (DNA alone counts)", "individuals", COUNT),
+    ("sex_ratio.csv", "reference_ratio", "the reference sex ratio (--reference-ratio; 105, the usual ratio at birth, unless set)", "males per 100 females", "> 0"),
+    ("sex_ratio.csv", "sex_ratio_median", "posterior median of the population's sex ratio under the chosen prior", "males per 100 females", "≥ 0"),
+    ("sex_ratio.csv", "sex_ratio_lo", "2.5% posterior quantile", "males per 100 females", "≥ 0"),
+    ("sex_ratio.csv", "sex_ratio_hi", "97.5% posterior quantile", "males per 100 females", "≥ 0"),
+    ("sex_ratio.csv", "p_more_males_than_reference", "posterior probability that the ratio is above the reference", "probability", P),
+    ("sex_ratio.csv", "log10_bf_reference", "log10 Bayes factor of \"the ratio is the reference\" against \"any ratio, as the prior allows\" (positive favours the reference)", "log10", ANY),
     // life_table.csv
     ("life_table.csv", "sex", "whose life table: female, male, or all (both sexes of the tables by sex)", "", "female | male | all"),
     ("life_table.csv", "age_class", "age class as set by --life-table-classes (the last one open)", "", "text"),

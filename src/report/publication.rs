@@ -193,6 +193,33 @@ pub fn by_sex_tables(r: &AnalysisResult) -> Result<OutputSet, RenderError> {
     if let Some(lt) = &by_sex.life_tables {
         files.push("life_table.csv", life_table_csv(lt)?);
     }
+    if !by_sex.sex_ratio.is_empty() {
+        let mut rows = vec![header(&[
+            "group",
+            "n",
+            "n_estimable",
+            "reference_ratio",
+            "sex_ratio_median",
+            "sex_ratio_lo",
+            "sex_ratio_hi",
+            "p_more_males_than_reference",
+            "log10_bf_reference",
+        ])];
+        for x in &by_sex.sex_ratio {
+            rows.push(vec![
+                x.group.clone().unwrap_or_else(|| "all".into()),
+                x.n.to_string(),
+                x.n_estimable.to_string(),
+                super::number::cell(x.reference, 1),
+                super::number::cell(x.median, 1),
+                super::number::cell(x.lo, 1),
+                super::number::cell(x.hi, 1),
+                c3(x.p_more_males),
+                c3(x.ln_bf_reference / std::f64::consts::LN_10),
+            ]);
+        }
+        files.push("sex_ratio.csv", csv_bytes(rows)?);
+    }
     let mut rows = vec![std::iter::once("age_class".to_string())
         .chain(Category::ALL.iter().map(|c| c.as_str().to_string()))
         .collect::<Vec<_>>()];
@@ -477,6 +504,9 @@ pub fn references_used(
     }
     refs.push(citations::work("Bruzek et al. 2017"));
     refs.push(citations::work("ENFSI 2015"));
+    if !by_sex.sex_ratio.is_empty() {
+        refs.push(citations::work("Kass & Raftery 1995"));
+    }
     if by_sex.age.is_some() && by_sex.life_tables.is_some() {
         for key in [
             "Chiang 1984",
@@ -663,6 +693,14 @@ pub fn methods_md(r: &AnalysisResult) -> String {
             ) }
         );
     }
+    if let Some(x) = by_sex.sex_ratio.first() {
+        let _ = write!(
+            s,
+            "The sex ratio of the population behind the assemblage{}, with individuals sexed by DNA alone counted like any other, was compared with a reference of {} males per 100 females by its posterior and by the Bayes factor of the reference ratio against the prior's (Kass & Raftery, 1995). ",
+            if by_sex.sex_ratio.len() > 1 { ", and behind each group taken on its own" } else { "" },
+            crate::report::number::short(x.reference, 1)
+        );
+    }
     if let Some(rc) = &r.recalibration {
         let _ = write!(s, "{}", recalibration_sentences(r, rc));
     }
@@ -789,6 +827,7 @@ pub fn report_md_and_tex(r: &AnalysisResult, files: &[String]) -> (String, Strin
         categories_section,
         sensitivity_section,
         groups_section,
+        sex_ratio_section,
         age_section,
         life_table_section,
         prevalence_section,
@@ -1178,6 +1217,53 @@ fn age_section(r: &AnalysisResult, m: &mut String, t: &mut String) {
         let _ = writeln!(t, "\\bottomrule\n\\end{{tabular}}\n\\end{{table}}\n");
         let _ = writeln!(m);
     }
+}
+
+/// The sex ratio of the assemblage and of each group against the reference.
+fn sex_ratio_section(r: &AnalysisResult, m: &mut String, t: &mut String) {
+    let tests = &r.by_sex.sex_ratio;
+    let Some(first) = tests.first() else {
+        return;
+    };
+    let reference = crate::report::number::short(first.reference, 1);
+    let _ = writeln!(
+        m,
+        "## Sex ratio against a reference\n\nThe sex ratio of the population behind the assemblage, and behind each group taken on its own, against a reference of {reference} males per 100 females, under the {} prior. The Bayes factor weighs \"the ratio is the reference\" against \"any ratio, as the prior allows\" (Kass & Raftery, 1995); individuals sexed by DNA alone count like any other.\n\n| group | n | with evidence | males per 100 females | 95% interval | P(more males than the reference) | log10 Bayes factor | in words |\n|---|---|---|---|---|---|---|---|",
+        md(&r.results.main.prior.name)
+    );
+    let _ = writeln!(t, "\\begin{{table}}\n\\centering\n\\caption{{Sex ratio (males per 100 females) against a reference of {reference}: posterior median, 95\\% interval, probability of more males than the reference and log$_{{10}}$ Bayes factor of the reference ratio against the prior's.}}\n\\begin{{tabular}}{{lrrrrr}}\n\\toprule\nGroup & n & Ratio & 95\\% interval & P(more males) & log$_{{10}}$ BF \\\\\n\\midrule");
+    for x in tests {
+        let name = x.group.as_deref().unwrap_or("all");
+        let words = crate::report::number::bayes_factor_words(
+            x.ln_bf_reference,
+            "the ratio is the reference",
+            "it is another",
+        );
+        let _ = writeln!(
+            m,
+            "| {} | {} | {} | {:.0} | {} | {} | {} | {words} |",
+            md(name),
+            x.n,
+            x.n_estimable,
+            x.median,
+            range(x.lo, x.hi, |v| format!("{v:.0}")),
+            f3(x.p_more_males),
+            crate::report::number::text(x.ln_bf_reference / LN_10, 2)
+        );
+        let _ = writeln!(
+            t,
+            "{} & {} & {:.0} & {:.0} to {:.0} & {} & {} \\\\",
+            tex(name),
+            x.n,
+            x.median,
+            x.lo,
+            x.hi,
+            f3(x.p_more_males),
+            crate::report::number::latex(x.ln_bf_reference / LN_10, 2)
+        );
+    }
+    let _ = writeln!(t, "\\bottomrule\n\\end{{tabular}}\n\\end{{table}}\n");
+    let _ = writeln!(m);
 }
 
 /// The life tables by sex: per class, the deaths, qx and ex of each sex with their intervals.

@@ -9,6 +9,7 @@
 pub mod by_sex;
 pub mod life_table;
 pub mod prevalence;
+pub mod sex_ratio;
 
 pub use by_sex::{
     age_by_sex, category_by_age, condition_column, AgeBySex, AgeClassRow, AGE_CLASSES,
@@ -16,3 +17,4 @@ pub use by_sex::{
 };
 pub use life_table::{life_tables, AgeClasses, LifeTables, DEFAULT_LIFE_TABLE_CLASSES};
 pub use prevalence::{prevalence_by_sex, ChainLength, PrevalenceBySex, SexEvidence, SexRatioPrior};
+pub use sex_ratio::{sex_ratio_tests, SexRatioTest, DEFAULT_REFERENCE_RATIO};
