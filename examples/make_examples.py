@@ -2,7 +2,7 @@
 that the story needs. Everything here is invented (see examples/README.md).
 
 Run from the repository root after `cargo build --release`:
-    python3 examples/make_examples.py [mirefold|brackenmere|saltmarsh|infants ...]
+    python3 examples/make_examples.py [mirefold|stature|brackenmere|saltmarsh|infants ...]
 """
 import csv
 import random
@@ -72,6 +72,28 @@ def mirefold():
         w.writerows(truth)
 
 
+def stature():
+    """Add `stature_cm` to mirefold.csv: an invented living stature (cm) as a lab would
+    estimate it from long bones, for comparing a measurement between the sexes. Drawn from the
+    simulated truth (females about 158 ± 5, males 169 ± 6), missing where no long bone would
+    survive (about a third), blank for subadults. Run after `mirefold` (or alone on the file)."""
+    rnd = random.Random(1858)
+    with open("examples/mirefold-truth.csv", newline="") as f:
+        truth = {r["id"]: r["true_sex"] for r in csv.DictReader(f)}
+    with open("examples/mirefold.csv", newline="") as f:
+        rows = list(csv.DictReader(f))
+    for r in rows:
+        adult = not any(r["age"].startswith(p) for p in ("0-", "1-", "2-", "3-", "4-", "5-", "6-", "7-", "8-", "9-", "10-", "11-", "12-", "13-", "14-", "15-"))
+        lost = rnd.random() < 0.33
+        mean, sd = (158.0, 5.0) if truth.get(r["id"]) == "F" else (169.0, 6.0)
+        value = rnd.gauss(mean, sd)
+        r["stature_cm"] = f"{value:.1f}" if adult and not lost else ""
+    with open("examples/mirefold.csv", "w", newline="") as f:
+        w = csv.DictWriter(f, fieldnames=list(rows[0].keys()), lineterminator="\n")
+        w.writeheader()
+        w.writerows(rows)
+
+
 def brackenmere():
     rows = simulate("/tmp/brackenmere-sim.csv", "house:32:1.0", 31, missing="cranium=0.3,pelvis=0.4,postcranial=0.3,dental=0.5,trait=0.15,range=0.05")
     with open("examples/brackenmere.csv", "w", newline="") as f:
@@ -128,6 +150,6 @@ if __name__ == "__main__":
     # and Saltmarsh tables were drawn by an earlier `tessera simulate`; today's draws differ, so
     # rebuilding them changes the demo (and every example in README built on it).
     import sys
-    chosen = sys.argv[1:] or ["mirefold", "brackenmere", "saltmarsh", "infants"]
+    chosen = sys.argv[1:] or ["mirefold", "stature", "brackenmere", "saltmarsh", "infants"]
     for name in chosen:
-        {"mirefold": mirefold, "brackenmere": brackenmere, "saltmarsh": saltmarsh, "infants": infants}[name]()
+        {"mirefold": mirefold, "stature": stature, "brackenmere": brackenmere, "saltmarsh": saltmarsh, "infants": infants}[name]()

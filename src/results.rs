@@ -67,6 +67,8 @@ pub struct BySex {
     pub sex_ratio: Vec<crate::summary::SexRatioTest>,
     /// Prevalence by sex of each condition column named.
     pub prevalence: Vec<PrevalenceBySex>,
+    /// Each numeric column named (a measurement, a score, a grade) by sex.
+    pub numeric: Vec<crate::summary::NumericBySex>,
     /// Age interval of each individual.
     pub ages: Vec<Option<(f64, f64)>>,
     /// Who the tables by sex leave out (counted beside them, never sexed in them).

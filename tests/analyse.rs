@@ -68,7 +68,7 @@ fn the_demo_gives_four_files_with_the_documented_columns() {
     assert_eq!(&ind[..fixed.len()], fixed);
     assert_eq!(
         &ind[fixed.len()..],
-        ["zone", "cribra_orbitalia", "grave_goods"],
+        ["zone", "cribra_orbitalia", "grave_goods", "stature_cm"],
         "carried columns (phase is the group)"
     );
     assert_eq!(

@@ -48,7 +48,13 @@ fn the_ledger_of_the_demo_has_the_documented_columns() {
     );
     assert_eq!(
         &h[12..],
-        ["phase", "zone", "cribra_orbitalia", "grave_goods"]
+        [
+            "phase",
+            "zone",
+            "cribra_orbitalia",
+            "grave_goods",
+            "stature_cm"
+        ]
     );
     // 75 individuals × (5 blocks + total).
     assert_eq!(rows.len(), 75 * 6);

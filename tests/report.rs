@@ -174,6 +174,55 @@ fn outcome_columns_must_be_zero_or_one_and_never_traits() {
 }
 
 #[test]
+fn a_numeric_outcome_with_a_text_cell_is_refused_with_its_row_and_column() {
+    let dir = tempfile::tempdir().unwrap();
+    let input = dir.path().join("t.csv");
+    std::fs::write(
+        &input,
+        "id,glabella,stature,age\nA,2,158.5,30\nB,5,tall,40\nC,4,171,35\nD,1,,30\n",
+    )
+    .unwrap();
+    let out = dir.path().join("r");
+    let o = tessera(&[
+        "analyse",
+        input.to_str().unwrap(),
+        "--out",
+        out.to_str().unwrap(),
+        "--by-sex",
+        "stature",
+        "--priors",
+        "flat",
+    ]);
+    assert_eq!(o.status.code(), Some(3));
+    let err = stderr(&o);
+    assert!(err.contains("row 3, column `stature`: found `tall`"), "{err}");
+    assert!(err.contains("a number"), "{err}");
+    assert!(!out.exists());
+    // Mended, the column is a numeric outcome: its own table, described in columns.md.
+    std::fs::write(
+        &input,
+        "id,glabella,stature,age\nA,2,158.5,30\nB,5,176,40\nC,4,171,35\nD,1,,30\n",
+    )
+    .unwrap();
+    let o = tessera(&[
+        "analyse",
+        input.to_str().unwrap(),
+        "--out",
+        out.to_str().unwrap(),
+        "--by-sex",
+        "stature",
+        "--priors",
+        "flat",
+    ]);
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    let table = std::fs::read_to_string(out.join("by_sex_numeric.csv")).unwrap();
+    assert!(table.starts_with("outcome,n_recorded,n_left_out,n_female,n_male,quantity,estimate,lo,hi\nstature,3,0,"), "{table}");
+    assert!(!out.join("by_sex_prevalence.csv").exists());
+    let report = std::fs::read_to_string(out.join("report.md")).unwrap();
+    assert!(report.contains("## Measurements and scores by sex"));
+}
+
+#[test]
 fn the_validation_report_of_the_demo_reference_renders() {
     let dir = tempfile::tempdir().unwrap();
     let root = env!("CARGO_MANIFEST_DIR");

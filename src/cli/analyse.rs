@@ -33,8 +33,9 @@ pub struct Args {
     /// draws are still made for the intervals of the numbers of females and males.
     #[arg(long, value_name = "N")]
     pub draws: Option<usize>,
-    /// A 0/1 condition column (e.g. a lesion) to compare between the sexes; repeatable. Such
-    /// columns are never evidence of sex.
+    /// A column to compare between the sexes, repeatable: a 0/1 condition (a lesion: its
+    /// prevalence) or a number (stature, an activity-marker score, a lesion grade: its mean and
+    /// median). Such columns are never evidence of sex.
     #[arg(long = "by-sex", value_name = "COLUMN")]
     pub by_sex: Vec<String>,
     /// Let the assemblage correct the reference means of the measurements (Gibbs sampling;

@@ -33,10 +33,10 @@ use crate::model::{Context, IndividualEvidence, Model};
 use crate::prior::PriorShape;
 use crate::progress::Progress;
 use crate::results::{AnalysisResult, BySex, LeftOut, RunInfo};
-use crate::summary::by_sex::{age_interval, ConditionColumn};
+use crate::summary::by_sex::{age_interval, OutcomeColumn, OutcomeValues};
 use crate::summary::{
-    age_by_sex, condition_column, prevalence_by_sex, ChainLength, PrevalenceBySex, SexEvidence,
-    SexRatioPrior,
+    age_by_sex, numeric_by_sex, outcome_column, prevalence_by_sex, ChainLength, PrevalenceBySex,
+    SexEvidence, SexRatioPrior,
 };
 use crate::Error;
 use std::path::Path;
@@ -140,7 +140,7 @@ pub fn group_labels(a: &Assemblage) -> Result<Option<Vec<String>>, Error> {
 /// What the options give once checked against a table.
 struct TableChecked {
     /// The condition columns to compare between the sexes.
-    columns: Vec<ConditionColumn>,
+    columns: Vec<OutcomeColumn>,
     /// Every row's group, when some row has one.
     groups: Option<Vec<String>>,
     /// Joint draws to make.
@@ -201,7 +201,7 @@ impl ValidatedOptions {
         let mut columns = Vec::new();
         let mut cells: Option<InputError> = None;
         for col in &o.by_sex {
-            match condition_column(a, col) {
+            match outcome_column(a, col) {
                 Ok(Some(v)) => columns.push(v),
                 Ok(None) => problems.push(OptionProblem::new("by-sex", format!(
                     "`{col}` is not a column of the input that the model leaves unused (trait columns are evidence and cannot be outcomes); columns available: {}",
@@ -235,7 +235,7 @@ impl ValidatedOptions {
         a: &Assemblage,
         evidence: &[IndividualEvidence],
         results: &PriorSetResults,
-        columns: &[ConditionColumn],
+        columns: &[OutcomeColumn],
         ages: Vec<Option<(f64, f64)>>,
         draws: &Draws,
     ) -> BySex {
@@ -271,17 +271,32 @@ impl ValidatedOptions {
             prior,
         };
         let seed = self.options.seed;
+        // Each column's chains seeded by its place among the by-sex columns.
+        let len = |k: usize| ChainLength::default_with_seed(seed.wrapping_add(k as u64));
         let prevalence: Vec<PrevalenceBySex> = columns
             .iter()
             .enumerate()
-            .map(|(k, (c, v))| {
-                let len = ChainLength::default_with_seed(seed.wrapping_add(k as u64));
-                prevalence_by_sex(&ev, c, v, &len)
+            .filter_map(|(k, (c, v))| match v {
+                OutcomeValues::Condition(v) => Some(prevalence_by_sex(&ev, c, v, &len(k))),
+                OutcomeValues::Numeric(_) => None,
+            })
+            .collect();
+        let numeric: Vec<crate::summary::NumericBySex> = columns
+            .iter()
+            .enumerate()
+            .filter_map(|(k, (c, v))| match v {
+                OutcomeValues::Numeric(v) => Some(numeric_by_sex(&ev, c, v, &len(k))),
+                OutcomeValues::Condition(_) => None,
             })
             .collect();
         let notes = prevalence
             .iter()
             .filter_map(PrevalenceBySex::convergence_note)
+            .chain(
+                numeric
+                    .iter()
+                    .filter_map(crate::summary::NumericBySex::convergence_note),
+            )
             .collect();
         let table_ages: Vec<Option<(f64, f64)>> = ages
             .iter()
@@ -309,6 +324,7 @@ impl ValidatedOptions {
             }),
             sex_ratio,
             prevalence,
+            numeric,
             ages,
             left_out,
             notes,

@@ -98,6 +98,16 @@ pub const COLUMNS: &[Entry] = &[
     ("assemblage_draws.csv", "n_female", "females among the individuals in the draw", "individuals", COUNT),
     ("assemblage_draws.csv", "n_male", "males among the individuals in the draw", "individuals", COUNT),
     ("assemblage_draws.csv", "sex_ratio", "males per 100 females among the individuals in the draw", "males per 100 females", "0 or above; empty with no female"),
+    // by_sex_numeric.csv
+    ("by_sex_numeric.csv", "outcome", "the numeric column named by --by-sex (a measurement, a score, a grade), as written in the input", "", "text"),
+    ("by_sex_numeric.csv", "n_recorded", "individuals in the tables by sex with a value", "individuals", COUNT),
+    ("by_sex_numeric.csv", "n_left_out", "individuals with a value but without evidence of sex, or subadults", "individuals", COUNT),
+    ("by_sex_numeric.csv", "n_female", "individuals with a value drawn female, posterior mean", "individuals", "≥ 0"),
+    ("by_sex_numeric.csv", "n_male", "individuals with a value drawn male, posterior mean", "individuals", "≥ 0"),
+    ("by_sex_numeric.csv", "quantity", "mean_female, mean_male (the means of the normal distribution in each sex), difference_female_minus_male, sd_female, sd_male, median_female, median_male (medians of the values among those drawn female, male), p_female_higher (P(mean female > mean male)), rhat and effective_draws (the chains' convergence)", "", "text"),
+    ("by_sex_numeric.csv", "estimate", "posterior mean (the probability for p_female_higher; the statistic for rhat and effective_draws)", "the outcome's unit, or as the quantity says", ANY),
+    ("by_sex_numeric.csv", "lo", "2.5% posterior quantile; empty for p_female_higher, rhat and effective_draws", "as estimate", ANY),
+    ("by_sex_numeric.csv", "hi", "97.5% posterior quantile; empty as lo", "as estimate", ANY),
     // sex_ratio.csv
     ("sex_ratio.csv", "group", "`all` for the whole assemblage, else the group (each taken on its own)", "", "text"),
     ("sex_ratio.csv", "n", "individuals", "individuals", COUNT),

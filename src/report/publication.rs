@@ -190,6 +190,47 @@ pub fn by_sex_tables(r: &AnalysisResult) -> Result<OutputSet, RenderError> {
         }
         files.push("by_sex_prevalence.csv", csv_bytes(rows)?);
     }
+    if !by_sex.numeric.is_empty() {
+        let mut rows = vec![header(&[
+            "outcome",
+            "n_recorded",
+            "n_left_out",
+            "n_female",
+            "n_male",
+            "quantity",
+            "estimate",
+            "lo",
+            "hi",
+        ])];
+        let c4 = |x: f64| super::number::cell(x, 4);
+        for x in &by_sex.numeric {
+            for (q, v) in [
+                ("mean_female", x.mean_female),
+                ("mean_male", x.mean_male),
+                ("difference_female_minus_male", x.difference),
+                ("sd_female", x.sd_female),
+                ("sd_male", x.sd_male),
+                ("median_female", x.median_female),
+                ("median_male", x.median_male),
+                ("p_female_higher", (x.p_female_higher, f64::NAN, f64::NAN)),
+                ("rhat", (x.rhat, f64::NAN, f64::NAN)),
+                ("effective_draws", (x.ess, f64::NAN, f64::NAN)),
+            ] {
+                rows.push(vec![
+                    x.column.clone(),
+                    x.n_recorded.to_string(),
+                    x.n_left_out.to_string(),
+                    f1(x.n_female),
+                    f1(x.n_male),
+                    q.to_string(),
+                    c4(v.0),
+                    c4(v.1),
+                    c4(v.2),
+                ]);
+            }
+        }
+        files.push("by_sex_numeric.csv", csv_bytes(rows)?);
+    }
     if let Some(lt) = &by_sex.life_tables {
         files.push("life_table.csv", life_table_csv(lt)?);
     }
@@ -517,7 +558,7 @@ pub fn references_used(
             refs.push(citations::work(key));
         }
     }
-    if !by_sex.prevalence.is_empty() {
+    if !by_sex.prevalence.is_empty() || !by_sex.numeric.is_empty() {
         refs.push(citations::work("Tanner & Wong 1987"));
         refs.push(citations::work("Gelman et al. 2013"));
     }
@@ -677,7 +718,7 @@ pub fn methods_md(r: &AnalysisResult) -> String {
         },
         if main.groups.is_empty() || fixed.is_empty() { "" } else { " (a fixed proportion applied to every group alike)" }
     );
-    if by_sex.age.is_some() || !by_sex.prevalence.is_empty() {
+    if by_sex.age.is_some() || !by_sex.prevalence.is_empty() || !by_sex.numeric.is_empty() {
         let _ = write!(
             s,
             "Analyses by sex left out individuals without evidence of sex and subadults (counted beside each table){}{}. ",
@@ -692,6 +733,13 @@ pub fn methods_md(r: &AnalysisResult) -> String {
                 chain.kept(),
             ) }
         );
+        if !by_sex.numeric.is_empty() {
+            let _ = write!(
+                s,
+                "The means of {} by sex were estimated in the same way, from the joint posterior of every individual's sex and a normal distribution of the outcome in each sex (normal–inverse-gamma priors, weakly informative and centred on the pooled values; Gelman et al., 2013), so that the difference between the sexes is not diluted. ",
+                by_sex.numeric.iter().map(|p| p.column.replace('_', " ")).collect::<Vec<_>>().join(", "),
+            );
+        }
     }
     if let Some(x) = by_sex.sex_ratio.first() {
         let _ = write!(
@@ -1248,7 +1296,7 @@ fn sex_ratio_section(r: &AnalysisResult, m: &mut String, t: &mut String) {
             x.median,
             range(x.lo, x.hi, |v| format!("{v:.0}")),
             f3(x.p_more_males),
-            crate::report::number::text(x.ln_bf_reference / LN_10, 2)
+            crate::report::number::reading(x.ln_bf_reference / LN_10, 2)
         );
         let _ = writeln!(
             t,
@@ -1364,9 +1412,13 @@ fn prevalence_section(r: &AnalysisResult, m: &mut String, t: &mut String) {
             let _ = writeln!(t, "{} & {f} & {ml} & {d} & {or} \\\\", tex(&p.column));
         }
         let _ = writeln!(t, "\\bottomrule\n\\end{{tabular}}\n\\end{{table}}\n");
+        let _ = writeln!(m);
+    }
+    numeric_section(r, m, t);
+    if !by_sex.prevalence.is_empty() || !by_sex.numeric.is_empty() {
         let _ = writeln!(
             m,
-            "\nOutcome columns are never used as evidence of sex: that would be circular.\n"
+            "Outcome columns are never used as evidence of sex: that would be circular.\n"
         );
         for n in &by_sex.notes {
             let _ = writeln!(m, "- {n}");
@@ -1375,6 +1427,45 @@ fn prevalence_section(r: &AnalysisResult, m: &mut String, t: &mut String) {
             let _ = writeln!(m);
         }
     }
+}
+
+/// Each numeric outcome by sex: means, medians and the difference of the means.
+fn numeric_section(r: &AnalysisResult, m: &mut String, t: &mut String) {
+    let by_sex = &r.by_sex;
+    if by_sex.numeric.is_empty() {
+        return;
+    }
+    let _ = writeln!(m, "## Measurements and scores by sex\n\nFrom the joint posterior of every individual's sex and a normal distribution of the outcome in each sex (weakly informative priors centred on the pooled values): the outcome informs each sex, so the difference is not diluted toward none. Posterior means of the means with 95% intervals; the medians are those of the recorded values among the individuals drawn female and male{}.\n", left_out_clause(by_sex));
+    let _ = writeln!(m, "| outcome | recorded | left out | mean, females | mean, males | difference F − M | P(higher in females) | median, females | median, males |\n|---|---|---|---|---|---|---|---|---|");
+    let _ = writeln!(t, "\\begin{{table}}\n\\centering\n\\caption{{Measurements and scores by sex from the joint posterior of sex and outcome (posterior means with 95\\% intervals).}}\n\\begin{{tabular}}{{lrrrr}}\n\\toprule\nOutcome & Females & Males & Difference & P(higher in females) \\\\\n\\midrule");
+    let f2 = |x: f64| crate::report::number::reading(x, 2);
+    let t2 = |x: f64| crate::report::number::latex(x, 2);
+    for x in &by_sex.numeric {
+        let _ = writeln!(
+            m,
+            "| {} | {} | {} | {} | {} | {} | {} | {} | {} |",
+            md(&x.column),
+            x.n_recorded,
+            x.n_left_out,
+            ci(x.mean_female, f2),
+            ci(x.mean_male, f2),
+            ci(x.difference, f2),
+            f3(x.p_female_higher),
+            ci(x.median_female, f2),
+            ci(x.median_male, f2)
+        );
+        let _ = writeln!(
+            t,
+            "{} & {} & {} & {} & {} \\\\",
+            tex(&x.column),
+            ci(x.mean_female, t2),
+            ci(x.mean_male, t2),
+            ci(x.difference, t2),
+            f3(x.p_female_higher)
+        );
+    }
+    let _ = writeln!(t, "\\bottomrule\n\\end{{tabular}}\n\\end{{table}}\n");
+    let _ = writeln!(m);
 }
 
 #[cfg(test)]

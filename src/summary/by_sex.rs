@@ -141,21 +141,47 @@ pub fn age_by_sex(ages: &[Option<(f64, f64)>], female: &[Vec<bool>], seed: u64) 
     }
 }
 
-/// A condition column as read: its name as written and one value per individual.
-pub type ConditionColumn = (String, Vec<Option<bool>>);
+/// A by-sex column's values: a 0/1 condition, or a number (a measurement, a score, a grade).
+#[derive(Debug, Clone, PartialEq)]
+pub enum OutcomeValues {
+    /// Present (`true`) or absent; `None` where not recorded.
+    Condition(Vec<Option<bool>>),
+    /// A number; `None` where not recorded.
+    Numeric(Vec<Option<f64>>),
+}
 
-/// Read a condition column (a carried column, never evidence): `1`/`yes`/`present`/`true`
-/// and `0`/`no`/`absent`/`false` (any case); missing codes give `None`.
+/// A by-sex column as read: its name as written and one value per individual.
+pub type OutcomeColumn = (String, OutcomeValues);
+
+/// The words read as present and as absent in a condition column (any case).
+const PRESENT: [&str; 4] = ["1", "yes", "present", "true"];
+const ABSENT: [&str; 4] = ["0", "no", "absent", "false"];
+
+/// A cell as a number: a decimal point, or a decimal comma where the cell has no point.
+fn number(cell: &str) -> Option<f64> {
+    let c = cell.trim();
+    c.parse::<f64>()
+        .ok()
+        .or_else(|| {
+            (!c.contains('.'))
+                .then(|| c.replace(',', ".").parse::<f64>().ok())
+                .flatten()
+        })
+        .filter(|x| x.is_finite())
+}
+
+/// Read a by-sex column (a carried column, never evidence): a 0/1 condition when every
+/// recorded cell is `1`/`yes`/`present`/`true` or `0`/`no`/`absent`/`false` (any case), a
+/// number otherwise (stature, an activity-marker score, a lesion grade); missing codes give
+/// `None`.
 ///
 /// Returns `Ok(None)` when the assemblage has no such carried column (trait columns are
 /// evidence and cannot be outcomes), the column name as written and the values otherwise.
 ///
 /// # Errors
-/// [`InputError`] listing every cell that is neither 0/1 nor a missing code.
-pub fn condition_column(
-    a: &Assemblage,
-    column: &str,
-) -> Result<Option<ConditionColumn>, InputError> {
+/// [`InputError`] listing every cell that is neither a condition's word nor a number (in a
+/// column of numbers: every cell that is not a number), nor a missing code.
+pub fn outcome_column(a: &Assemblage, column: &str) -> Result<Option<OutcomeColumn>, InputError> {
     let Some(c) = a
         .carried_columns
         .iter()
@@ -163,30 +189,66 @@ pub fn condition_column(
     else {
         return Ok(None);
     };
-    let mut problems = Vec::new();
-    let values = a
-        .individuals
+    let cells: Vec<&str> = a.individuals.iter().map(|i| i.carried[c].trim()).collect();
+    let recorded = |cell: &str| !a.settings.is_missing(cell);
+    let is_word = |cell: &str| {
+        let l = cell.to_ascii_lowercase();
+        PRESENT.contains(&l.as_str()) || ABSENT.contains(&l.as_str())
+    };
+    // Numbers beyond 0 and 1 make it a column of numbers; otherwise a condition.
+    let numeric = cells
         .iter()
-        .map(|ind| {
-            let cell = ind.carried[c].trim();
-            match cell.to_ascii_lowercase().as_str() {
-                "1" | "yes" | "present" | "true" => Some(true),
-                "0" | "no" | "absent" | "false" => Some(false),
-                _ if a.settings.is_missing(cell) => None,
-                _ => {
-                    problems.push(Problem {
-                        file: a.file.clone(),
-                        row: Some(ind.row),
-                        column: Some(a.carried_columns[c].clone()),
-                        value: Some(cell.to_string()),
-                        kind: ProblemKind::UnreadableValue,
-                        expected: "1 (present) or 0 (absent), or a missing code".into(),
-                    });
-                    None
-                }
-            }
-        })
-        .collect();
+        .any(|cell| recorded(cell) && !is_word(cell) && number(cell).is_some());
+    let mut problems = Vec::new();
+    let mut problem = |row: usize, cell: &str, expected: &str| {
+        problems.push(Problem {
+            file: a.file.clone(),
+            row: Some(row),
+            column: Some(a.carried_columns[c].clone()),
+            value: Some(cell.to_string()),
+            kind: ProblemKind::UnreadableValue,
+            expected: expected.into(),
+        });
+    };
+    let values = if numeric {
+        OutcomeValues::Numeric(
+            a.individuals
+                .iter()
+                .zip(&cells)
+                .map(|(ind, cell)| {
+                    if !recorded(cell) {
+                        return None;
+                    }
+                    let v = number(cell);
+                    if v.is_none() {
+                        problem(ind.row, cell, "a number (the column's other cells are numbers, such as a stature or a grade), or a missing code");
+                    }
+                    v
+                })
+                .collect(),
+        )
+    } else {
+        OutcomeValues::Condition(
+            a.individuals
+                .iter()
+                .zip(&cells)
+                .map(|(ind, cell)| {
+                    if !recorded(cell) {
+                        return None;
+                    }
+                    let l = cell.to_ascii_lowercase();
+                    if PRESENT.contains(&l.as_str()) {
+                        Some(true)
+                    } else if ABSENT.contains(&l.as_str()) {
+                        Some(false)
+                    } else {
+                        problem(ind.row, cell, "1 (present) or 0 (absent) for a condition, a number for a measurement or grade, or a missing code");
+                        None
+                    }
+                })
+                .collect(),
+        )
+    };
     if problems.is_empty() {
         Ok(Some((a.carried_columns[c].clone(), values)))
     } else {

@@ -8,13 +8,15 @@
 
 pub mod by_sex;
 pub mod life_table;
+pub mod numeric;
 pub mod prevalence;
 pub mod sex_ratio;
 
 pub use by_sex::{
-    age_by_sex, category_by_age, condition_column, AgeBySex, AgeClassRow, AGE_CLASSES,
-    OPEN_CLASS_END,
+    age_by_sex, category_by_age, outcome_column, AgeBySex, AgeClassRow, OutcomeColumn,
+    OutcomeValues, AGE_CLASSES, OPEN_CLASS_END,
 };
 pub use life_table::{life_tables, AgeClasses, LifeTables, DEFAULT_LIFE_TABLE_CLASSES};
+pub use numeric::{numeric_by_sex, NumericBySex};
 pub use prevalence::{prevalence_by_sex, ChainLength, PrevalenceBySex, SexEvidence, SexRatioPrior};
 pub use sex_ratio::{sex_ratio_tests, SexRatioTest, DEFAULT_REFERENCE_RATIO};

@@ -148,15 +148,62 @@ impl PrevalenceBySex {
     }
 }
 
-/// One chain's kept draws of (p_F, p_M, females recorded, males recorded).
-struct Chain {
-    p_f: Vec<f64>,
-    p_m: Vec<f64>,
-    n_f: Vec<f64>,
+/// One chain's kept draws: each quantity the outcome model keeps (p_F and p_M for a
+/// condition), and the number of recorded individuals drawn female.
+pub(crate) struct Chain {
+    pub(crate) kept: Vec<Vec<f64>>,
+    pub(crate) n_f: Vec<f64>,
+}
+
+/// The outcome's part of the joint model of sex and outcome: the log-likelihood ratio
+/// female:male of one recorded value under the current parameters (step 1 of the sweep), and
+/// the parameters' draw given the values of the individuals drawn female and male (step 2).
+pub(crate) trait OutcomeModel: Sized {
+    /// A recorded value.
+    type Value: Copy + Sync;
+    /// Starting parameters of chain c (dispersed over the chains).
+    fn start(&self, c: usize) -> Self;
+    /// ln p(y | female, θ) − ln p(y | male, θ).
+    fn ln_ratio(&self, y: Self::Value) -> f64;
+    /// Draw θ given the values of those drawn female and of those drawn male.
+    fn update(&mut self, rng: &mut ChaCha8Rng, female: &[Self::Value], male: &[Self::Value]);
+    /// The quantities kept after each sweep, always the same number of them.
+    fn kept(&self) -> Vec<f64>;
+}
+
+/// The Bernoulli outcome of a 0/1 condition: (p_F, p_M) with Beta(1, 1) priors.
+#[derive(Debug, Clone, Copy)]
+struct Condition {
+    p_f: f64,
+    p_m: f64,
+}
+
+impl OutcomeModel for Condition {
+    type Value = bool;
+    fn start(&self, c: usize) -> Self {
+        let (_, p_f, p_m) = start(c);
+        Condition { p_f, p_m }
+    }
+    fn ln_ratio(&self, y: bool) -> f64 {
+        if y {
+            self.p_f.ln() - self.p_m.ln()
+        } else {
+            (1.0 - self.p_f).ln() - (1.0 - self.p_m).ln()
+        }
+    }
+    fn update(&mut self, rng: &mut ChaCha8Rng, female: &[bool], male: &[bool]) {
+        let present = |v: &[bool]| v.iter().filter(|&&y| y).count() as f64;
+        let (a_f, a_m) = (present(female), present(male));
+        self.p_f = beta_draw(rng, 1.0 + a_f, 1.0 + female.len() as f64 - a_f);
+        self.p_m = beta_draw(rng, 1.0 + a_m, 1.0 + male.len() as f64 - a_m);
+    }
+    fn kept(&self) -> Vec<f64> {
+        vec![self.p_f, self.p_m]
+    }
 }
 
 /// Dispersed starting values of (π or μ, p_F, p_M) for chain c.
-fn start(c: usize) -> (f64, f64, f64) {
+pub(crate) fn start(c: usize) -> (f64, f64, f64) {
     const STARTS: [(f64, f64, f64); 4] = [
         (0.2, 0.8, 0.2),
         (0.8, 0.2, 0.8),
@@ -166,7 +213,7 @@ fn start(c: usize) -> (f64, f64, f64) {
     STARTS[c % STARTS.len()]
 }
 
-fn beta_draw(rng: &mut ChaCha8Rng, a: f64, b: f64) -> f64 {
+pub(crate) fn beta_draw(rng: &mut ChaCha8Rng, a: f64, b: f64) -> f64 {
     match Beta::new(a, b) {
         Ok(d) => d.sample(rng).clamp(1e-12, 1.0 - 1e-12),
         Err(_) => a / (a + b),
@@ -192,7 +239,15 @@ fn hyper_cells(h: &HyperGrid, groups: usize) -> Vec<(f64, f64, f64)> {
     cells
 }
 
-fn run_chain(ev: &SexEvidence, outcome: &[Option<bool>], len: &ChainLength, c: usize) -> Chain {
+/// One chain of the joint sampler of sex and an outcome (the sweep of the module's docs,
+/// step 2 done by the outcome model).
+pub(crate) fn run_chain<M: OutcomeModel>(
+    ev: &SexEvidence,
+    model: &M,
+    outcome: &[Option<M::Value>],
+    len: &ChainLength,
+    c: usize,
+) -> Chain {
     let mut rng =
         ChaCha8Rng::seed_from_u64(len.seed ^ 0x9e37_79b9_7f4a_7c15_u64.wrapping_mul(c as u64 + 1));
     let groups = match ev.prior {
@@ -203,7 +258,8 @@ fn run_chain(ev: &SexEvidence, outcome: &[Option<bool>], len: &ChainLength, c: u
         SexRatioPrior::Groups(h, g) => hyper_cells(h, g),
         _ => Vec::new(),
     };
-    let (s0, mut p_f, mut p_m) = start(c);
+    let (s0, _, _) = start(c);
+    let mut theta = model.start(c);
     let mut pi = vec![
         match ev.prior {
             SexRatioPrior::Fixed(p) => p,
@@ -213,7 +269,7 @@ fn run_chain(ev: &SexEvidence, outcome: &[Option<bool>], len: &ChainLength, c: u
     ];
     let (mut mu, mut kappa) = (s0, 20.0);
     // Individuals in the sampler: those with evidence; the outcome where it is in the table.
-    let members: Vec<(f64, usize, Option<bool>)> = (0..ev.ln_lrs.len())
+    let members: Vec<(f64, usize, Option<M::Value>)> = (0..ev.ln_lrs.len())
         .filter(|&i| ev.estimable[i])
         .map(|i| {
             let y = if ev.in_tables[i] { outcome[i] } else { None };
@@ -222,26 +278,20 @@ fn run_chain(ev: &SexEvidence, outcome: &[Option<bool>], len: &ChainLength, c: u
         .collect();
     let kept = len.kept();
     let mut chain = Chain {
-        p_f: Vec::with_capacity(kept),
-        p_m: Vec::with_capacity(kept),
+        kept: vec![Vec::with_capacity(kept); theta.kept().len()],
         n_f: Vec::with_capacity(kept),
     };
     let mut ln_w = vec![0.0; cells.len()];
+    let (mut of_females, mut of_males) = (Vec::new(), Vec::new());
     for it in 0..len.iterations {
         // 1. Sexes.
         let logit_pi: Vec<f64> = pi.iter().map(|p| p.ln() - (1.0 - p).ln()).collect();
-        let (t1, t0) = (p_f.ln() - p_m.ln(), (1.0 - p_f).ln() - (1.0 - p_m).ln());
         let mut females = vec![0usize; groups];
         let mut members_in = vec![0usize; groups];
-        let (mut a_f, mut n_f, mut a_m, mut n_m) = (0usize, 0usize, 0usize, 0usize);
+        of_females.clear();
+        of_males.clear();
         for &(l, g, y) in &members {
-            let z = logit_pi[g]
-                + l
-                + match y {
-                    Some(true) => t1,
-                    Some(false) => t0,
-                    None => 0.0,
-                };
+            let z = logit_pi[g] + l + y.map_or(0.0, |y| theta.ln_ratio(y));
             let female = rng.random::<f64>() * (1.0 + (-z).exp()) < 1.0;
             members_in[g] += 1;
             if female {
@@ -249,17 +299,14 @@ fn run_chain(ev: &SexEvidence, outcome: &[Option<bool>], len: &ChainLength, c: u
             }
             if let Some(y) = y {
                 if female {
-                    n_f += 1;
-                    a_f += usize::from(y);
+                    of_females.push(y);
                 } else {
-                    n_m += 1;
-                    a_m += usize::from(y);
+                    of_males.push(y);
                 }
             }
         }
-        // 2. Prevalences.
-        p_f = beta_draw(&mut rng, 1.0 + a_f as f64, 1.0 + (n_f - a_f) as f64);
-        p_m = beta_draw(&mut rng, 1.0 + a_m as f64, 1.0 + (n_m - a_m) as f64);
+        // 2. The outcome's parameters.
+        theta.update(&mut rng, &of_females, &of_males);
         // 3–4. Proportion female.
         match ev.prior {
             SexRatioPrior::Fixed(_) => {}
@@ -283,9 +330,10 @@ fn run_chain(ev: &SexEvidence, outcome: &[Option<bool>], len: &ChainLength, c: u
             }
         }
         if it >= len.burn_in {
-            chain.p_f.push(p_f);
-            chain.p_m.push(p_m);
-            chain.n_f.push(n_f as f64);
+            for (k, v) in theta.kept().into_iter().enumerate() {
+                chain.kept[k].push(v);
+            }
+            chain.n_f.push(of_females.len() as f64);
         }
     }
     chain
@@ -301,7 +349,7 @@ fn quantile_sorted(s: &[f64], q: f64) -> f64 {
     s[lo] + (h - lo as f64) * (s[hi] - s[lo])
 }
 
-fn summary(v: &[f64], centre_is_median: bool) -> (f64, f64, f64) {
+pub(crate) fn summary(v: &[f64], centre_is_median: bool) -> (f64, f64, f64) {
     let mut s = v.to_vec();
     s.sort_by(f64::total_cmp);
     let centre = if centre_is_median {
@@ -324,17 +372,31 @@ pub fn prevalence_by_sex(
     present: &[Option<bool>],
     len: &ChainLength,
 ) -> PrevalenceBySex {
+    let model = Condition { p_f: 0.5, p_m: 0.5 };
     let chains: Vec<Chain> = (0..len.chains.max(1))
         .into_par_iter()
-        .map(|c| run_chain(ev, present, len, c))
+        .map(|c| run_chain(ev, &model, present, len, c))
         .collect();
     let n_f: f64 = chains.iter().flat_map(|c| &c.n_f).sum();
     let diff: Vec<Vec<f64>> = chains
         .iter()
-        .map(|c| c.p_f.iter().zip(&c.p_m).map(|(a, b)| a - b).collect())
+        .map(|c| {
+            c.kept[0]
+                .iter()
+                .zip(&c.kept[1])
+                .map(|(a, b)| a - b)
+                .collect()
+        })
         .collect();
-    let (pf, pm): (Vec<Vec<f64>>, Vec<Vec<f64>>) =
-        chains.into_iter().map(|c| (c.p_f, c.p_m)).unzip();
+    let (pf, pm): (Vec<Vec<f64>>, Vec<Vec<f64>>) = chains
+        .into_iter()
+        .map(|mut c| {
+            (
+                std::mem::take(&mut c.kept[0]),
+                std::mem::take(&mut c.kept[1]),
+            )
+        })
+        .unzip();
     let rhat = [&pf, &pm, &diff]
         .iter()
         .map(|c| split_rhat(c))
