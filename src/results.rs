@@ -62,6 +62,8 @@ pub struct BySex {
     pub age: Option<AgeBySex>,
     /// Life tables by sex, when the input has ages.
     pub life_tables: Option<crate::summary::LifeTables>,
+    /// Gompertz mortality by sex, when the input has ages.
+    pub hazards: Option<crate::summary::HazardsBySex>,
     /// The sex ratio of the assemblage and of each group against the reference (none under a
     /// fixed prior).
     pub sex_ratio: Vec<crate::summary::SexRatioTest>,

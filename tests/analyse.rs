@@ -175,6 +175,8 @@ fn options_are_checked_before_anything_is_written() {
         vec!["--life-table-classes", "18-25,30-40,40+"],
         vec!["--life-table-classes", "18-30,25-40,40-50"],
         vec!["--reference-ratio", "0"],
+        vec!["--hazard-ages", "35-18"],
+        vec!["--hazard-ages", "young"],
         vec!["--reference-ratio=-105"],
     ] {
         let d = demo();

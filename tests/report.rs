@@ -107,7 +107,13 @@ fn the_demo_writes_report_tables_methods_and_figures_that_render() {
             .chars()
             .take_while(|c| *c != ',' && *c != '.')
             .collect();
-        let year = &r[r.find("(19").or_else(|| r.find("(20")).unwrap() + 1..][..4];
+        // The year: the first "(" followed by four digits (1825, 1969, 2017 …).
+        let at = r
+            .match_indices('(')
+            .map(|(i, _)| i + 1)
+            .find(|&i| r.len() >= i + 4 && r[i..i + 4].bytes().all(|b| b.is_ascii_digit()))
+            .unwrap_or_else(|| panic!("no year in {r}"));
+        let year = &r[at..at + 4];
         let cited = body.match_indices(surname.as_str()).any(|(i, _)| {
             body[i..]
                 .chars()
@@ -195,7 +201,10 @@ fn a_numeric_outcome_with_a_text_cell_is_refused_with_its_row_and_column() {
     ]);
     assert_eq!(o.status.code(), Some(3));
     let err = stderr(&o);
-    assert!(err.contains("row 3, column `stature`: found `tall`"), "{err}");
+    assert!(
+        err.contains("row 3, column `stature`: found `tall`"),
+        "{err}"
+    );
     assert!(err.contains("a number"), "{err}");
     assert!(!out.exists());
     // Mended, the column is a numeric outcome: its own table, described in columns.md.
@@ -216,7 +225,12 @@ fn a_numeric_outcome_with_a_text_cell_is_refused_with_its_row_and_column() {
     ]);
     assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
     let table = std::fs::read_to_string(out.join("by_sex_numeric.csv")).unwrap();
-    assert!(table.starts_with("outcome,n_recorded,n_left_out,n_female,n_male,quantity,estimate,lo,hi\nstature,3,0,"), "{table}");
+    assert!(
+        table.starts_with(
+            "outcome,n_recorded,n_left_out,n_female,n_male,quantity,estimate,lo,hi\nstature,3,0,"
+        ),
+        "{table}"
+    );
     assert!(!out.join("by_sex_prevalence.csv").exists());
     let report = std::fs::read_to_string(out.join("report.md")).unwrap();
     assert!(report.contains("## Measurements and scores by sex"));

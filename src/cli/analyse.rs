@@ -60,6 +60,10 @@ pub struct Args {
     /// compared with (sex_ratio.csv); 105 is the usual ratio at birth.
     #[arg(long, value_name = "MALES_PER_100_FEMALES", default_value_t = crate::summary::DEFAULT_REFERENCE_RATIO)]
     pub reference_ratio: f64,
+    /// The age range (years) over which the mortality of females and males is compared
+    /// (hazards.csv): the ratio of their cumulative Gompertz hazards and P(female higher).
+    #[arg(long, value_name = "FROM-TO", default_value = "18-35")]
+    pub hazard_ages: String,
     /// Seed of every random stream (same seed, same bytes).
     #[arg(long, default_value_t = 1)]
     pub seed: u64,
@@ -90,6 +94,7 @@ impl Args {
             minimum_age: self.minimum_age,
             life_table_classes: self.life_table_classes.clone(),
             reference_ratio: self.reference_ratio,
+            hazard_ages: self.hazard_ages.clone(),
             seed: self.seed,
             read: self.input.read_options(&self.groups),
         }

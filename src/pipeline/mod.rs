@@ -314,6 +314,30 @@ impl ValidatedOptions {
         );
         BySex {
             age: with_ages.then(|| age_by_sex(&table_ages, &draws.female, seed)),
+            hazards: with_ages.then(|| {
+                let recorded: Vec<Option<crate::summary::hazard::RecordedAge>> = a
+                    .individuals
+                    .iter()
+                    .zip(&in_tables)
+                    .map(|(i, &t)| {
+                        use crate::data::AgeAtDeath;
+                        let adult = model.minimum_age;
+                        match (t, i.age?) {
+                            (false, _) => None,
+                            (true, AgeAtDeath::Years { low, high }) => Some((low, high)),
+                            (true, AgeAtDeath::Adult) => Some((adult, None)),
+                            (true, AgeAtDeath::Subadult) => Some((0.0, Some(adult))),
+                        }
+                    })
+                    .collect();
+                crate::summary::hazards_by_sex(
+                    &recorded,
+                    &draws.female,
+                    model.minimum_age,
+                    self.hazard_ages,
+                    seed,
+                )
+            }),
             life_tables: with_ages.then(|| {
                 crate::summary::life_tables(
                     &table_ages,

@@ -242,6 +242,8 @@ pub struct AnalysisOptions {
     pub life_table_classes: String,
     /// The sex ratio (males per 100 females) the population's is compared with.
     pub reference_ratio: f64,
+    /// The age range (`18-35`) over which the mortality of the sexes is compared.
+    pub hazard_ages: String,
     /// Seed of every random stream.
     pub seed: u64,
     /// How to read the table.
@@ -263,10 +265,32 @@ impl Default for AnalysisOptions {
             minimum_age: None,
             life_table_classes: crate::summary::DEFAULT_LIFE_TABLE_CLASSES.into(),
             reference_ratio: crate::summary::DEFAULT_REFERENCE_RATIO,
+            hazard_ages: "18-35".into(),
             seed: 1,
             read: ReadOptions::default(),
         }
     }
+}
+
+/// An age range `from-to` in years (`18-35`), from below to.
+///
+/// # Errors
+/// What was expected, with the text found.
+pub fn parse_age_range(text: &str) -> Result<(f64, f64), String> {
+    let expected =
+        || format!("an age range in years written from-to, such as 18-35; found `{text}`");
+    let (a, b) = text.split_once('-').ok_or_else(expected)?;
+    let (a, b): (f64, f64) = (
+        a.trim().parse().map_err(|_| expected())?,
+        b.trim().parse().map_err(|_| expected())?,
+    );
+    if !(a.is_finite() && b.is_finite() && a >= 0.0 && a < b && b <= 120.0) {
+        return Err(format!(
+            "{}: the range starts at 0 or later and ends after it starts, by 120",
+            expected()
+        ));
+    }
+    Ok((a, b))
 }
 
 /// Joint posterior draws made for the intervals when none are asked for.
@@ -294,6 +318,8 @@ pub struct ValidatedOptions {
     pub recalibration: Option<RecalibrationSettings>,
     /// Age classes of the life tables.
     pub life_table_classes: crate::summary::AgeClasses,
+    /// The age range of the comparison of mortality.
+    pub hazard_ages: (f64, f64),
     /// The options as given.
     pub options: AnalysisOptions,
 }
@@ -373,6 +399,10 @@ impl AnalysisOptions {
                 problems.push(OptionProblem::new("life-table-classes", message));
                 crate::summary::AgeClasses::default()
             });
+        let hazard_ages = parse_age_range(&self.hazard_ages).unwrap_or_else(|message| {
+            problems.push(OptionProblem::new("hazard-ages", message));
+            crate::summary::DEFAULT_HAZARD_AGES
+        });
         if !(self.reference_ratio.is_finite() && self.reference_ratio > 0.0) {
             problems.push(OptionProblem::new(
                 "reference-ratio",
@@ -417,6 +447,7 @@ impl AnalysisOptions {
                 read,
                 recalibration,
                 life_table_classes,
+                hazard_ages,
                 options: self.clone(),
             }),
             _ => Err(Error::Options(OptionProblems(problems))),

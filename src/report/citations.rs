@@ -48,6 +48,10 @@ const FULL_REFERENCES: &[(&str, &str)] = &[
     // From memory.
     ("Tanner & Wong 1987", "Tanner, M. A., & Wong, W. H. (1987). The calculation of posterior distributions by data augmentation. Journal of the American Statistical Association, 82, 528–540."),
     // From memory.
+    // From memory (mortality by sex).
+    ("Gompertz 1825", "Gompertz, B. (1825). On the nature of the function expressive of the law of human mortality, and on a new mode of determining the value of life contingencies. Philosophical Transactions of the Royal Society of London, 115, 513–583."),
+    ("Wood et al. 2002", "Wood, J. W., Holman, D. J., O'Connor, K. A., & Ferrell, R. J. (2002). Mortality models for paleodemography. In R. D. Hoppa & J. W. Vaupel (Eds.), Paleodemography: Age distributions from skeletal samples (pp. 129–168). Cambridge: Cambridge University Press."),
+    ("Rubin 1987", "Rubin, D. B. (1987). Multiple imputation for nonresponse in surveys. New York: Wiley."),
     // From memory (the sex ratio against a reference).
     ("Kass & Raftery 1995", "Kass, R. E., & Raftery, A. E. (1995). Bayes factors. Journal of the American Statistical Association, 90, 773–795."),
     // From memory (the life tables by sex).

@@ -549,51 +549,53 @@ pub fn age_figure(age: &AgeBySex) -> Result<String, FigureError> {
     Ok(s)
 }
 
-/// Survivorship by sex: lx (per cent entering each class) at the start of every age class,
-/// and 0 where the open last class is closed; the mean over the draws as a line with markers,
-/// the population's 95% interval as thin dotted lines of the same grey.
-///
-/// # Errors
-/// [`FigureError`] when plotting fails.
-pub fn survivorship_figure(lt: &crate::summary::LifeTables) -> Result<String, FigureError> {
+/// One sex's curve: (x, estimate, lo, hi) per point.
+pub type SexCurve = Vec<(f64, f64, f64, f64)>;
+
+/// Two curves by sex on one chart: each sex's estimate as a line with markers (females grey
+/// and solid with dots, males black and dashed with triangles) and its 95% interval as thin
+/// dotted lines of the same grey; the legend beside the chart.
+fn sex_curves_figure(
+    name: &str,
+    caption: &str,
+    (x_desc, y_desc): (&str, &str),
+    (x_range, y_range): (std::ops::Range<f64>, std::ops::Range<f64>),
+    (y_tick, y_labels): (&dyn Fn(&f64) -> String, usize),
+    curves: [&SexCurve; 2],
+) -> Result<String, FigureError> {
     register_font();
-    let name = "survivorship";
-    let x_end = lt.open_end;
-    let x_start = lt.classes.0.first().map_or(0.0, |c| c.from);
     let mut s = String::new();
     {
         let root = SVGBackend::with_string(&mut s, (800, 420)).into_drawing_area();
         root.fill(&WHITE).map_err(fail(name))?;
         let (chart, legend) = root.split_horizontally(800 - LEGEND_WIDTH);
         let mut c = ChartBuilder::on(&chart)
-            .caption(
-                "Survivorship by sex (lx; mean over joint draws, population 95% interval)",
-                ("sans-serif", 16),
-            )
+            .caption(caption, ("sans-serif", 16))
             .margin(12)
             .x_label_area_size(40)
-            .y_label_area_size(50)
-            .build_cartesian_2d(x_start..x_end, 0f64..105.0)
+            .y_label_area_size(64)
+            .build_cartesian_2d(x_range, y_range)
             .map_err(fail(name))?;
         c.configure_mesh()
             .light_line_style(TRANSPARENT)
             .bold_line_style(RGBColor(215, 215, 215))
-            .x_desc("age (years)")
-            .y_desc("survivors entering the class (per cent)")
+            .x_desc(x_desc)
+            .y_desc(y_desc)
             .x_label_formatter(&|v| tick(*v))
-            .y_label_formatter(&|v| tick(*v))
+            .y_labels(y_labels)
+            .y_label_formatter(y_tick)
             .draw()
             .map_err(fail(name))?;
         let mut entries = Vec::new();
-        for (table, label, look, shape) in [
+        for (curve, label, look, shape) in [
             (
-                &lt.female,
+                curves[0],
                 "female",
                 Look::Line(RGBColor(120, 120, 120), 2, None),
                 Shape::Dot,
             ),
             (
-                &lt.male,
+                curves[1],
                 "male",
                 Look::Line(BLACK, 2, Some((6, 4))),
                 Shape::Triangle,
@@ -602,15 +604,14 @@ pub fn survivorship_figure(lt: &crate::summary::LifeTables) -> Result<String, Fi
             let Look::Line(grey, width, dash) = look else {
                 continue;
             };
-            let at = |q: fn(&crate::summary::life_table::Quantity) -> f64| -> Vec<(f64, f64)> {
-                table
+            let at = |k: usize| -> Vec<(f64, f64)> {
+                curve
                     .iter()
-                    .map(|r| (r.class.from, q(&r.lx)))
-                    .chain(std::iter::once((x_end, 0.0)))
+                    .map(|p| (p.0, [p.1, p.2, p.3][k]))
                     .filter(|p| p.1.is_finite())
                     .collect()
             };
-            let line = at(|q| q.estimate);
+            let line = at(0);
             match dash {
                 None => c
                     .draw_series(std::iter::once(PathElement::new(
@@ -628,10 +629,12 @@ pub fn survivorship_figure(lt: &crate::summary::LifeTables) -> Result<String, Fi
                     .map(|_| ()),
             }
             .map_err(fail(name))?;
-            c.draw_series(line.iter().map(|&p| marker(grey, shape, p)))
+            // Markers at most every few points, so that a dense curve stays a line.
+            let every = line.len().div_ceil(12).max(1);
+            c.draw_series(line.iter().step_by(every).map(|&p| marker(grey, shape, p)))
                 .map_err(fail(name))?;
             let band = Look::Line(grey, 1, Some((2, 3)));
-            for bound in [at(|q| q.population_lo), at(|q| q.population_hi)] {
+            for bound in [at(1), at(2)] {
                 c.draw_series(std::iter::once(plotters::element::DashedPathElement::new(
                     bound,
                     2,
@@ -647,6 +650,81 @@ pub fn survivorship_figure(lt: &crate::summary::LifeTables) -> Result<String, Fi
         root.present().map_err(fail(name))?;
     }
     Ok(s)
+}
+
+/// Survivorship by sex: lx (per cent entering each class) at the start of every age class,
+/// and 0 where the open last class is closed; the population's 95% interval dotted.
+///
+/// # Errors
+/// [`FigureError`] when plotting fails.
+pub fn survivorship_figure(lt: &crate::summary::LifeTables) -> Result<String, FigureError> {
+    let x_start = lt.classes.0.first().map_or(0.0, |c| c.from);
+    let curve = |table: &[crate::summary::life_table::LifeTableClass]| -> SexCurve {
+        table
+            .iter()
+            .map(|r| {
+                (
+                    r.class.from,
+                    r.lx.estimate,
+                    r.lx.population_lo,
+                    r.lx.population_hi,
+                )
+            })
+            .chain(std::iter::once((lt.open_end, 0.0, 0.0, 0.0)))
+            .collect()
+    };
+    sex_curves_figure(
+        "survivorship",
+        "Survivorship by sex (lx; mean over joint draws, population 95% interval)",
+        ("age (years)", "survivors entering the class (per cent)"),
+        (x_start..lt.open_end, 0.0..105.0),
+        (&|v| tick(*v), 11),
+        [&curve(&lt.female), &curve(&lt.male)],
+    )
+}
+
+/// The Gompertz hazard by sex from the adult start to 80 (median over the draws, 95% interval
+/// dotted), on a log scale: a Gompertz hazard is a straight line there.
+///
+/// # Errors
+/// [`FigureError`] when plotting fails.
+pub fn hazard_figure(h: &crate::summary::HazardsBySex) -> Result<String, FigureError> {
+    let curve = |female: bool| -> SexCurve {
+        h.curve
+            .iter()
+            .map(|(x, f, m)| {
+                let v = if female { f } else { m };
+                (*x, v.0.log10(), v.1.log10(), v.2.log10())
+            })
+            .collect()
+    };
+    let (cf, cm) = (curve(true), curve(false));
+    let ys = cf
+        .iter()
+        .chain(&cm)
+        .flat_map(|p| [p.1, p.2, p.3])
+        .filter(|y| y.is_finite());
+    let (lo, hi) = ys.fold((f64::INFINITY, f64::NEG_INFINITY), |(a, b), y| {
+        (a.min(y), b.max(y))
+    });
+    let (lo, hi) = if lo < hi {
+        (lo.floor(), hi.ceil())
+    } else {
+        (-3.0, 0.0)
+    };
+    let x_end = h.curve.last().map_or(80.0, |c| c.0);
+    sex_curves_figure(
+        "hazard",
+        "Mortality by sex (Gompertz hazard; median over joint draws, 95% interval)",
+        ("age (years)", "deaths per person-year (log scale)"),
+        (h.start..x_end, lo..hi),
+        // One label per power of ten.
+        (
+            &|v| crate::report::number::short(10f64.powf(*v), 4),
+            (hi - lo) as usize + 1,
+        ),
+        [&cf, &cm],
+    )
 }
 
 /// Reliability of predicted probabilities: for each bin of P(female), the share of

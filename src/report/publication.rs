@@ -234,6 +234,42 @@ pub fn by_sex_tables(r: &AnalysisResult) -> Result<OutputSet, RenderError> {
     if let Some(lt) = &by_sex.life_tables {
         files.push("life_table.csv", life_table_csv(lt)?);
     }
+    if let Some(h) = &by_sex.hazards {
+        let mut rows = vec![header(&["quantity", "age", "estimate", "lo", "hi"])];
+        let c6 = |x: f64| super::number::cell(x, 6);
+        let (r0, r1) = h.range;
+        for (q, v) in [
+            ("alpha_female", h.alpha_female),
+            ("beta_female", h.beta_female),
+            ("alpha_male", h.alpha_male),
+            ("beta_male", h.beta_male),
+            ("hazard_ratio_female_male", h.hazard_ratio),
+            ("p_female_higher", (h.p_female_higher, f64::NAN, f64::NAN)),
+        ] {
+            let age = if q.starts_with("hazard_ratio") || q.starts_with("p_female") {
+                format!(
+                    "{}-{}",
+                    super::number::short(r0, 1),
+                    super::number::short(r1, 1)
+                )
+            } else {
+                String::new()
+            };
+            rows.push(vec![q.to_string(), age, c6(v.0), c6(v.1), c6(v.2)]);
+        }
+        for (age, f, m) in &h.curve {
+            for (q, v) in [("hazard_female", f), ("hazard_male", m)] {
+                rows.push(vec![
+                    q.to_string(),
+                    super::number::cell(*age, 0),
+                    c6(v.0),
+                    c6(v.1),
+                    c6(v.2),
+                ]);
+            }
+        }
+        files.push("hazards.csv", csv_bytes(rows)?);
+    }
     if !by_sex.sex_ratio.is_empty() {
         let mut rows = vec![header(&[
             "group",
@@ -414,6 +450,9 @@ pub fn figures_svg(r: &AnalysisResult) -> Result<OutputSet, RenderError> {
             figures::survivorship_figure(lt)?,
         );
     }
+    if let Some(h) = &by_sex.hazards {
+        out.push("figures/hazard.svg", figures::hazard_figure(h)?);
+    }
     // A PNG beside every SVG, for word processors and journals that take raster images.
     let pngs: Vec<(String, Vec<u8>)> = out
         .files
@@ -547,6 +586,11 @@ pub fn references_used(
     refs.push(citations::work("ENFSI 2015"));
     if !by_sex.sex_ratio.is_empty() {
         refs.push(citations::work("Kass & Raftery 1995"));
+    }
+    if by_sex.hazards.is_some() {
+        for key in ["Gompertz 1825", "Wood et al. 2002", "Rubin 1987"] {
+            refs.push(citations::work(key));
+        }
     }
     if by_sex.age.is_some() && by_sex.life_tables.is_some() {
         for key in [
@@ -741,6 +785,14 @@ pub fn methods_md(r: &AnalysisResult) -> String {
             );
         }
     }
+    if let Some(h) = &by_sex.hazards {
+        let _ = write!(
+            s,
+            "Adult mortality by sex was modelled by a Gompertz hazard (Gompertz, 1825) fitted by maximum likelihood to the ages at death as recorded, interval-censored (Wood et al., 2002), in each joint draw of sex, with a draw from each fit's normal approximation pooled over the draws (Rubin, 1987); the sexes were compared by the ratio of their cumulative hazards over ages {} to {}. ",
+            crate::report::number::short(h.range.0, 1),
+            crate::report::number::short(h.range.1, 1)
+        );
+    }
     if let Some(x) = by_sex.sex_ratio.first() {
         let _ = write!(
             s,
@@ -878,6 +930,7 @@ pub fn report_md_and_tex(r: &AnalysisResult, files: &[String]) -> (String, Strin
         sex_ratio_section,
         age_section,
         life_table_section,
+        hazard_section,
         prevalence_section,
         recalibration_section,
     ] {
@@ -889,6 +942,7 @@ pub fn report_md_and_tex(r: &AnalysisResult, files: &[String]) -> (String, Strin
         ("figures/pi_posterior.png", "Posterior of the proportion female of the assemblage (as one population) under each prior that is not fixed."),
         ("figures/lr_by_region.png", "log10 likelihood ratio of each body region for each individual with usable evidence."),
         ("figures/age_at_death.png", "Age at death by sex over the joint posterior draws."),
+        ("figures/hazard.png", "Gompertz hazard of death by sex from the adult start (median over the joint posterior draws, 95% interval dotted), on a log scale."),
         ("figures/survivorship.png", "Survivorship (lx, per cent entering each age class) by sex over the joint posterior draws, with the 95% interval of the population's table (dotted)."),
     ];
     let shown: Vec<&(&str, &str)> = captions
@@ -1265,6 +1319,46 @@ fn age_section(r: &AnalysisResult, m: &mut String, t: &mut String) {
         let _ = writeln!(t, "\\bottomrule\n\\end{{tabular}}\n\\end{{table}}\n");
         let _ = writeln!(m);
     }
+}
+
+/// Adult mortality by sex: the Gompertz parameters and the comparison over the age range.
+fn hazard_section(r: &AnalysisResult, m: &mut String, t: &mut String) {
+    let Some(h) = &r.by_sex.hazards else {
+        return;
+    };
+    let short = |x: f64| crate::report::number::short(x, 1);
+    let (r0, r1) = (short(h.range.0), short(h.range.1));
+    let _ = writeln!(
+        m,
+        "## Mortality by sex\n\nA Gompertz hazard h(x) = α e^(β(x − {start})) fitted by maximum likelihood to the ages at death as recorded (points, intervals and open classes, without closing them), for each sex in each of {} joint draws of sex, with a draw from each fit's normal approximation so that the intervals carry the sampling of the dead as well as the uncertainty in sex ({} individuals with evidence of sex and an age from {start} years{}). Medians and 95% intervals:\n",
+        h.draws - h.draws_failed,
+        h.n_with_age,
+        left_out_clause(&r.by_sex),
+        start = short(h.start),
+    );
+    let g = |x: (f64, f64, f64)| {
+        format!(
+            "{} ({})",
+            crate::report::number::reading(x.0, 4),
+            range(x.1, x.2, |v| crate::report::number::reading(v, 4))
+        )
+    };
+    let _ = writeln!(m, "| | α (per year at {}) | β (per year) |\n|---|---|---|\n| females | {} | {} |\n| males | {} | {} |\n", short(h.start), g(h.alpha_female), g(h.beta_female), g(h.alpha_male), g(h.beta_male));
+    let _ = writeln!(
+        m,
+        "Over ages {r0} to {r1}, the females' cumulative hazard is {} times the males' (95% interval {}); P(women died faster than men at these ages) = {}.{}\n",
+        f3(h.hazard_ratio.0),
+        range(h.hazard_ratio.1, h.hazard_ratio.2, f3),
+        f3(h.p_female_higher),
+        if h.draws_failed > 0 {
+            format!(" In {} draws a sex had too few ages for a fit; they are left out.", h.draws_failed)
+        } else {
+            String::new()
+        }
+    );
+    let _ = writeln!(t, "\\begin{{table}}\n\\centering\n\\caption{{Gompertz mortality by sex over the joint posterior draws (medians, 95\\% intervals); hazard ratio F:M of the cumulative hazards over ages {r0} to {r1}.}}\n\\begin{{tabular}}{{lrr}}\n\\toprule\n & $\\alpha$ & $\\beta$ \\\\\n\\midrule\nFemales & {} & {} \\\\\nMales & {} & {} \\\\\n\\midrule\nHazard ratio F:M & \\multicolumn{{2}}{{r}}{{{}}} \\\\\n\\bottomrule\n\\end{{tabular}}\n\\end{{table}}\n",
+        tex(&g(h.alpha_female)), tex(&g(h.beta_female)), tex(&g(h.alpha_male)), tex(&g(h.beta_male)),
+        tex(&format!("{} ({})", f3(h.hazard_ratio.0), range(h.hazard_ratio.1, h.hazard_ratio.2, f3))));
 }
 
 /// The sex ratio of the assemblage and of each group against the reference.

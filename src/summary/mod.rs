@@ -7,6 +7,7 @@
 //! have it).
 
 pub mod by_sex;
+pub mod hazard;
 pub mod life_table;
 pub mod numeric;
 pub mod prevalence;
@@ -16,6 +17,7 @@ pub use by_sex::{
     age_by_sex, category_by_age, outcome_column, AgeBySex, AgeClassRow, OutcomeColumn,
     OutcomeValues, AGE_CLASSES, OPEN_CLASS_END,
 };
+pub use hazard::{hazards_by_sex, HazardsBySex, DEFAULT_HAZARD_AGES};
 pub use life_table::{life_tables, AgeClasses, LifeTables, DEFAULT_LIFE_TABLE_CLASSES};
 pub use numeric::{numeric_by_sex, NumericBySex};
 pub use prevalence::{prevalence_by_sex, ChainLength, PrevalenceBySex, SexEvidence, SexRatioPrior};
