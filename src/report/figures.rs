@@ -727,6 +727,128 @@ pub fn hazard_figure(h: &crate::summary::HazardsBySex) -> Result<String, FigureE
     )
 }
 
+/// The sex ratio (males per 100 females) of the assemblage and of each group: the posterior
+/// median as a dot, the 95% interval as a bar, and the reference ratio as a dashed line, on a
+/// log scale (a ratio of 50 is as far below 100 as 200 is above).
+///
+/// # Errors
+/// [`FigureError`] when plotting fails.
+pub fn sex_ratio_figure(tests: &[crate::summary::SexRatioTest]) -> Result<String, FigureError> {
+    register_font();
+    let name = "sex_ratio";
+    let reference = tests.first().map_or(105.0, |t| t.reference);
+    let values = tests
+        .iter()
+        .flat_map(|t| [t.lo, t.hi, t.median])
+        .chain(std::iter::once(reference))
+        .filter(|v| v.is_finite() && *v > 0.0)
+        .map(f64::log10);
+    let (lo, hi) = values.fold((f64::INFINITY, f64::NEG_INFINITY), |(a, b), v| {
+        (a.min(v), b.max(v))
+    });
+    let (lo, hi) = if lo < hi {
+        (lo - 0.1, hi + 0.1)
+    } else {
+        (1.0, 3.0)
+    };
+    let k = tests.len().max(1);
+    let mut s = String::new();
+    {
+        let root = SVGBackend::with_string(&mut s, (800, 420)).into_drawing_area();
+        root.fill(&WHITE).map_err(fail(name))?;
+        let (chart, legend) = root.split_horizontally(800 - LEGEND_WIDTH);
+        let mut c = ChartBuilder::on(&chart)
+            .caption(
+                "Sex ratio by group (posterior median, 95% interval) against the reference",
+                ("sans-serif", 16),
+            )
+            .margin(12)
+            .x_label_area_size(40)
+            .y_label_area_size(64)
+            .build_cartesian_2d(0f64..k as f64, lo..hi)
+            .map_err(fail(name))?;
+        c.configure_mesh()
+            .light_line_style(TRANSPARENT)
+            .bold_line_style(RGBColor(215, 215, 215))
+            .disable_x_mesh()
+            .disable_y_mesh()
+            .x_labels(0)
+            .y_labels(0)
+            .y_desc("males per 100 females (log scale)")
+            .draw()
+            .map_err(fail(name))?;
+        // Grid lines and labels at 1, 2 and 5 times the powers of ten within the range.
+        let ticks: Vec<f64> = (-1..5)
+            .flat_map(|e| [1.0, 2.0, 5.0].map(|m| m * 10f64.powi(e)))
+            .filter(|v| (lo..=hi).contains(&v.log10()))
+            .collect();
+        let label_style = TextStyle::from(("sans-serif", 12).into_font())
+            .pos(Pos::new(HPos::Right, VPos::Center));
+        for v in &ticks {
+            c.draw_series(std::iter::once(PathElement::new(
+                vec![(0.0, v.log10()), (k as f64, v.log10())],
+                RGBColor(215, 215, 215).stroke_width(1),
+            )))
+            .map_err(fail(name))?;
+            let (px, py) = c.backend_coord(&(0.0, v.log10()));
+            root.draw(&Text::new(
+                crate::report::number::short(*v, 1),
+                (px - 6, py),
+                label_style.clone(),
+            ))
+            .map_err(fail(name))?;
+        }
+        let reference_look = Look::Line(RGBColor(90, 90, 90), 1, Some((6, 4)));
+        c.draw_series(std::iter::once(plotters::element::DashedPathElement::new(
+            vec![(0.0, reference.log10()), (k as f64, reference.log10())],
+            6,
+            4,
+            RGBColor(90, 90, 90).stroke_width(1),
+        )))
+        .map_err(fail(name))?;
+        let dot = Look::Marker(BLACK, Shape::Dot);
+        for (i, t) in tests.iter().enumerate() {
+            let x = i as f64 + 0.5;
+            if t.lo > 0.0 && t.hi.is_finite() {
+                c.draw_series(std::iter::once(PathElement::new(
+                    vec![(x, t.lo.log10()), (x, t.hi.log10())],
+                    BLACK.stroke_width(2),
+                )))
+                .map_err(fail(name))?;
+            }
+            if t.median > 0.0 && t.median.is_finite() {
+                c.draw_series(std::iter::once(marker(
+                    BLACK,
+                    Shape::Dot,
+                    (x, t.median.log10()),
+                )))
+                .map_err(fail(name))?;
+            }
+        }
+        draw_legend(
+            &legend,
+            &[
+                ("median".to_string(), dot),
+                (
+                    format!("reference {}", crate::report::number::short(reference, 1)),
+                    reference_look,
+                ),
+            ],
+            name,
+        )?;
+        let style =
+            TextStyle::from(("sans-serif", 12).into_font()).pos(Pos::new(HPos::Center, VPos::Top));
+        for (i, t) in tests.iter().enumerate() {
+            let (px, py) = c.backend_coord(&(i as f64 + 0.5, lo));
+            let label = t.group.clone().unwrap_or_else(|| "all".into());
+            root.draw(&Text::new(label, (px, py + 6), style.clone()))
+                .map_err(fail(name))?;
+        }
+        root.present().map_err(fail(name))?;
+    }
+    Ok(s)
+}
+
 /// Reliability of predicted probabilities: for each bin of P(female), the share of
 /// documented females (dots, with 95% Wilson intervals as bars) against the mean predicted
 /// P(female); the dashed diagonal is perfect calibration. `bins` holds

@@ -453,6 +453,14 @@ pub fn figures_svg(r: &AnalysisResult) -> Result<OutputSet, RenderError> {
     if let Some(h) = &by_sex.hazards {
         out.push("figures/hazard.svg", figures::hazard_figure(h)?);
     }
+    // Drawn for up to 40 groups (their names must stay legible under the chart; a choice of
+    // ours); sex_ratio.csv holds every group.
+    if (2..=41).contains(&by_sex.sex_ratio.len()) {
+        out.push(
+            "figures/sex_ratio.svg",
+            figures::sex_ratio_figure(&by_sex.sex_ratio)?,
+        );
+    }
     // A PNG beside every SVG, for word processors and journals that take raster images.
     let pngs: Vec<(String, Vec<u8>)> = out
         .files
@@ -942,6 +950,7 @@ pub fn report_md_and_tex(r: &AnalysisResult, files: &[String]) -> (String, Strin
         ("figures/pi_posterior.png", "Posterior of the proportion female of the assemblage (as one population) under each prior that is not fixed."),
         ("figures/lr_by_region.png", "log10 likelihood ratio of each body region for each individual with usable evidence."),
         ("figures/age_at_death.png", "Age at death by sex over the joint posterior draws."),
+        ("figures/sex_ratio.png", "Sex ratio (males per 100 females) of the assemblage and of each group on its own: posterior median (dot) and 95% interval (bar), against the reference ratio (dashed), on a log scale."),
         ("figures/hazard.png", "Gompertz hazard of death by sex from the adult start (median over the joint posterior draws, 95% interval dotted), on a log scale."),
         ("figures/survivorship.png", "Survivorship (lx, per cent entering each age class) by sex over the joint posterior draws, with the 95% interval of the population's table (dotted)."),
     ];

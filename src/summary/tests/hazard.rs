@@ -112,3 +112,78 @@ fn females_dying_younger_show_in_the_ratio_over_18_to_35() {
     assert_eq!(h.curve.first().map(|c| c.0), Some(18.0));
     assert_eq!(h.curve.last().map(|c| c.0), Some(80.0));
 }
+
+/// Coverage over simulated cemeteries: `reps` cemeteries of 300 adults, half female, with
+/// known Gompertz hazards, ages recorded in ten-year intervals from 18 (open from 58), each
+/// P(female) from `p_of`, and `n_draws` joint draws. Returns the share of cemeteries whose interval holds the truth for
+/// the females' α and β and for the ratio of cumulative hazards over 18–35.
+fn hazard_coverage(
+    reps: usize,
+    n_draws: usize,
+    p_of: fn(&mut ChaCha8Rng, bool) -> f64,
+) -> [f64; 3] {
+    let truth = [
+        Gompertz {
+            ln_alpha: 0.012f64.ln(),
+            beta: 0.035,
+        },
+        Gompertz {
+            ln_alpha: 0.006f64.ln(),
+            beta: 0.05,
+        },
+    ];
+    let ratio = (truth[0].cumulative(17.0)) / (truth[1].cumulative(17.0));
+    let mut rng = ChaCha8Rng::seed_from_u64(1825);
+    let mut held = [0usize; 3];
+    for _ in 0..reps {
+        let (mut ages, mut p) = (Vec::new(), Vec::new());
+        for i in 0..300 {
+            let female = i % 2 == 0;
+            let g = &truth[usize::from(!female)];
+            let u: f64 = 1.0 - rng.random::<f64>();
+            let t = (g.beta * -u.ln() / g.ln_alpha.exp()).ln_1p() / g.beta;
+            let lo = 18.0 + 10.0 * (t / 10.0).floor();
+            ages.push(Some(if lo >= 58.0 {
+                (58.0, None)
+            } else {
+                (lo, Some(lo + 10.0))
+            }));
+            p.push(p_of(&mut rng, female));
+        }
+        let draws: Vec<Vec<bool>> = (0..n_draws)
+            .map(|_| p.iter().map(|&q| rng.random::<f64>() < q).collect())
+            .collect();
+        let h = hazards_by_sex(&ages, &draws, 18.0, DEFAULT_HAZARD_AGES, rng.random());
+        let inside = |v: (f64, f64, f64), x: f64| v.1 <= x && x <= v.2;
+        held[0] += usize::from(inside(h.alpha_female, 0.012));
+        held[1] += usize::from(inside(h.beta_female, 0.035));
+        held[2] += usize::from(inside(h.hazard_ratio, ratio));
+    }
+    held.map(|h| h as f64 / reps as f64)
+}
+
+#[test]
+fn hazard_intervals_cover_the_generating_values() {
+    let cov = hazard_coverage(100, 100, |_, female| f64::from(u8::from(female)));
+    eprintln!("coverage of alpha_F, beta_F, ratio 18-35 (certain sexes): {cov:?}");
+    for c in cov {
+        assert!((0.88..=1.0).contains(&c), "coverage {cov:?}");
+    }
+}
+
+#[test]
+#[ignore = "heavy: 400 simulated cemeteries with uncertain sexes; cargo test --release -- --ignored hazard_intervals"]
+fn hazard_intervals_cover_the_generating_values_with_uncertain_sexes() {
+    let cov = hazard_coverage(400, 200, |rng, female| {
+        let p = 0.7 + 0.29 * rng.random::<f64>();
+        if female {
+            p
+        } else {
+            1.0 - p
+        }
+    });
+    eprintln!("coverage of alpha_F, beta_F, ratio 18-35 (uncertain sexes): {cov:?}");
+    for c in cov {
+        assert!((0.90..=0.99).contains(&c), "coverage {cov:?}");
+    }
+}
