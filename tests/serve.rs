@@ -137,14 +137,29 @@ fn page_and_command_line_agree_with_file(
 
 #[test]
 fn the_page_s_zip_holds_the_command_line_s_files_byte_for_byte() {
-    let options =
-        serde_json::json!({"group_by": "phase", "draws": 200, "by_sex": ["cribra_orbitalia"]});
+    let options = serde_json::json!({
+        "group_by": "phase",
+        "draws": 200,
+        "by_sex": ["cribra_orbitalia", "stature_cm"],
+        "life_table_classes": "20-30,30-40,40+",
+        "reference_ratio": 100.0,
+        "hazard_ages": "20-40",
+    });
     let names = page_and_command_line_agree("mirefold.csv", &demo_bytes(), &options);
-    assert!(names.iter().any(|n| n == "individuals.csv"));
-    assert!(names.iter().any(|n| n == "figures/p_female.png"));
+    for file in [
+        "individuals.csv",
+        "figures/p_female.png",
+        "by_sex_numeric.csv",
+        "life_table.csv",
+        "hazards.csv",
+        "sex_ratio.csv",
+        "figures/sex_ratio.svg",
+    ] {
+        assert!(names.iter().any(|n| n == file), "{file} missing");
+    }
     assert_eq!(
         names.last().unwrap(),
-        "tessera analyse mirefold.csv --out results --group-by phase --draws 200 --by-sex cribra_orbitalia"
+        "tessera analyse mirefold.csv --out results --group-by phase --draws 200 --by-sex cribra_orbitalia --by-sex stature_cm --life-table-classes 20-30,30-40,40+ --reference-ratio 100 --hazard-ages 20-40"
     );
 }
 

@@ -310,8 +310,14 @@ pub struct PageOptions {
     pub group_by: String,
     /// Which side of a bilateral trait to use: `left-first`, `right-first` or `both`.
     pub sides: String,
-    /// 0/1 columns to compare between the sexes.
+    /// Columns to compare between the sexes: 0/1 conditions or numbers.
     pub by_sex: Vec<String>,
+    /// Age classes of the life tables.
+    pub life_table_classes: String,
+    /// The reference sex ratio, males per 100 females.
+    pub reference_ratio: f64,
+    /// The age range of the comparison of mortality.
+    pub hazard_ages: String,
     /// Joint posterior draws to write.
     pub draws: Option<usize>,
     /// Recalibrate the measurements.
@@ -342,6 +348,9 @@ impl Default for PageOptions {
             group_by: String::new(),
             sides: "left-first".into(),
             by_sex: Vec::new(),
+            life_table_classes: d.life_table_classes,
+            reference_ratio: d.reference_ratio,
+            hazard_ages: d.hazard_ages,
             draws: None,
             recalibrate: false,
             seed: d.seed,
@@ -372,6 +381,9 @@ impl PageOptions {
             thresholds: self.thresholds.clone(),
             draws: self.draws,
             by_sex: self.by_sex.clone(),
+            life_table_classes: self.life_table_classes.clone(),
+            reference_ratio: self.reference_ratio,
+            hazard_ages: self.hazard_ages.clone(),
             recalibrate: self.recalibrate,
             seed: self.seed,
             read: ReadOptions {
@@ -431,6 +443,15 @@ fn command_of(table: &str, o: &AnalysisOptions) -> Vec<String> {
     }
     for b in &o.by_sex {
         opt("--by-sex", b.clone());
+    }
+    if o.life_table_classes != d.life_table_classes {
+        opt("--life-table-classes", o.life_table_classes.clone());
+    }
+    if o.reference_ratio != d.reference_ratio {
+        opt("--reference-ratio", o.reference_ratio.to_string());
+    }
+    if o.hazard_ages != d.hazard_ages {
+        opt("--hazard-ages", o.hazard_ages.clone());
     }
     if o.seed != d.seed {
         opt("--seed", o.seed.to_string());
