@@ -335,6 +335,7 @@ impl ValidatedOptions {
                     &draws.female,
                     model.minimum_age,
                     self.hazard_ages,
+                    crate::summary::hazard::MAKEHAM_DRAWS,
                     seed,
                 )
             }),

@@ -50,6 +50,7 @@ const FULL_REFERENCES: &[(&str, &str)] = &[
     // From memory.
     // From memory (mortality by sex).
     ("Gompertz 1825", "Gompertz, B. (1825). On the nature of the function expressive of the law of human mortality, and on a new mode of determining the value of life contingencies. Philosophical Transactions of the Royal Society of London, 115, 513–583."),
+    ("Makeham 1860", "Makeham, W. M. (1860). On the law of mortality and the construction of annuity tables. The Assurance Magazine, and Journal of the Institute of Actuaries, 8, 301–310."),
     ("Wood et al. 2002", "Wood, J. W., Holman, D. J., O'Connor, K. A., & Ferrell, R. J. (2002). Mortality models for paleodemography. In R. D. Hoppa & J. W. Vaupel (Eds.), Paleodemography: Age distributions from skeletal samples (pp. 129–168). Cambridge: Cambridge University Press."),
     ("Rubin 1987", "Rubin, D. B. (1987). Multiple imputation for nonresponse in surveys. New York: Wiley."),
     // From memory (the sex ratio against a reference).

@@ -109,7 +109,7 @@ pub const COLUMNS: &[Entry] = &[
     ("by_sex_numeric.csv", "lo", "2.5% posterior quantile; empty for p_female_higher, rhat and effective_draws", "as estimate", ANY),
     ("by_sex_numeric.csv", "hi", "97.5% posterior quantile; empty as lo", "as estimate", ANY),
     // hazards.csv
-    ("hazards.csv", "quantity", "alpha_female, alpha_male (the Gompertz hazard at the adult start, per year); beta_female, beta_male (its rate of increase, per year); hazard_ratio_female_male (females' cumulative hazard over the age range divided by the males'); p_female_higher (P(that ratio > 1)); hazard_female, hazard_male (the hazard at the age in `age`, per year)", "", "text"),
+    ("hazards.csv", "quantity", "alpha_female, alpha_male (the Gompertz hazard at the adult start, per year); beta_female, beta_male (its rate of increase, per year); hazard_ratio_female_male (females' cumulative hazard over the age range divided by the males'); p_female_higher (P(that ratio > 1)); makeham_identifiable_*, makeham_lambda_*, makeham_lr_statistic_* (a Makeham term λ added to the hazard, tried in the first draws: the share of them where it was identifiable, λ per year, and the likelihood-ratio statistic against Gompertz alone); hazard_female, hazard_male (the hazard at the age in `age`, per year)", "", "text"),
     ("hazards.csv", "age", "the age range of the comparison (from-to), or the age of a hazard; empty for the parameters", "years", "text"),
     ("hazards.csv", "estimate", "median over the joint draws (the probability for p_female_higher)", "as the quantity says", ANY),
     ("hazards.csv", "lo", "2.5% quantile over the draws; empty for p_female_higher", "as estimate", ANY),

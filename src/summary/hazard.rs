@@ -29,6 +29,11 @@ use serde::Serialize;
 /// 97.5% quantiles of 400 draws move by about 1% of the interval's width).
 pub const MAX_HAZARD_DRAWS: usize = 400;
 
+/// Draws in which the Makeham term is tried (its summary is a share and a median; six
+/// three-parameter fits per sex and draw cost more than everything else here: a choice of
+/// ours).
+pub const MAKEHAM_DRAWS: usize = 20;
+
 /// The age range of the comparison unless the user sets one: the childbearing years of the
 /// usual question (common practice).
 pub const DEFAULT_HAZARD_AGES: (f64, f64) = (18.0, 35.0);
@@ -96,85 +101,195 @@ pub struct Fit {
 /// 1e-12 times the third derivative, rounding about 1e-16 |f| / 1e-6: both far below the
 /// stopping rule) and 1e-4 for the Hessian (the log-likelihood is smooth and cheap on grouped
 /// ages).
-fn derivatives(f: &dyn Fn(f64, f64) -> f64, x: f64, y: f64) -> ([f64; 2], [[f64; 2]; 2]) {
+// Indexed loops: the matrix formulas read as written.
+#[allow(clippy::needless_range_loop)]
+fn derivatives(f: &dyn Fn(&[f64]) -> f64, x: &[f64]) -> (Vec<f64>, Vec<Vec<f64>>) {
     let (e, h) = (1e-6, 1e-4);
-    let f0 = f(x, y);
-    let (fxp, fxm, fyp, fym) = (f(x + h, y), f(x - h, y), f(x, y + h), f(x, y - h));
-    let fxy =
-        (f(x + h, y + h) - f(x + h, y - h) - f(x - h, y + h) + f(x - h, y - h)) / (4.0 * h * h);
-    (
-        [
-            (f(x + e, y) - f(x - e, y)) / (2.0 * e),
-            (f(x, y + e) - f(x, y - e)) / (2.0 * e),
-        ],
-        [
-            [(fxp - 2.0 * f0 + fxm) / (h * h), fxy],
-            [fxy, (fyp - 2.0 * f0 + fym) / (h * h)],
-        ],
-    )
+    let n = x.len();
+    let at = |d: &[(usize, f64)]| {
+        let mut y = x.to_vec();
+        for &(i, s) in d {
+            y[i] += s;
+        }
+        f(&y)
+    };
+    let f0 = f(x);
+    let grad = (0..n)
+        .map(|i| (at(&[(i, e)]) - at(&[(i, -e)])) / (2.0 * e))
+        .collect();
+    let mut hess = vec![vec![0.0; n]; n];
+    for i in 0..n {
+        hess[i][i] = (at(&[(i, h)]) - 2.0 * f0 + at(&[(i, -h)])) / (h * h);
+        for j in 0..i {
+            let v = (at(&[(i, h), (j, h)]) - at(&[(i, h), (j, -h)]) - at(&[(i, -h), (j, h)])
+                + at(&[(i, -h), (j, -h)]))
+                / (4.0 * h * h);
+            hess[i][j] = v;
+            hess[j][i] = v;
+        }
+    }
+    (grad, hess)
 }
 
-/// Fit by Newton's method with step halving from a start near adult human mortality
-/// (α = 0.01, β = 0.05); `None` without at least two ages or when no maximum is found (a sex
-/// whose every death is in one open class, for instance).
+/// The inverse of a symmetric positive definite matrix by its Cholesky factor; `None` when the
+/// matrix is not positive definite.
+#[allow(clippy::needless_range_loop)]
+fn spd_inverse(a: &[Vec<f64>]) -> Option<Vec<Vec<f64>>> {
+    let n = a.len();
+    let mut l = vec![vec![0.0; n]; n];
+    for i in 0..n {
+        for j in 0..=i {
+            let s: f64 = a[i][j] - (0..j).map(|k| l[i][k] * l[j][k]).sum::<f64>();
+            if i == j {
+                if !(s > 0.0) {
+                    return None;
+                }
+                l[i][i] = s.sqrt();
+            } else {
+                l[i][j] = s / l[j][j];
+            }
+        }
+    }
+    // Columns of the inverse: solve L Lᵀ x = eₖ.
+    let mut inv = vec![vec![0.0; n]; n];
+    for k in 0..n {
+        let mut y = vec![0.0; n];
+        for i in 0..n {
+            let b = if i == k { 1.0 } else { 0.0 };
+            y[i] = (b - (0..i).map(|j| l[i][j] * y[j]).sum::<f64>()) / l[i][i];
+        }
+        for i in (0..n).rev() {
+            let v = (y[i] - (i + 1..n).map(|j| l[j][i] * inv[j][k]).sum::<f64>()) / l[i][i];
+            inv[i][k] = v;
+        }
+    }
+    Some(inv)
+}
+
+/// The maximum of a smooth log-likelihood by Newton's method with step halving (a small
+/// gradient step where the Hessian is not negative definite), from `start`: the point, the
+/// covariance (the inverse of the observed information) and the maximum; `None` when no
+/// maximum with a negative definite Hessian is found.
+fn maximise(f: &dyn Fn(&[f64]) -> f64, start: Vec<f64>) -> Option<(Vec<f64>, Vec<Vec<f64>>, f64)> {
+    let n = start.len();
+    let mut x = start;
+    let mut current = f(&x);
+    for _ in 0..200 {
+        let (g, h) = derivatives(f, &x);
+        let minus: Vec<Vec<f64>> = h.iter().map(|r| r.iter().map(|v| -v).collect()).collect();
+        let mut step: Vec<f64> = match spd_inverse(&minus) {
+            Some(c) => (0..n)
+                .map(|i| (0..n).map(|j| c[i][j] * g[j]).sum())
+                .collect(),
+            None => g.iter().map(|v| 1e-3 * v).collect(),
+        };
+        let mut moved = false;
+        for _ in 0..40 {
+            let next_x: Vec<f64> = x.iter().zip(&step).map(|(a, d)| a + d).collect();
+            let next = f(&next_x);
+            if next.is_finite() && next >= current - 1e-12 {
+                x = next_x;
+                current = next;
+                moved = true;
+                break;
+            }
+            step.iter_mut().for_each(|d| *d /= 2.0);
+        }
+        if !moved || step.iter().all(|d| d.abs() < 1e-10) {
+            break;
+        }
+    }
+    let (g, h) = derivatives(f, &x);
+    let minus: Vec<Vec<f64>> = h.iter().map(|r| r.iter().map(|v| -v).collect()).collect();
+    let cov = spd_inverse(&minus)?;
+    // Converged: the remaining Newton step is tiny on the scale of the standard errors.
+    let newton: f64 = (0..n)
+        .map(|i| (0..n).map(|j| cov[i][j] * g[j]).sum::<f64>() / cov[i][i].sqrt())
+        .map(f64::abs)
+        .fold(0.0, f64::max);
+    (newton < 1e-3).then_some((x, cov, current))
+}
+
+/// Fit by Newton's method from a start near adult human mortality (α = 0.01, β = 0.05);
+/// `None` without at least two ages or when no maximum is found (a sex whose every death is
+/// in one open class, for instance).
 pub fn fit(ages: &[(f64, Option<f64>, f64)]) -> Option<Fit> {
     let n: f64 = ages.iter().map(|a| a.2).sum();
     if n < 2.0 {
         return None;
     }
-    let ll = |x: f64, y: f64| {
+    let ll = |p: &[f64]| {
         log_likelihood(
             &Gompertz {
-                ln_alpha: x,
-                beta: y,
+                ln_alpha: p[0],
+                beta: p[1],
             },
             ages,
         )
     };
-    let (mut x, mut y) = (0.01f64.ln(), 0.05);
-    let mut current = ll(x, y);
-    for _ in 0..200 {
-        let (g, hss) = derivatives(&ll, x, y);
-        let det = hss[0][0] * hss[1][1] - hss[0][1] * hss[1][0];
-        // Newton's step where the Hessian is negative definite, else a gradient step.
-        let (mut dx, mut dy) = if hss[0][0] < 0.0 && det > 0.0 {
-            (
-                -(hss[1][1] * g[0] - hss[0][1] * g[1]) / det,
-                -(-hss[1][0] * g[0] + hss[0][0] * g[1]) / det,
-            )
-        } else {
-            (0.01 * g[0], 0.001 * g[1])
-        };
-        let mut moved = false;
-        for _ in 0..40 {
-            let next = ll(x + dx, y + dy);
-            if next.is_finite() && next >= current - 1e-12 {
-                x += dx;
-                y += dy;
-                current = next;
-                moved = true;
-                break;
-            }
-            dx /= 2.0;
-            dy /= 2.0;
-        }
-        if !moved || (dx.abs() < 1e-10 && dy.abs() < 1e-10) {
-            break;
-        }
-    }
-    let (g, hss) = derivatives(&ll, x, y);
-    let det = hss[0][0] * hss[1][1] - hss[0][1] * hss[1][0];
-    let converged = g[0].abs() < 1e-4 && g[1].abs() < 1e-3 && hss[0][0] < 0.0 && det > 0.0;
-    converged.then(|| Fit {
+    let (x, c, value) = maximise(&ll, vec![0.01f64.ln(), 0.05])?;
+    Some(Fit {
         at: Gompertz {
-            ln_alpha: x,
-            beta: y,
+            ln_alpha: x[0],
+            beta: x[1],
         },
-        cov: [
-            [-hss[1][1] / det, hss[0][1] / det],
-            [hss[1][0] / det, -hss[0][0] / det],
-        ],
-        log_likelihood: current,
+        cov: [[c[0][0], c[0][1]], [c[1][0], c[1][1]]],
+        log_likelihood: value,
+    })
+}
+
+/// ln-likelihood of grouped ages under Gompertz–Makeham, h(t) = λ + α e^{βt} (Makeham 1860,
+/// from memory): H(t) = λt + the Gompertz H(t).
+pub fn makeham_log_likelihood(
+    ln_lambda: f64,
+    g: &Gompertz,
+    ages: &[(f64, Option<f64>, f64)],
+) -> f64 {
+    let lambda = ln_lambda.exp();
+    let big_h = |t: f64| lambda * t + g.cumulative(t);
+    ages.iter()
+        .map(|&(a, b, n)| {
+            let ha = big_h(a);
+            n * match b {
+                Some(b) if b <= a => (lambda + g.hazard(a)).ln() - ha,
+                Some(b) => -ha + (-(-(big_h(b) - ha)).exp_m1()).ln(),
+                None => -ha,
+            }
+        })
+        .sum()
+}
+
+/// The Makeham term of one sex where it is identifiable: λ and the likelihood-ratio statistic
+/// 2(ln L_Makeham − ln L_Gompertz); `None` when the three-parameter fit finds no maximum
+/// (λ running to 0 or the information singular: the data cannot separate the term).
+pub fn makeham(ages: &[(f64, Option<f64>, f64)], gompertz: &Fit) -> Option<(f64, f64)> {
+    let ll = |p: &[f64]| {
+        makeham_log_likelihood(
+            p[0],
+            &Gompertz {
+                ln_alpha: p[1],
+                beta: p[2],
+            },
+            ages,
+        )
+    };
+    // Several starts: a share f of the Gompertz hazard at x₀ given to λ, the rest to α, with
+    // β as fitted and steeper (Makeham's α is smaller and its β larger than Gompertz's alone);
+    // the best maximum found is kept.
+    let a = gompertz.at.ln_alpha.exp();
+    let (x, cov, value) = [0.25, 0.5, 0.8]
+        .iter()
+        .flat_map(|&f| {
+            [1.0, 2.0].map(|m| vec![(f * a).ln(), ((1.0 - f) * a).ln(), m * gompertz.at.beta])
+        })
+        .filter_map(|start| maximise(&ll, start))
+        .max_by(|p, q| p.2.total_cmp(&q.2))?;
+    // Not identifiable where λ's interval reaches 1/1000 of itself (ln λ's SE above 3).
+    (cov[0][0].sqrt() < 3.0).then(|| {
+        (
+            x[0].exp(),
+            (2.0 * (value - gompertz.log_likelihood)).max(0.0),
+        )
     })
 }
 
@@ -225,6 +340,22 @@ pub struct HazardsBySex {
     pub p_female_higher: f64,
     /// The hazard by sex at each whole age from x₀ to 80: (age, female median/lo/hi, male).
     pub curve: Vec<HazardAtAge>,
+    /// The Makeham term of females and of males (see [`MakehamTerm`]).
+    pub makeham: [MakehamTerm; 2],
+}
+
+/// A Makeham term λ (deaths not from ageing, per year) added to one sex's Gompertz hazard,
+/// over the draws where the three-parameter fit identifies it.
+#[derive(Debug, Clone, Copy, PartialEq, Serialize)]
+pub struct MakehamTerm {
+    /// Share of the draws where λ was identifiable.
+    pub identifiable: f64,
+    /// λ (per year): median and 95% interval of the maximum-likelihood values over those draws.
+    pub lambda: (f64, f64, f64),
+    /// The likelihood-ratio statistic of Makeham against Gompertz alone, median over those
+    /// draws (χ² with one degree of freedom on a boundary: above 2.71 is the 5% level; Self &
+    /// Liang 1987, from memory).
+    pub lr_statistic: f64,
 }
 
 /// Median and 2.5%/97.5% quantiles (type 7) of the finite values.
@@ -267,12 +398,14 @@ fn grouped(ages: &[Option<RecordedAge>], sexes: &[bool], female: bool, start: f6
 }
 
 /// Mortality by sex over the draws (module docs). `ages[i]` is individual i's age as recorded
-/// (`None`: none, or not in the tables by sex); `female[d][i]` its sex in draw d.
+/// (`None`: none, or not in the tables by sex); `female[d][i]` its sex in draw d; the Makeham
+/// term is tried in the first `makeham_draws` draws ([`MAKEHAM_DRAWS`] in an analysis).
 pub fn hazards_by_sex(
     ages: &[Option<RecordedAge>],
     female: &[Vec<bool>],
     start: f64,
     range: (f64, f64),
+    makeham_draws: usize,
     seed: u64,
 ) -> HazardsBySex {
     let mut rng = ChaCha8Rng::seed_from_u64(seed ^ 0x6a2e_d0f1);
@@ -283,12 +416,28 @@ pub fn hazards_by_sex(
     let mut params = [Vec::new(), Vec::new(), Vec::new(), Vec::new()];
     let (mut ratio, mut higher, mut failed) = (Vec::new(), 0usize, 0usize);
     let mut curves = vec![(Vec::new(), Vec::new()); ages_to + 1];
+    let mut lambdas = [Vec::new(), Vec::new()];
+    let mut lambdas_tried = [0usize; 2];
+    let mut statistics = [Vec::new(), Vec::new()];
     for sexes in &used {
-        let fits = [true, false].map(|f| fit(&grouped(ages, sexes, f, start)));
+        let data = [true, false].map(|f| grouped(ages, sexes, f, start));
+        let fits = [fit(&data[0]), fit(&data[1])];
         let [Some(ff), Some(fm)] = fits else {
             failed += 1;
             continue;
         };
+        // The Makeham term on the first `makeham_draws` draws only.
+        let makeham_draws = makeham_draws.min(used.len());
+        for (k, f) in [&ff, &fm].into_iter().enumerate() {
+            if lambdas_tried[k] >= makeham_draws {
+                continue;
+            }
+            lambdas_tried[k] += 1;
+            if let Some((lambda, lr)) = makeham(&data[k], f) {
+                lambdas[k].push(lambda);
+                statistics[k].push(lr);
+            }
+        }
         let (gf, gm) = (draw_near(&ff, &mut rng), draw_near(&fm, &mut rng));
         params[0].push(gf.ln_alpha.exp());
         params[1].push(gf.beta);
@@ -329,6 +478,15 @@ pub fn hazards_by_sex(
             .enumerate()
             .map(|(t, (f, m))| (start + t as f64, median_interval(f), median_interval(m)))
             .collect(),
+        makeham: [0, 1].map(|k| MakehamTerm {
+            identifiable: if lambdas_tried[k] > 0 {
+                lambdas[k].len() as f64 / lambdas_tried[k] as f64
+            } else {
+                0.0
+            },
+            lambda: median_interval(&lambdas[k]),
+            lr_statistic: median_interval(&statistics[k]).0,
+        }),
     }
 }
 
