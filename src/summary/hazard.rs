@@ -373,28 +373,56 @@ fn median_interval(v: &[f64]) -> (f64, f64, f64) {
     (q(0.5), q(0.025), q(0.975))
 }
 
-/// Group the ages of one sex (years after x₀) into distinct intervals with counts.
-fn grouped(ages: &[Option<RecordedAge>], sexes: &[bool], female: bool, start: f64) -> Grouped {
-    let mut g: Grouped = Vec::new();
+/// The distinct recorded intervals (years after x₀) and each individual's index among them
+/// (`None`: no age, or an age wholly before x₀), found once for all draws.
+fn intervals(ages: &[Option<RecordedAge>], start: f64) -> (Vec<RecordedAge>, Vec<Option<usize>>) {
+    let mut distinct: Vec<RecordedAge> = Vec::new();
     let mut index: std::collections::HashMap<(u64, u64), usize> = std::collections::HashMap::new();
-    for (a, &s) in ages.iter().zip(sexes) {
-        let Some((lo, hi)) = *a else { continue };
-        if s != female || hi.is_some_and(|h| h <= start && lo < h) || (hi == Some(lo) && lo < start)
-        {
-            continue;
-        }
-        let t0 = (lo - start).max(0.0);
-        let t1 = hi.map(|h| if h == lo { t0 } else { h - start });
-        let key = (t0.to_bits(), t1.map_or(u64::MAX, f64::to_bits));
-        match index.get(&key) {
-            Some(&k) => g[k].2 += 1.0,
-            None => {
-                index.insert(key, g.len());
-                g.push((t0, t1, 1.0));
+    let of = ages
+        .iter()
+        .map(|a| {
+            let (lo, hi) = (*a)?;
+            if hi.is_some_and(|h| h <= start && lo < h) || (hi == Some(lo) && lo < start) {
+                return None;
             }
+            let t0 = (lo - start).max(0.0);
+            let t1 = hi.map(|h| if h == lo { t0 } else { h - start });
+            let key = (t0.to_bits(), t1.map_or(u64::MAX, f64::to_bits));
+            Some(*index.entry(key).or_insert_with(|| {
+                distinct.push((t0, t1));
+                distinct.len() - 1
+            }))
+        })
+        .collect();
+    (distinct, of)
+}
+
+/// The ages of one sex in one draw, grouped: each distinct interval with its count.
+fn counted(
+    distinct: &[RecordedAge],
+    of: &[Option<usize>],
+    sexes: &[bool],
+    female: bool,
+) -> Grouped {
+    let mut n = vec![0.0; distinct.len()];
+    for (k, &s) in of.iter().zip(sexes) {
+        if let (Some(k), true) = (k, s == female) {
+            n[*k] += 1.0;
         }
     }
-    g
+    distinct
+        .iter()
+        .zip(n)
+        .filter(|(_, n)| *n > 0.0)
+        .map(|(&(a, b), n)| (a, b, n))
+        .collect()
+}
+
+/// Group the ages of one sex (years after x₀) into distinct intervals with counts.
+#[cfg(test)]
+fn grouped(ages: &[Option<RecordedAge>], sexes: &[bool], female: bool, start: f64) -> Grouped {
+    let (distinct, of) = intervals(ages, start);
+    counted(&distinct, &of, sexes, female)
 }
 
 /// Mortality by sex over the draws (module docs). `ages[i]` is individual i's age as recorded
@@ -419,8 +447,9 @@ pub fn hazards_by_sex(
     let mut lambdas = [Vec::new(), Vec::new()];
     let mut lambdas_tried = [0usize; 2];
     let mut statistics = [Vec::new(), Vec::new()];
+    let (distinct, of) = intervals(ages, start);
     for sexes in &used {
-        let data = [true, false].map(|f| grouped(ages, sexes, f, start));
+        let data = [true, false].map(|f| counted(&distinct, &of, sexes, f));
         let fits = [fit(&data[0]), fit(&data[1])];
         let [Some(ff), Some(fm)] = fits else {
             failed += 1;
