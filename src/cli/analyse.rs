@@ -2,8 +2,8 @@
 //! assemblage's proportion of females, with the prior sensitivity analysis.
 
 use super::input::{GroupArgs, InputArgs};
-use crate::output::write_folder;
-use crate::pipeline::{render, AnalysisOptions, ModelChoice};
+use crate::output::FolderWriter;
+use crate::pipeline::{render_each, AnalysisOptions, ModelChoice};
 use crate::report::analysis::terminal_summary;
 use crate::Error;
 use std::path::{Path, PathBuf};
@@ -116,14 +116,21 @@ pub fn run(args: Args) -> Result<i32, Error> {
         super::command_line(),
         &super::TerminalProgress::default(),
     )?;
-    let files = render(&r)?;
     let mut protected: Vec<&Path> = vec![args.file.as_path()];
     protected.extend(args.input.settings_files());
     if let Some(m) = &args.model {
         protected.push(m.as_path());
     }
-    // One transaction: the folder ends holding exactly this run's files, or as it was.
-    write_folder(&args.out, &files, "analyse", &protected)?;
+    // One transaction: the folder ends holding exactly this run's files, or as it was. Each
+    // file goes into the staging folder as soon as it is made (a regional run's long tables
+    // are not all held in memory together).
+    let mut folder = FolderWriter::begin(&args.out, "analyse", &protected)?;
+    let mut names: Vec<String> = Vec::new();
+    render_each(&r, &mut |name, bytes| {
+        names.push(name.to_string());
+        folder.add(name, &bytes)
+    })?;
+    folder.commit()?;
     for w in &r.recalibration_notes {
         eprintln!("warning: {w}");
     }
@@ -140,10 +147,6 @@ pub fn run(args: Args) -> Result<i32, Error> {
     {
         println!("Flagged for a person to look at: {f}");
     }
-    println!(
-        "Written to {}: {}",
-        args.out.display(),
-        files.names().join(", ")
-    );
+    println!("Written to {}: {}", args.out.display(), names.join(", "));
     Ok(0)
 }

@@ -20,6 +20,10 @@ pub mod set;
 
 pub use set::{OutputFile, OutputSet};
 
+/// Where a renderer hands each file as soon as it is made (name, bytes): an [`OutputSet`] in
+/// memory, or a [`FolderWriter`]'s staging folder.
+pub type FileSink<'a> = dyn FnMut(&str, Vec<u8>) -> Result<(), Error> + 'a;
+
 use crate::Error;
 use std::io::Write;
 use std::path::{Path, PathBuf};
@@ -208,99 +212,166 @@ fn temp_file_in(dir: &Path, name: &str) -> std::io::Result<tempfile::NamedTempFi
     b.tempfile_in(dir)
 }
 
-/// Write one run's files into the folder `dir` as one transaction (see the module docs).
-/// The files' names are relative paths inside the folder (sub-folders such as `figures/` are
-/// made); `command` names what wrote them, in the manifest.
+/// A folder of outputs being built as one transaction (see the module docs): files are added
+/// one at a time into a private staging folder beside the target, so a long table need not be
+/// held in memory with every other file, and [`FolderWriter::commit`] puts them in place.
+/// Dropped without a commit, the staging folder is removed and the target is as it was.
+pub struct FolderWriter {
+    dir: PathBuf,
+    target: PathBuf,
+    previous: Previous,
+    staging: Option<tempfile::TempDir>,
+    manifest: String,
+}
+
+impl FolderWriter {
+    /// Check the target and make the staging folder; `command` names what writes the files,
+    /// in the manifest.
+    ///
+    /// # Errors
+    /// [`Error::Io`] when `dir` exists and is not a folder, holds files that are not one
+    /// earlier run's (listed by name), contains an input of the run, or cannot be written.
+    pub fn begin(dir: &Path, command: &str, protected: &[&Path]) -> Result<FolderWriter, Error> {
+        let target = absolute(dir);
+        for p in protected {
+            if absolute(p).starts_with(&target) {
+                return Err(io_error(
+                    dir,
+                    std::io::ErrorKind::AlreadyExists,
+                    format!(
+                        "the input {} lies inside this output folder, whose contents a run replaces: choose another output folder",
+                        p.display()
+                    ),
+                ));
+            }
+        }
+        let previous = existing_run(dir)?;
+        // The absolute path: `--out .` or `--out sub/..` still has a parent to build beside.
+        let parent = parent_of(&target);
+        let name = target
+            .file_name()
+            .map(|n| n.to_string_lossy().into_owned())
+            .unwrap_or_else(|| "output".into());
+        let mut b = tempfile::Builder::new();
+        let prefix = format!(".{name}.");
+        b.prefix(&prefix).suffix(".partial");
+        #[cfg(unix)]
+        {
+            use std::os::unix::fs::PermissionsExt;
+            b.permissions(std::fs::Permissions::from_mode(0o777));
+        }
+        // Missing parent folders are made (an empty folder loses nothing).
+        std::fs::create_dir_all(parent).map_err(io(dir))?;
+        let staging = b.tempdir_in(parent).map_err(io(dir))?;
+        state().partial.push(staging.path().to_path_buf());
+        Ok(FolderWriter {
+            dir: dir.to_path_buf(),
+            target,
+            previous,
+            staging: Some(staging),
+            manifest: format!("# written by tessera {command}; one run's files\n"),
+        })
+    }
+
+    /// Write one file of the run (`rel`: a relative path inside the folder; sub-folders such
+    /// as `figures/` are made).
+    ///
+    /// # Errors
+    /// [`Error::Io`] when the file cannot be written.
+    pub fn add(&mut self, rel: &str, bytes: &[u8]) -> Result<(), Error> {
+        let Some(staging) = &self.staging else {
+            return Err(io_error(
+                &self.dir,
+                std::io::ErrorKind::Other,
+                "the output folder was already put in place".into(),
+            ));
+        };
+        let path = staging.path().join(rel);
+        let written = (|| {
+            if let Some(d) = path.parent() {
+                std::fs::create_dir_all(d)?;
+            }
+            let mut f = std::fs::File::create_new(&path)?;
+            f.write_all(bytes)?;
+            f.sync_all()
+        })();
+        written.map_err(io(&self.dir))?;
+        self.manifest.push_str(rel);
+        self.manifest.push('\n');
+        Ok(())
+    }
+
+    /// Write the manifest and put the folder in place: renamed into place when the target is
+    /// new or empty, exchanged with the previous run's folder otherwise.
+    ///
+    /// # Errors
+    /// [`Error::Io`] when the manifest cannot be written or the folder cannot be put in place
+    /// (the target is then as it was).
+    pub fn commit(mut self) -> Result<(), Error> {
+        let Some(staging) = self.staging.take() else {
+            return Ok(());
+        };
+        let forget = |p: &Path| state().partial.retain(|q| q != p);
+        let manifest = (|| {
+            let mut f = std::fs::File::create_new(staging.path().join(MANIFEST))?;
+            f.write_all(self.manifest.as_bytes())?;
+            f.sync_all()
+        })();
+        if let Err(e) = manifest {
+            forget(staging.path());
+            return Err(io(&self.dir)(e));
+        }
+        let mut s = state();
+        let staged = staging.path().to_path_buf();
+        let swapped = match self.previous {
+            Previous::None => std::fs::rename(&staged, &self.target).map(|()| false),
+            Previous::Run => exchange(&staged, &self.target).map(|()| true),
+        };
+        match swapped {
+            Ok(swapped) => {
+                // The staging folder now holds the previous run (or nothing): remove it.
+                if swapped {
+                    let _ = std::fs::remove_dir_all(&staged);
+                }
+                s.partial.retain(|q| q != &staged);
+                s.committed.push(self.dir.clone());
+                // Already removed (or renamed away): do not let the guard try again.
+                let _ = staging.keep();
+                Ok(())
+            }
+            Err(e) => {
+                s.partial.retain(|q| q != &staged);
+                Err(io(&self.dir)(e))
+            }
+        }
+    }
+}
+
+impl Drop for FolderWriter {
+    fn drop(&mut self) {
+        // Not committed: forget the staging folder; its guard removes it.
+        if let Some(staging) = self.staging.take() {
+            state().partial.retain(|q| q != staging.path());
+        }
+    }
+}
+
+/// Write one run's files into the folder `dir` as one transaction (see the module docs and
+/// [`FolderWriter`]). `command` names what wrote them, in the manifest.
 ///
 /// # Errors
-/// [`Error::Io`] when `dir` exists and is not a folder, holds files that are not one earlier
-/// run's (listed by name), contains an input of the run, or cannot be written.
+/// As [`FolderWriter::begin`], [`FolderWriter::add`] and [`FolderWriter::commit`].
 pub fn write_folder(
     dir: &Path,
     files: &OutputSet,
     command: &str,
     protected: &[&Path],
 ) -> Result<(), Error> {
-    let target = absolute(dir);
-    for p in protected {
-        if absolute(p).starts_with(&target) {
-            return Err(io_error(
-                dir,
-                std::io::ErrorKind::AlreadyExists,
-                format!(
-                    "the input {} lies inside this output folder, whose contents a run replaces: choose another output folder",
-                    p.display()
-                ),
-            ));
-        }
+    let mut w = FolderWriter::begin(dir, command, protected)?;
+    for OutputFile { name, bytes, .. } in &files.files {
+        w.add(name, bytes)?;
     }
-    let previous = existing_run(dir)?;
-    // The absolute path: `--out .` or `--out sub/..` still has a parent to build beside.
-    let parent = parent_of(&target);
-    let name = target
-        .file_name()
-        .map(|n| n.to_string_lossy().into_owned())
-        .unwrap_or_else(|| "output".into());
-    let mut b = tempfile::Builder::new();
-    let prefix = format!(".{name}.");
-    b.prefix(&prefix).suffix(".partial");
-    #[cfg(unix)]
-    {
-        use std::os::unix::fs::PermissionsExt;
-        b.permissions(std::fs::Permissions::from_mode(0o777));
-    }
-    // Missing parent folders are made (an empty folder loses nothing).
-    std::fs::create_dir_all(parent).map_err(io(dir))?;
-    let staging = b.tempdir_in(parent).map_err(io(dir))?;
-    state().partial.push(staging.path().to_path_buf());
-    let forget = |p: &Path| state().partial.retain(|q| q != p);
-    let built = (|| {
-        let mut manifest = format!("# written by tessera {command}; one run's files\n");
-        for OutputFile {
-            name: rel, bytes, ..
-        } in &files.files
-        {
-            let path = staging.path().join(rel);
-            if let Some(d) = path.parent() {
-                std::fs::create_dir_all(d)?;
-            }
-            let mut f = std::fs::File::create_new(&path)?;
-            f.write_all(bytes)?;
-            f.sync_all()?;
-            manifest.push_str(rel);
-            manifest.push('\n');
-        }
-        let mut f = std::fs::File::create_new(staging.path().join(MANIFEST))?;
-        f.write_all(manifest.as_bytes())?;
-        f.sync_all()
-    })();
-    if let Err(e) = built {
-        forget(staging.path());
-        return Err(io(dir)(e));
-    }
-    let mut s = state();
-    let staged = staging.path().to_path_buf();
-    let swapped = match previous {
-        Previous::None => std::fs::rename(&staged, &target).map(|()| false),
-        Previous::Run => exchange(&staged, &target).map(|()| true),
-    };
-    match swapped {
-        Ok(swapped) => {
-            // The staging folder now holds the previous run (or nothing): remove it.
-            if swapped {
-                let _ = std::fs::remove_dir_all(&staged);
-            }
-            s.partial.retain(|q| q != &staged);
-            s.committed.push(dir.to_path_buf());
-            // Already removed (or renamed away): do not let the guard try again.
-            let _ = staging.keep();
-            Ok(())
-        }
-        Err(e) => {
-            s.partial.retain(|q| q != &staged);
-            Err(io(dir)(e))
-        }
-    }
+    w.commit()
 }
 
 enum Previous {

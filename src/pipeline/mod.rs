@@ -9,7 +9,8 @@
 //! 3. [`ValidatedOptions::analyse`] → one [`AnalysisResult`]. Whatever depends on the table
 //!    (the by-sex columns, the number of draws, the group names) is checked before the
 //!    evidence is weighed.
-//! 4. [`render`] → an [`OutputSet`](crate::output::OutputSet), which
+//! 4. [`render`] → an [`OutputSet`](crate::output::OutputSet) (or [`render_each`], each file
+//!    to a sink as soon as it is made), which
 //!    [`crate::output::write_folder`] puts on disk in one transaction, or the web page serves.
 
 pub mod options;
@@ -19,7 +20,7 @@ pub use options::{
     AnalysisOptions, ModelChoice, ReadOptions, ValidatedOptions, DEFAULT_DRAWS,
     MAX_INDIVIDUAL_DRAWS,
 };
-pub use render::render;
+pub use render::{render, render_each};
 
 use crate::assemblage::analyse as posteriors;
 use crate::assemblage::draws::Draws;

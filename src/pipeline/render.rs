@@ -9,24 +9,83 @@ use crate::report::publication::{by_sex_tables, figures_svg, methods_md, report_
 use crate::results::AnalysisResult;
 use crate::Error;
 
-/// Every file of an analysis.
+/// Every file of an analysis, in memory (the web page's zip, tests).
 ///
 /// # Errors
-/// [`Error::Render`] when a table, figure or record cannot be built (nothing is then written).
+/// [`Error::Render`] when a table, figure or record cannot be built.
 pub fn render(r: &AnalysisResult) -> Result<OutputSet, Error> {
-    let mut files = render_files(r)?;
-    files.append(by_sex_tables(r)?);
-    files.append(figures_svg(r)?);
-    files.push("methods.md", methods_md(r));
-    files.append(recalibration_files(r)?);
+    let mut files = OutputSet::default();
+    render_each(r, &mut |name, bytes| {
+        files.push(name, bytes);
+        Ok(())
+    })?;
+    Ok(files)
+}
+
+/// Every file of an analysis, each handed to `sink` as soon as it is made (the command line
+/// writes each into the staging folder at once, so that the long tables of a regional run are
+/// not all held in memory together). The same files, in the same order, as [`render`].
+///
+/// # Errors
+/// [`Error::Render`] when a table, figure or record cannot be built; the sink's errors.
+pub fn render_each(
+    r: &AnalysisResult,
+    sink: &mut crate::output::FileSink<'_>,
+) -> Result<(), Error> {
+    let mut seen = Seen {
+        names: Vec::new(),
+        headers: OutputSet::default(),
+        sink,
+    };
+    render_files(r, &mut |name, bytes| seen.pass(name, bytes))?;
+    for set in [by_sex_tables(r)?, figures_svg(r)?] {
+        for f in set.files {
+            seen.pass(&f.name, f.bytes)?;
+        }
+    }
+    seen.pass("methods.md", methods_md(r).into_bytes())?;
+    for f in recalibration_files(r)?.files {
+        seen.pass(&f.name, f.bytes)?;
+    }
     // The data dictionary of every table above, read from their own header rows.
-    let columns = crate::report::dictionary::columns_md(&files, &r.assemblage.carried_columns);
-    files.push("columns.md", columns);
-    let mut names: Vec<String> = files.names().into_iter().map(String::from).collect();
+    let columns =
+        crate::report::dictionary::columns_md(&seen.headers, &r.assemblage.carried_columns);
+    seen.pass("columns.md", columns.into_bytes())?;
+    let mut names = seen.names.clone();
     names.push("report.md".into());
     names.push("tables.tex".into());
     let (report, tables) = report_md_and_tex(r, &names);
-    files.push("report.md", report);
-    files.push("tables.tex", tables);
-    Ok(files)
+    seen.pass("report.md", report.into_bytes())?;
+    seen.pass("tables.tex", tables.into_bytes())
+}
+
+/// The files handed on so far: their names (for report.md's list) and the header rows of the
+/// tables (for columns.md).
+struct Seen<'a> {
+    names: Vec<String>,
+    headers: OutputSet,
+    sink: &'a mut crate::output::FileSink<'a>,
+}
+
+impl Seen<'_> {
+    fn pass(&mut self, name: &str, bytes: Vec<u8>) -> Result<(), Error> {
+        if name.ends_with(".csv") {
+            self.headers.push(name, header_row(&bytes).to_vec());
+        }
+        self.names.push(name.to_string());
+        (self.sink)(name, bytes)
+    }
+}
+
+/// The header row of CSV text: up to its first line end outside quotes.
+fn header_row(bytes: &[u8]) -> &[u8] {
+    let mut quoted = false;
+    for (i, &b) in bytes.iter().enumerate() {
+        match b {
+            b'"' => quoted = !quoted,
+            b'\n' if !quoted => return &bytes[..=i],
+            _ => {}
+        }
+    }
+    bytes
 }

@@ -127,22 +127,26 @@ use crate::assemblage::posterior::p_female_given;
 /// `assemblage.csv`, `sensitivity.csv`, `groups.csv` (with groups), `draws.csv` and
 /// `assemblage_draws.csv` (with `--draws N`), `run.json`.
 ///
+/// Each file is handed to `sink` as soon as it is made, so that a long table (a million
+/// individuals' rows under every prior) need not be held beside the others.
+///
 /// # Errors
-/// [`RenderError`] when a table or the record cannot be built.
-pub fn render_files(r: &AnalysisResult) -> Result<OutputSet, RenderError> {
-    let mut files = OutputSet::default();
-    files.push("individuals.csv", individuals_csv(r)?);
-    files.push("assemblage.csv", assemblage_csv(r)?);
-    files.push("sensitivity.csv", sensitivity_csv(r)?);
+/// [`crate::Error::Render`] when a table or the record cannot be built; the sink's own errors.
+pub fn render_files(
+    r: &AnalysisResult,
+    sink: &mut crate::output::FileSink<'_>,
+) -> Result<(), crate::Error> {
+    sink("individuals.csv", individuals_csv(r)?)?;
+    sink("assemblage.csv", assemblage_csv(r)?)?;
+    sink("sensitivity.csv", sensitivity_csv(r)?)?;
     if !r.results.main.groups.is_empty() {
-        files.push("groups.csv", groups_csv(r)?);
+        sink("groups.csv", groups_csv(r)?)?;
     }
     if r.write_draws {
-        files.push("draws.csv", draws_csv(r)?);
-        files.push("assemblage_draws.csv", assemblage_draws_csv(r)?);
+        sink("draws.csv", draws_csv(r)?)?;
+        sink("assemblage_draws.csv", assemblage_draws_csv(r)?)?;
     }
-    files.push("run.json", run_json(r)?);
-    Ok(files)
+    sink("run.json", run_json(r)?)
 }
 
 /// `individuals.csv`: one row per individual (the columns are listed in the module's doc).
