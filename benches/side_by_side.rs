@@ -87,6 +87,7 @@ fn main() {
         file: "simulated".into(),
         format: tessera::data::TableFormat::Text,
         delimiter: Some(','),
+        decimal_comma: false,
         sha256: String::new(),
         catalogue: model.catalogue.clone(),
         trait_columns: vec![true; model.catalogue.len()],

@@ -46,6 +46,7 @@ fn assemblage(model: &Model, n: usize) -> Assemblage {
         file: "simulated".into(),
         format: TableFormat::Text,
         delimiter: Some(','),
+        decimal_comma: false,
         sha256: String::new(),
         catalogue: model.catalogue.clone(),
         trait_columns: vec![true; model.catalogue.len()],

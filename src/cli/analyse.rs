@@ -62,7 +62,7 @@ pub struct Args {
     pub reference_ratio: f64,
     /// The age range (years) over which the mortality of females and males is compared
     /// (hazards.csv): the ratio of their cumulative Gompertz hazards and P(female higher).
-    #[arg(long, value_name = "FROM-TO", default_value = "18-35")]
+    #[arg(long, value_name = "FROM-TO", default_value = crate::summary::hazard::DEFAULT_HAZARD_AGES)]
     pub hazard_ages: String,
     /// Seed of every random stream (same seed, same bytes).
     #[arg(long, default_value_t = 1)]

@@ -69,6 +69,8 @@ pub struct Assemblage {
     pub format: TableFormat,
     /// Delimiter of a text table.
     pub delimiter: Option<char>,
+    /// Whether decimal commas were read as decimal points (semicolon- or tab-separated text).
+    pub decimal_comma: bool,
     /// SHA-256 of the file's bytes, lower-case hex.
     pub sha256: String,
     /// The catalogue the columns were matched against.
@@ -359,6 +361,7 @@ fn build(
         file: name.to_string(),
         format: table.format,
         delimiter: table.delimiter,
+        decimal_comma: table.decimal_comma,
         sha256,
         catalogue: catalogue.clone(),
         trait_columns,

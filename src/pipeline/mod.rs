@@ -308,6 +308,7 @@ impl ValidatedOptions {
         let groups: Vec<Option<&str>> = a.individuals.iter().map(|i| i.group.as_deref()).collect();
         let sex_ratio = crate::summary::sex_ratio_tests(
             &results.fitted.ln_lrs,
+            &results.fitted.posterior,
             &estimable,
             &groups,
             &self.prior,
@@ -321,14 +322,8 @@ impl ValidatedOptions {
                     .iter()
                     .zip(&in_tables)
                     .map(|(i, &t)| {
-                        use crate::data::AgeAtDeath;
-                        let adult = model.minimum_age;
-                        match (t, i.age?) {
-                            (false, _) => None,
-                            (true, AgeAtDeath::Years { low, high }) => Some((low, high)),
-                            (true, AgeAtDeath::Adult) => Some((adult, None)),
-                            (true, AgeAtDeath::Subadult) => Some((0.0, Some(adult))),
-                        }
+                        t.then(|| crate::summary::by_sex::recorded_age(i.age, model.minimum_age))
+                            .flatten()
                     })
                     .collect();
                 crate::summary::hazards_by_sex(

@@ -265,32 +265,11 @@ impl Default for AnalysisOptions {
             minimum_age: None,
             life_table_classes: crate::summary::DEFAULT_LIFE_TABLE_CLASSES.into(),
             reference_ratio: crate::summary::DEFAULT_REFERENCE_RATIO,
-            hazard_ages: "18-35".into(),
+            hazard_ages: crate::summary::hazard::DEFAULT_HAZARD_AGES.into(),
             seed: 1,
             read: ReadOptions::default(),
         }
     }
-}
-
-/// An age range `from-to` in years (`18-35`), from below to.
-///
-/// # Errors
-/// What was expected, with the text found.
-pub fn parse_age_range(text: &str) -> Result<(f64, f64), String> {
-    let expected =
-        || format!("an age range in years written from-to, such as 18-35; found `{text}`");
-    let (a, b) = text.split_once('-').ok_or_else(expected)?;
-    let (a, b): (f64, f64) = (
-        a.trim().parse().map_err(|_| expected())?,
-        b.trim().parse().map_err(|_| expected())?,
-    );
-    if !(a.is_finite() && b.is_finite() && a >= 0.0 && a < b && b <= 120.0) {
-        return Err(format!(
-            "{}: the range starts at 0 or later and ends after it starts, by 120",
-            expected()
-        ));
-    }
-    Ok((a, b))
 }
 
 /// Joint posterior draws made for the intervals when none are asked for.
@@ -399,10 +378,11 @@ impl AnalysisOptions {
                 problems.push(OptionProblem::new("life-table-classes", message));
                 crate::summary::AgeClasses::default()
             });
-        let hazard_ages = parse_age_range(&self.hazard_ages).unwrap_or_else(|message| {
-            problems.push(OptionProblem::new("hazard-ages", message));
-            crate::summary::DEFAULT_HAZARD_AGES
-        });
+        let hazard_ages = crate::summary::hazard::parse_age_range(&self.hazard_ages)
+            .unwrap_or_else(|message| {
+                problems.push(OptionProblem::new("hazard-ages", message));
+                (0.0, 1.0) // never used: the options are refused
+            });
         if !(self.reference_ratio.is_finite() && self.reference_ratio > 0.0) {
             problems.push(OptionProblem::new(
                 "reference-ratio",

@@ -20,14 +20,20 @@ pub const AGE_CLASSES: [(&str, f64, f64); 5] = [
     ("50+", 50.0, f64::INFINITY),
 ];
 
-/// The recorded age as an interval of years (`None` when not recorded).
-pub fn age_interval(age: Option<AgeAtDeath>, adult_from: f64) -> Option<(f64, f64)> {
+/// The recorded age as years from `low` to `high`, `high` = `None` for an open class (`50+`,
+/// `adult`), `low == high` for a point (`None` when not recorded).
+pub fn recorded_age(age: Option<AgeAtDeath>, adult_from: f64) -> Option<(f64, Option<f64>)> {
     match age? {
-        AgeAtDeath::Years { low, high: Some(h) } => Some((low, h)),
-        AgeAtDeath::Years { low, high: None } => Some((low, OPEN_CLASS_END.max(low))),
-        AgeAtDeath::Adult => Some((adult_from, OPEN_CLASS_END)),
-        AgeAtDeath::Subadult => Some((0.0, adult_from)),
+        AgeAtDeath::Years { low, high } => Some((low, high)),
+        AgeAtDeath::Adult => Some((adult_from, None)),
+        AgeAtDeath::Subadult => Some((0.0, Some(adult_from))),
     }
+}
+
+/// The recorded age as an interval of years, an open class closed at [`OPEN_CLASS_END`] (or at
+/// its start, if later) (`None` when not recorded).
+pub fn age_interval(age: Option<AgeAtDeath>, adult_from: f64) -> Option<(f64, f64)> {
+    recorded_age(age, adult_from).map(|(low, high)| (low, high.unwrap_or(OPEN_CLASS_END.max(low))))
 }
 
 /// Mean, 2.5% and 97.5% quantiles of a sample (its finite values).
@@ -157,19 +163,6 @@ pub type OutcomeColumn = (String, OutcomeValues);
 const PRESENT: [&str; 4] = ["1", "yes", "present", "true"];
 const ABSENT: [&str; 4] = ["0", "no", "absent", "false"];
 
-/// A cell as a number: a decimal point, or a decimal comma where the cell has no point.
-fn number(cell: &str) -> Option<f64> {
-    let c = cell.trim();
-    c.parse::<f64>()
-        .ok()
-        .or_else(|| {
-            (!c.contains('.'))
-                .then(|| c.replace(',', ".").parse::<f64>().ok())
-                .flatten()
-        })
-        .filter(|x| x.is_finite())
-}
-
 /// Read a by-sex column (a carried column, never evidence): a 0/1 condition when every
 /// recorded cell is `1`/`yes`/`present`/`true` or `0`/`no`/`absent`/`false` (any case), a
 /// number otherwise (stature, an activity-marker score, a lesion grade); missing codes give
@@ -191,63 +184,28 @@ pub fn outcome_column(a: &Assemblage, column: &str) -> Result<Option<OutcomeColu
     };
     let cells: Vec<&str> = a.individuals.iter().map(|i| i.carried[c].trim()).collect();
     let recorded = |cell: &str| !a.settings.is_missing(cell);
-    let is_word = |cell: &str| {
+    let word = |cell: &str| {
         let l = cell.to_ascii_lowercase();
-        PRESENT.contains(&l.as_str()) || ABSENT.contains(&l.as_str())
+        if PRESENT.contains(&l.as_str()) {
+            Some(true)
+        } else if ABSENT.contains(&l.as_str()) {
+            Some(false)
+        } else {
+            None
+        }
     };
+    // The reader's own rule for numbers (decimal commas where the table allows them).
+    let number =
+        |cell: &str| crate::data::cell::parse_decimal(cell, a.decimal_comma).map(|(v, _)| v);
     // Numbers beyond 0 and 1 make it a column of numbers; otherwise a condition.
     let numeric = cells
         .iter()
-        .any(|cell| recorded(cell) && !is_word(cell) && number(cell).is_some());
+        .any(|cell| recorded(cell) && word(cell).is_none() && number(cell).is_some());
     let mut problems = Vec::new();
-    let mut problem = |row: usize, cell: &str, expected: &str| {
-        problems.push(Problem {
-            file: a.file.clone(),
-            row: Some(row),
-            column: Some(a.carried_columns[c].clone()),
-            value: Some(cell.to_string()),
-            kind: ProblemKind::UnreadableValue,
-            expected: expected.into(),
-        });
-    };
     let values = if numeric {
-        OutcomeValues::Numeric(
-            a.individuals
-                .iter()
-                .zip(&cells)
-                .map(|(ind, cell)| {
-                    if !recorded(cell) {
-                        return None;
-                    }
-                    let v = number(cell);
-                    if v.is_none() {
-                        problem(ind.row, cell, "a number (the column's other cells are numbers, such as a stature or a grade), or a missing code");
-                    }
-                    v
-                })
-                .collect(),
-        )
+        OutcomeValues::Numeric(read_cells(a, c, &cells, number, "a number (the column's other cells are numbers, such as a stature or a grade), or a missing code", &mut problems))
     } else {
-        OutcomeValues::Condition(
-            a.individuals
-                .iter()
-                .zip(&cells)
-                .map(|(ind, cell)| {
-                    if !recorded(cell) {
-                        return None;
-                    }
-                    let l = cell.to_ascii_lowercase();
-                    if PRESENT.contains(&l.as_str()) {
-                        Some(true)
-                    } else if ABSENT.contains(&l.as_str()) {
-                        Some(false)
-                    } else {
-                        problem(ind.row, cell, "1 (present) or 0 (absent) for a condition, a number for a measurement or grade, or a missing code");
-                        None
-                    }
-                })
-                .collect(),
-        )
+        OutcomeValues::Condition(read_cells(a, c, &cells, word, "1 (present) or 0 (absent) for a condition, a number for a measurement or grade, or a missing code", &mut problems))
     };
     if problems.is_empty() {
         Ok(Some((a.carried_columns[c].clone(), values)))
@@ -258,6 +216,39 @@ pub fn outcome_column(a: &Assemblage, column: &str) -> Result<Option<OutcomeColu
             warnings: Vec::new(),
         })
     }
+}
+
+/// Every recorded cell of carried column `c` read by `parse` (`None` for missing codes); a
+/// cell it cannot read is a problem saying `expected`.
+fn read_cells<T>(
+    a: &Assemblage,
+    c: usize,
+    cells: &[&str],
+    parse: impl Fn(&str) -> Option<T>,
+    expected: &str,
+    problems: &mut Vec<Problem>,
+) -> Vec<Option<T>> {
+    a.individuals
+        .iter()
+        .zip(cells)
+        .map(|(ind, cell)| {
+            if a.settings.is_missing(cell) {
+                return None;
+            }
+            let v = parse(cell);
+            if v.is_none() {
+                problems.push(Problem {
+                    file: a.file.clone(),
+                    row: Some(ind.row),
+                    column: Some(a.carried_columns[c].clone()),
+                    value: Some(cell.to_string()),
+                    kind: ProblemKind::UnreadableValue,
+                    expected: expected.into(),
+                });
+            }
+            v
+        })
+        .collect()
 }
 
 /// Counts of each category by age class (by the recorded interval's midpoint; `unknown` when

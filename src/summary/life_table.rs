@@ -288,8 +288,6 @@ pub struct LifeTables {
     pub male: Vec<LifeTableClass>,
     /// Both sexes.
     pub all: Vec<LifeTableClass>,
-    /// Draws in which a sex had no death in any class (left out of that sex's summary).
-    pub draws_without: (usize, usize),
 }
 
 /// Life tables by sex over the draws. `ages[i]` is individual i's recorded age interval
@@ -311,7 +309,6 @@ pub fn life_tables(
     let mut own: [Vec<Vec<LifeTableRow>>; 3] = [Vec::new(), Vec::new(), Vec::new()];
     let mut population: [Vec<Vec<LifeTableRow>>; 3] = [Vec::new(), Vec::new(), Vec::new()];
     let mut below = 0usize;
-    let mut without = (0usize, 0usize);
     for sexes in female {
         let mut deaths = [vec![0.0; k], vec![0.0; k], vec![0.0; k]];
         let mut weighted = [vec![0.0; k], vec![0.0; k], vec![0.0; k]];
@@ -335,13 +332,10 @@ pub fn life_tables(
             }
         }
         for s in 0..3 {
+            // A sex with no death in a draw has no table there (left out of its summary).
             if deaths[s].iter().sum::<f64>() > 0.0 {
                 own[s].push(life_table(&deaths[s], classes, open_end));
                 population[s].push(life_table(&weighted[s], classes, open_end));
-            } else if s == 0 {
-                without.0 += 1;
-            } else if s == 1 {
-                without.1 += 1;
             }
         }
     }
@@ -387,7 +381,6 @@ pub fn life_tables(
         female: summarise(0),
         male: summarise(1),
         all: summarise(2),
-        draws_without: without,
     }
 }
 

@@ -437,6 +437,23 @@ pub fn prevalence_by_sex(
     }
 }
 
+/// The sampler's view of an assemblage without groups under a flat prior (for tests).
+#[cfg(test)]
+pub(crate) fn no_groups<'a>(
+    ln_lrs: &'a [f64],
+    estimable: &'a [bool],
+    membership: &'a [usize],
+    in_tables: &'a [bool],
+) -> SexEvidence<'a> {
+    SexEvidence {
+        ln_lrs,
+        estimable,
+        membership,
+        in_tables,
+        prior: SexRatioPrior::Beta(1.0, 1.0),
+    }
+}
+
 #[cfg(test)]
 #[path = "tests/prevalence.rs"]
 mod tests;

@@ -52,15 +52,15 @@ fn ratio_of(pi: f64) -> f64 {
     100.0 * (1.0 - pi) / pi
 }
 
-/// The test for one set of ln LRs (0 for individuals without usable evidence).
+/// The test for one set of ln LRs (0 for individuals without usable evidence), whose
+/// posterior of π under the prior is `post`.
 pub fn sex_ratio_test(
     group: Option<String>,
     ln_lrs: &[f64],
+    post: &PiPosterior,
     n_estimable: usize,
-    prior: &Prior,
     reference: f64,
 ) -> SexRatioTest {
-    let post = PiPosterior::compute(ln_lrs, prior);
     let pi_r = 100.0 / (100.0 + reference);
     let (lp, lq) = (pi_r.ln(), (1.0 - pi_r).ln());
     let ln_at_reference: f64 = ln_lrs
@@ -81,11 +81,13 @@ pub fn sex_ratio_test(
     }
 }
 
-/// The assemblage's test, then one per group in order of first appearance. `groups[i]` is
-/// individual i's group; `estimable[i]` whether it has usable evidence. Nothing for a fixed
-/// prior (π is then given, not learnt).
+/// The assemblage's test, then one per group in order of first appearance. `posterior` is
+/// the assemblage's posterior of π under `prior` (the analysis's own, not computed again);
+/// `groups[i]` is individual i's group; `estimable[i]` whether it has usable evidence.
+/// Nothing for a fixed prior (π is then given, not learnt).
 pub fn sex_ratio_tests(
     ln_lrs: &[f64],
+    posterior: &PiPosterior,
     estimable: &[bool],
     groups: &[Option<&str>],
     prior: &Prior,
@@ -94,25 +96,35 @@ pub fn sex_ratio_tests(
     if prior.is_fixed() {
         return Vec::new();
     }
-    let count = |idx: &[usize]| idx.iter().filter(|&&i| estimable[i]).count();
-    let all: Vec<usize> = (0..ln_lrs.len()).collect();
-    let mut out = vec![sex_ratio_test(None, ln_lrs, count(&all), prior, reference)];
-    let mut names: Vec<&str> = Vec::new();
-    for g in groups.iter().flatten() {
-        if !names.contains(g) {
-            names.push(g);
-        }
+    let all_estimable = estimable.iter().filter(|&&e| e).count();
+    let mut out = vec![sex_ratio_test(
+        None,
+        ln_lrs,
+        posterior,
+        all_estimable,
+        reference,
+    )];
+    // Each group's members, in one pass, groups in order of first appearance.
+    let mut members: Vec<(&str, Vec<f64>, usize)> = Vec::new();
+    for ((g, &l), &e) in groups.iter().zip(ln_lrs).zip(estimable) {
+        let Some(g) = g else { continue };
+        let k = match members.iter().position(|m| m.0 == *g) {
+            Some(k) => k,
+            None => {
+                members.push((g, Vec::new(), 0));
+                members.len() - 1
+            }
+        };
+        members[k].1.push(l);
+        members[k].2 += usize::from(e);
     }
-    for name in names {
-        let idx: Vec<usize> = (0..ln_lrs.len())
-            .filter(|&i| groups[i] == Some(name))
-            .collect();
-        let l: Vec<f64> = idx.iter().map(|&i| ln_lrs[i]).collect();
+    for (name, l, n_estimable) in members {
+        let post = PiPosterior::compute(&l, prior);
         out.push(sex_ratio_test(
             Some(name.to_string()),
             &l,
-            count(&idx),
-            prior,
+            &post,
+            n_estimable,
             reference,
         ));
     }

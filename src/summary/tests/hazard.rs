@@ -1,6 +1,7 @@
 //! Unit tests of `summary/hazard.rs`.
 
 use super::*;
+use rand::RngExt;
 
 /// The ages of `tests/reference/fixtures/gompertz_ages.csv` (written by gompertz.py).
 fn fixture_ages() -> Vec<(f64, Option<f64>, f64)> {
@@ -100,7 +101,7 @@ fn females_dying_younger_show_in_the_ratio_over_18_to_35() {
         sexes.push(i % 2 == 0);
     }
     let draws = vec![sexes; 50];
-    let h = hazards_by_sex(&ages, &draws, 18.0, DEFAULT_HAZARD_AGES, 10, 3);
+    let h = hazards_by_sex(&ages, &draws, 18.0, (18.0, 35.0), 10, 3);
     assert_eq!((h.draws, h.draws_failed, h.n_with_age), (50, 0, 800));
     assert!(h.hazard_ratio.1 > 1.0 && h.p_female_higher > 0.97, "{h:?}");
     let (ha, hb) = (h.alpha_female, h.beta_female);
@@ -153,7 +154,7 @@ fn hazard_coverage(
         let draws: Vec<Vec<bool>> = (0..n_draws)
             .map(|_| p.iter().map(|&q| rng.random::<f64>() < q).collect())
             .collect();
-        let h = hazards_by_sex(&ages, &draws, 18.0, DEFAULT_HAZARD_AGES, 0, rng.random());
+        let h = hazards_by_sex(&ages, &draws, 18.0, (18.0, 35.0), 0, rng.random());
         let inside = |v: (f64, f64, f64), x: f64| v.1 <= x && x <= v.2;
         held[0] += usize::from(inside(h.alpha_female, 0.012));
         held[1] += usize::from(inside(h.beta_female, 0.035));

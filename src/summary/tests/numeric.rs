@@ -1,24 +1,9 @@
 //! Unit tests of `summary/numeric.rs`.
 
 use super::*;
-use crate::summary::prevalence::SexRatioPrior;
+use crate::summary::prevalence::no_groups;
 use rand::{RngExt, SeedableRng};
 use statrs::distribution::{ContinuousCDF, StudentsT};
-
-fn no_groups<'a>(
-    ln_lrs: &'a [f64],
-    estimable: &'a [bool],
-    membership: &'a [usize],
-    in_tables: &'a [bool],
-) -> SexEvidence<'a> {
-    SexEvidence {
-        ln_lrs,
-        estimable,
-        membership,
-        in_tables,
-        prior: SexRatioPrior::Beta(1.0, 1.0),
-    }
-}
 
 /// With every sex certain, μ_F has the Normal–inverse-gamma marginal, a Student t with 2αₙ
 /// degrees of freedom, centre μₙ and scale √(βₙ/(αₙκₙ)) (Gelman et al. 2013, §3.3, from

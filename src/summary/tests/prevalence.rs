@@ -3,21 +3,6 @@
 use super::*;
 use statrs::distribution::{ContinuousCDF, Normal};
 
-fn no_groups<'a>(
-    ln_lrs: &'a [f64],
-    estimable: &'a [bool],
-    membership: &'a [usize],
-    in_tables: &'a [bool],
-) -> SexEvidence<'a> {
-    SexEvidence {
-        ln_lrs,
-        estimable,
-        membership,
-        in_tables,
-        prior: SexRatioPrior::Beta(1.0, 1.0),
-    }
-}
-
 /// With every sex certain (|ln LR| = 60) the prevalences are the conjugate Beta posteriors:
 /// p_F ~ Beta(1 + 3, 1 + 1) has mean 4/6 and p_M ~ Beta(1 + 1, 1 + 3) mean 2/6 (closed form).
 #[test]

@@ -29,7 +29,14 @@ fn certain_sexes_give_the_beta_binomial_closed_forms() {
     ] {
         let mut l = vec![35.0; f];
         l.extend(vec![-35.0; m]);
-        let t = sex_ratio_test(None, &l, f + m, &beta_prior(a, b), reference);
+        let prior = beta_prior(a, b);
+        let t = sex_ratio_test(
+            None,
+            &l,
+            &PiPosterior::compute(&l, &prior),
+            f + m,
+            reference,
+        );
         let pi_r = 100.0 / (100.0 + reference);
         let (ff, mm) = (f as f64, m as f64);
         let ln_bf =
@@ -78,7 +85,15 @@ fn groups_are_tested_on_their_own_and_a_fixed_prior_gives_nothing() {
         .collect();
     let mut estimable = vec![true; l.len()];
     estimable[44] = false;
-    let t = sex_ratio_tests(&l, &estimable, &groups, &beta_prior(1.0, 1.0), 105.0);
+    let flat = beta_prior(1.0, 1.0);
+    let t = sex_ratio_tests(
+        &l,
+        &PiPosterior::compute(&l, &flat),
+        &estimable,
+        &groups,
+        &flat,
+        105.0,
+    );
     assert_eq!(t.len(), 3);
     assert_eq!(
         (t[1].group.as_deref(), t[1].n, t[1].n_estimable),
@@ -99,5 +114,6 @@ fn groups_are_tested_on_their_own_and_a_fixed_prior_gives_nothing() {
         t[2]
     );
     let fixed = Prior::fixed(0.5).unwrap();
-    assert!(sex_ratio_tests(&l, &estimable, &groups, &fixed, 105.0).is_empty());
+    let post = PiPosterior::compute(&l, &fixed);
+    assert!(sex_ratio_tests(&l, &post, &estimable, &groups, &fixed, 105.0).is_empty());
 }
