@@ -139,26 +139,34 @@ fn the_demo_writes_report_tables_methods_and_figures_that_render() {
     }
 }
 
-#[test]
-fn outcome_columns_must_be_zero_or_one_and_never_traits() {
-    let dir = tempfile::tempdir().unwrap();
-    let input = dir.path().join("in.csv");
-    std::fs::write(
-        &input,
-        "id,glabella,lesion,age\nA,2,1,30\nB,5,maybe,40\nC,4,0,35\n",
-    )
-    .unwrap();
-    let out = dir.path().join("r");
+/// `analyse` on a table written from `text` into `dir`, comparing the sexes on `column` under
+/// the flat prior alone; the output and the output folder.
+fn analyse_by_sex(
+    dir: &Path,
+    text: &str,
+    column: &str,
+) -> (std::process::Output, std::path::PathBuf) {
+    let input = dir.join("in.csv");
+    std::fs::write(&input, text).unwrap();
+    let out = dir.join("r");
     let o = tessera(&[
         "analyse",
         input.to_str().unwrap(),
         "--out",
         out.to_str().unwrap(),
         "--by-sex",
-        "lesion",
+        column,
         "--priors",
         "flat",
     ]);
+    (o, out)
+}
+
+#[test]
+fn outcome_columns_must_be_zero_or_one_and_never_traits() {
+    let dir = tempfile::tempdir().unwrap();
+    let table = "id,glabella,lesion,age\nA,2,1,30\nB,5,maybe,40\nC,4,0,35\n";
+    let (o, out) = analyse_by_sex(dir.path(), table, "lesion");
     assert_eq!(o.status.code(), Some(3));
     assert!(
         stderr(&o).contains("row 3, column `lesion`: found `maybe`"),
@@ -166,39 +174,18 @@ fn outcome_columns_must_be_zero_or_one_and_never_traits() {
         stderr(&o)
     );
     assert!(!out.exists());
-    let o = tessera(&[
-        "analyse",
-        input.to_str().unwrap(),
-        "--out",
-        out.to_str().unwrap(),
-        "--by-sex",
-        "glabella",
-        "--priors",
-        "flat",
-    ]);
+    let (o, _) = analyse_by_sex(dir.path(), table, "glabella");
     assert_eq!(o.status.code(), Some(4));
 }
 
 #[test]
 fn a_numeric_outcome_with_a_text_cell_is_refused_with_its_row_and_column() {
     let dir = tempfile::tempdir().unwrap();
-    let input = dir.path().join("t.csv");
-    std::fs::write(
-        &input,
+    let (o, out) = analyse_by_sex(
+        dir.path(),
         "id,glabella,stature,age\nA,2,158.5,30\nB,5,tall,40\nC,4,171,35\nD,1,,30\n",
-    )
-    .unwrap();
-    let out = dir.path().join("r");
-    let o = tessera(&[
-        "analyse",
-        input.to_str().unwrap(),
-        "--out",
-        out.to_str().unwrap(),
-        "--by-sex",
         "stature",
-        "--priors",
-        "flat",
-    ]);
+    );
     assert_eq!(o.status.code(), Some(3));
     let err = stderr(&o);
     assert!(
@@ -208,21 +195,11 @@ fn a_numeric_outcome_with_a_text_cell_is_refused_with_its_row_and_column() {
     assert!(err.contains("a number"), "{err}");
     assert!(!out.exists());
     // Mended, the column is a numeric outcome: its own table, described in columns.md.
-    std::fs::write(
-        &input,
+    let (o, out) = analyse_by_sex(
+        dir.path(),
         "id,glabella,stature,age\nA,2,158.5,30\nB,5,176,40\nC,4,171,35\nD,1,,30\n",
-    )
-    .unwrap();
-    let o = tessera(&[
-        "analyse",
-        input.to_str().unwrap(),
-        "--out",
-        out.to_str().unwrap(),
-        "--by-sex",
         "stature",
-        "--priors",
-        "flat",
-    ]);
+    );
     assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
     let table = std::fs::read_to_string(out.join("by_sex_numeric.csv")).unwrap();
     assert!(

@@ -142,9 +142,11 @@ pub fn run(args: Args) -> Result<i32, Error> {
         println!("Recalibrated {} means of the measurements: {changes} category with them (recalibrated_individuals.csv). The summary below and every other table and figure use the model's reference means.", recal.means.len());
     }
     print!("{}", terminal_summary(&r));
-    for f in
-        crate::report::named_at_most(r.flagged.clone(), "the `flags` column of individuals.csv")
-    {
+    for f in crate::report::named_at_most(
+        r.flagged.len(),
+        r.flagged.iter().cloned(),
+        "the `flags` column of individuals.csv",
+    ) {
         println!("Flagged for a person to look at: {f}");
     }
     println!("Written to {}: {}", args.out.display(), names.join(", "));

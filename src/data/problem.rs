@@ -149,13 +149,14 @@ pub const WARNINGS_SHOWN_PER_KIND: usize = 20;
 /// complete list stays in `tessera check FILE --format json`, and every row's own state in
 /// the outputs (`status` in individuals.csv).
 pub fn shown_warnings(warnings: &[Warning], per_kind: usize) -> Vec<String> {
-    let mut seen: Vec<(WarningKind, usize, Option<usize>, Option<usize>)> = Vec::new();
+    // Per kind: its first warning, how many, and the first and last rows not shown.
+    let mut seen: Vec<(&Warning, usize, Option<usize>, Option<usize>)> = Vec::new();
     let mut lines = Vec::new();
     for w in warnings {
-        let k = match seen.iter().position(|s| s.0 == w.kind) {
+        let k = match seen.iter().position(|s| s.0.kind == w.kind) {
             Some(k) => k,
             None => {
-                seen.push((w.kind, 0, None, None));
+                seen.push((w, 0, None, None));
                 seen.len() - 1
             }
         };
@@ -168,22 +169,18 @@ pub fn shown_warnings(warnings: &[Warning], per_kind: usize) -> Vec<String> {
             entry.3 = w.row.or(entry.3);
         }
     }
-    for (kind, count, first, last) in seen {
+    for (w, count, first, last) in seen {
         if count > per_kind {
             let rows = match (first, last) {
                 (Some(a), Some(b)) if a != b => format!(" on rows {a} to {b}"),
                 (Some(a), _) => format!(" on row {a}"),
                 _ => String::new(),
             };
-            let file = warnings
-                .iter()
-                .find(|w| w.kind == kind)
-                .map(|w| w.file.as_str())
-                .unwrap_or_default();
+            let file = &w.file;
             lines.push(format!(
                 "{file}: {} more warnings of {}{rows} are not shown ({count} in all; `tessera check {file} --format json` lists every one)",
                 count - per_kind,
-                kind.words()
+                w.kind.words()
             ));
         }
     }

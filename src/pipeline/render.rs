@@ -34,7 +34,7 @@ pub fn render_each(
 ) -> Result<(), Error> {
     let mut seen = Seen {
         names: Vec::new(),
-        headers: OutputSet::default(),
+        tables: Vec::new(),
         sink,
     };
     render_files(r, &mut |name, bytes| seen.pass(name, bytes))?;
@@ -49,7 +49,7 @@ pub fn render_each(
     }
     // The data dictionary of every table above, read from their own header rows.
     let columns =
-        crate::report::dictionary::columns_md(&seen.headers, &r.assemblage.carried_columns);
+        crate::report::dictionary::columns_md_of(&seen.tables, &r.assemblage.carried_columns);
     seen.pass("columns.md", columns.into_bytes())?;
     let mut names = seen.names.clone();
     names.push("report.md".into());
@@ -63,29 +63,19 @@ pub fn render_each(
 /// tables (for columns.md).
 struct Seen<'a> {
     names: Vec<String>,
-    headers: OutputSet,
+    tables: Vec<(String, Vec<String>)>,
     sink: &'a mut crate::output::FileSink<'a>,
 }
 
 impl Seen<'_> {
     fn pass(&mut self, name: &str, bytes: Vec<u8>) -> Result<(), Error> {
         if name.ends_with(".csv") {
-            self.headers.push(name, header_row(&bytes).to_vec());
+            self.tables.push((
+                name.to_string(),
+                crate::report::dictionary::header_of(&bytes),
+            ));
         }
         self.names.push(name.to_string());
         (self.sink)(name, bytes)
     }
-}
-
-/// The header row of CSV text: up to its first line end outside quotes.
-fn header_row(bytes: &[u8]) -> &[u8] {
-    let mut quoted = false;
-    for (i, &b) in bytes.iter().enumerate() {
-        match b {
-            b'"' => quoted = !quoted,
-            b'\n' if !quoted => return &bytes[..=i],
-            _ => {}
-        }
-    }
-    bytes
 }

@@ -689,12 +689,12 @@ pub fn terminal_summary(r: &AnalysisResult) -> String {
             "  and {fixed} fixed proportions (each individual under them: sensitivity.csv)"
         );
     }
-    let sensitive: Vec<String> = a
+    let sensitive: Vec<&str> = a
         .individuals
         .iter()
         .zip(&analysis.individual_sensitivity)
         .filter(|(_, x)| x.prior_sensitive)
-        .map(|(i, _)| i.id.clone())
+        .map(|(i, _)| i.id.as_str())
         .collect();
     let _ = writeln!(s);
     if sensitive.is_empty() {
@@ -707,8 +707,12 @@ pub fn terminal_summary(r: &AnalysisResult) -> String {
             s,
             "{} individuals change category under some prior of the set: {}",
             sensitive.len(),
-            super::named_at_most(sensitive, "the `prior_sensitive` column of individuals.csv")
-                .join(", ")
+            super::named_at_most(
+                sensitive.len(),
+                sensitive.iter().map(|id| id.to_string()),
+                "the `prior_sensitive` column of individuals.csv"
+            )
+            .join(", ")
         );
     }
     let _ = writeln!(

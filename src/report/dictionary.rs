@@ -259,7 +259,7 @@ pub fn describe(file: &str, column: &str) -> Option<&'static Entry> {
 }
 
 /// The header row of a CSV file's bytes (empty when it cannot be read).
-fn header_of(bytes: &[u8]) -> Vec<String> {
+pub fn header_of(bytes: &[u8]) -> Vec<String> {
     let mut r = csv::ReaderBuilder::new()
         .has_headers(false)
         .from_reader(bytes);
@@ -273,16 +273,28 @@ fn header_of(bytes: &[u8]) -> Vec<String> {
 /// `columns.md` for the CSV files of `files`: every column of every file with its meaning,
 /// unit and range. `carried` names the input columns carried through unchanged.
 pub fn columns_md(files: &OutputSet, carried: &[String]) -> String {
+    let tables: Vec<(String, Vec<String>)> = files
+        .files
+        .iter()
+        .filter(|f| f.name.ends_with(".csv"))
+        .map(|f| (f.name.clone(), header_of(&f.bytes)))
+        .collect();
+    columns_md_of(&tables, carried)
+}
+
+/// `columns.md` from each CSV file's name and header row (as [`header_of`] reads it), for a
+/// renderer that does not keep the files.
+pub fn columns_md_of(tables: &[(String, Vec<String>)], carried: &[String]) -> String {
     let mut s = String::new();
     let _ = writeln!(s, "# Columns of the files in this folder\n");
     let _ = writeln!(s, "What every column of every table means, its unit and its range. Numbers use a full stop for decimals and an ASCII minus; an empty cell is a value that does not apply or could not be computed. Probabilities and intervals are posterior (Bayesian) unless said otherwise; \"95% interval\" is the 2.5% to 97.5% quantiles.\n");
-    for f in files.files.iter().filter(|f| f.name.ends_with(".csv")) {
-        let _ = writeln!(s, "## {}\n", f.name);
+    for (name, columns) in tables {
+        let _ = writeln!(s, "## {name}\n");
         let _ = writeln!(s, "| column | meaning | unit | range |\n|---|---|---|---|");
-        for col in header_of(&f.bytes) {
-            let (meaning, unit, range) = match describe(&f.name, &col) {
+        for col in columns {
+            let (meaning, unit, range) = match describe(name, col) {
                 Some(e) => (e.2.to_string(), e.3, e.4),
-                None if carried.contains(&col) => (
+                None if carried.contains(col) => (
                     "a column of the input, carried through unchanged (never evidence)".into(),
                     "",
                     "as recorded",

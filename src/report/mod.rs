@@ -113,18 +113,21 @@ impl CsvText {
 /// put 313 000 ids on one line of the summary and of report.md.
 pub const NAMED_AT_MOST: usize = 50;
 
-/// The first [`NAMED_AT_MOST`] items, then one more item counting the rest and saying
-/// where every one of them is (`rest_where`, e.g. "the `flags` column of individuals.csv").
-pub fn named_at_most(items: Vec<String>, rest_where: &str) -> Vec<String> {
-    let total = items.len();
-    if total <= NAMED_AT_MOST {
-        return items;
-    }
+/// The first [`NAMED_AT_MOST`] of `total` items (only those are taken from `items`, so a
+/// caller may format them lazily), then one more item counting the rest and saying where
+/// every one of them is (`rest_where`, e.g. "the `flags` column of individuals.csv").
+pub fn named_at_most(
+    total: usize,
+    items: impl IntoIterator<Item = String>,
+    rest_where: &str,
+) -> Vec<String> {
     let mut shown: Vec<String> = items.into_iter().take(NAMED_AT_MOST).collect();
-    shown.push(format!(
-        "and {} more ({total} in all; {rest_where} marks every one)",
-        total - NAMED_AT_MOST
-    ));
+    if total > NAMED_AT_MOST {
+        shown.push(format!(
+            "and {} more ({total} in all; {rest_where} marks every one)",
+            total - NAMED_AT_MOST
+        ));
+    }
     shown
 }
 
@@ -140,14 +143,17 @@ mod tests {
     #[test]
     fn long_lists_name_fifty_and_count_the_rest() {
         let ids: Vec<String> = (0..120).map(|i| format!("B-{i}")).collect();
-        let shown = named_at_most(ids.clone(), "the `flags` column");
+        let shown = named_at_most(ids.len(), ids.clone(), "the `flags` column");
         assert_eq!(shown.len(), NAMED_AT_MOST + 1);
         assert_eq!(shown[49], "B-49");
         assert_eq!(
             shown[50],
             "and 70 more (120 in all; the `flags` column marks every one)"
         );
-        assert_eq!(named_at_most(ids[..50].to_vec(), "x"), ids[..50].to_vec());
+        assert_eq!(
+            named_at_most(50, ids[..50].to_vec(), "x"),
+            ids[..50].to_vec()
+        );
     }
 
     #[test]

@@ -310,7 +310,7 @@ pub fn by_sex_tables(r: &AnalysisResult) -> Result<OutputSet, RenderError> {
                 super::number::cell(x.lo, 1),
                 super::number::cell(x.hi, 1),
                 c3(x.p_more_males),
-                c3(x.ln_bf_reference / std::f64::consts::LN_10),
+                c3(x.ln_bf_reference / LN_10),
             ]);
         }
         files.push("sex_ratio.csv", csv_bytes(rows)?);
@@ -942,7 +942,11 @@ pub fn report_md_and_tex(r: &AnalysisResult, files: &[String]) -> (String, Strin
     let a = &r.assemblage;
     if !a.warnings.is_empty() || !flagged.is_empty() {
         let _ = writeln!(m, "## Warnings\n");
-        for f in super::named_at_most(flagged.clone(), "the `flags` column of individuals.csv") {
+        for f in super::named_at_most(
+            flagged.len(),
+            flagged.iter().cloned(),
+            "the `flags` column of individuals.csv",
+        ) {
             let _ = writeln!(m, "- {f}");
         }
         for w in crate::data::problem::shown_warnings(
@@ -1145,7 +1149,7 @@ fn categories_section(r: &AnalysisResult, m: &mut String, t: &mut String) {
     }
     let _ = writeln!(t, "\\bottomrule\n\\end{{tabular}}\n\\end{{table}}\n");
     // The categories and the verbal scale of the likelihood ratios measure different things.
-    let noted: Vec<String> = r
+    let noted: Vec<&str> = r
         .assemblage
         .individuals
         .iter()
@@ -1161,7 +1165,7 @@ fn categories_section(r: &AnalysisResult, m: &mut String, t: &mut String) {
                 )
                 .is_some()
         })
-        .map(|((i, _), _)| i.id.clone())
+        .map(|((i, _), _)| i.id.as_str())
         .collect();
     let _ = writeln!(
         m,
@@ -1176,8 +1180,12 @@ fn categories_section(r: &AnalysisResult, m: &mut String, t: &mut String) {
                     1 => "one individual".to_string(),
                     n => format!("{n} individuals"),
                 },
-                super::named_at_most(noted.clone(), "the `category_note` column of individuals.csv")
-                    .join(", ")
+                super::named_at_most(
+                    noted.len(),
+                    noted.iter().map(|id| id.to_string()),
+                    "the `category_note` column of individuals.csv"
+                )
+                .join(", ")
             )
         }
     );
@@ -1242,20 +1250,21 @@ fn recalibration_section(r: &AnalysisResult, m: &mut String, t: &mut String) {
 fn sensitivity_section(r: &AnalysisResult, m: &mut String, _tex: &mut String) {
     let (a, analysis) = (&r.assemblage, &r.results);
     let _ = writeln!(m, "\n## Prior sensitivity\n");
-    let sens: Vec<String> = a
+    let sens: Vec<_> = a
         .individuals
         .iter()
         .zip(&analysis.individual_sensitivity)
         .filter(|(_, s)| s.prior_sensitive)
-        .map(|(i, s)| {
-            format!(
-                "{} (P(female) {:.3} to {:.3})",
-                i.id,
-                s.p_female_min.unwrap_or(f64::NAN),
-                s.p_female_max.unwrap_or(f64::NAN)
-            )
-        })
         .collect();
+    // Only the individuals named are written out.
+    let named = sens.iter().map(|(i, s)| {
+        format!(
+            "{} (P(female) {:.3} to {:.3})",
+            i.id,
+            s.p_female_min.unwrap_or(f64::NAN),
+            s.p_female_max.unwrap_or(f64::NAN)
+        )
+    });
     if sens.is_empty() {
         let _ = writeln!(m, "No individual's category depends on the prior.\n");
     } else {
@@ -1263,8 +1272,12 @@ fn sensitivity_section(r: &AnalysisResult, m: &mut String, _tex: &mut String) {
             m,
             "{} individuals change category under some prior of the set: {}.\n",
             sens.len(),
-            super::named_at_most(sens, "the `prior_sensitive` column of individuals.csv")
-                .join(", ")
+            super::named_at_most(
+                sens.len(),
+                named,
+                "the `prior_sensitive` column of individuals.csv"
+            )
+            .join(", ")
         );
     }
 }
@@ -1394,11 +1407,12 @@ fn hazard_section(r: &AnalysisResult, m: &mut String, t: &mut String) {
         .map(|(who, k)| {
             if k.identifiable >= 0.5 {
                 format!(
-                    "for {who} it was identifiable in {:.0}% of the draws tried, λ = {} per year ({}), likelihood-ratio statistic {} against Gompertz alone (above 2.71 is the 5% level for a term on its boundary)",
+                    "for {who} it was identifiable in {:.0}% of the draws tried, λ = {} per year ({}), likelihood-ratio statistic {} against Gompertz alone (above {} is the 5% level for a term on its boundary)",
                     100.0 * k.identifiable,
                     crate::report::number::reading(k.lambda.0, 4),
                     range(k.lambda.1, k.lambda.2, |v| crate::report::number::reading(v, 4)),
-                    crate::report::number::reading(k.lr_statistic, 2)
+                    crate::report::number::reading(k.lr_statistic, 2),
+                    crate::report::number::reading(crate::summary::hazard::boundary_level(0.05), 2)
                 )
             } else {
                 format!(

@@ -714,7 +714,7 @@ pub fn results_json(r: &AnalysisResult) -> Value {
         "categories": categories,
         "groups": groups,
         "sensitivity": sensitivity,
-        "flagged": crate::report::named_at_most(r.flagged.clone(), "the `flags` column of individuals.csv"),
+        "flagged": crate::report::named_at_most(r.flagged.len(), r.flagged.iter().cloned(), "the `flags` column of individuals.csv"),
         "individuals": individuals,
     })
 }

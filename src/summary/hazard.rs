@@ -315,6 +315,14 @@ pub fn makeham(ages: &[(f64, Option<f64>, f64)], gompertz: &Fit) -> Option<(f64,
     })
 }
 
+/// The value a likelihood-ratio statistic for one parameter on its boundary (½χ²₀ + ½χ²₁;
+/// Self & Liang 1987, from memory) exceeds with probability `p`: χ²₁'s 1 − 2p quantile
+/// (statrs). 0.05 gives 2.71, 0.001 gives 9.55.
+pub fn boundary_level(p: f64) -> f64 {
+    use statrs::distribution::{ChiSquared, ContinuousCDF};
+    ChiSquared::new(1.0).map_or(f64::NAN, |c| c.inverse_cdf(1.0 - 2.0 * p))
+}
+
 /// A draw from the normal approximation N(estimate, cov) (Cholesky of the 2×2 covariance).
 fn draw_near(f: &Fit, rng: &mut ChaCha8Rng) -> Gompertz {
     let z = |rng: &mut ChaCha8Rng| -> f64 {
@@ -373,7 +381,8 @@ pub struct MakehamTerm {
     /// λ (per year): median and 95% interval of the maximum-likelihood values over those draws.
     pub lambda: (f64, f64, f64),
     /// The likelihood-ratio statistic of Makeham against Gompertz alone, median over those
-    /// draws (χ² with one degree of freedom on a boundary: above 2.71 is the 5% level; Self &
+    /// draws (½χ²₀ + ½χ²₁ with λ on its boundary: above
+    /// [`boundary_level`]`(0.05)`, 2.71, is the 5% level; Self &
     /// Liang 1987, from memory).
     pub lr_statistic: f64,
 }

@@ -235,9 +235,14 @@ fn a_makeham_term_shows_where_the_data_carry_one() {
     assert!((0.012..0.03).contains(&l) && stat > 20.0, "{l} {stat}");
     let without = group((0..3000).map(|_| draw(false)).collect());
     let fo = fit(&without).unwrap();
-    // Under Gompertz data the statistic is ½χ²₀ + ½χ²₁ (λ on its boundary): above 9.55 with
-    // probability 0.001 (χ²₁'s 0.998 quantile, 9.55; from memory). This seed gives 6.5.
+    // Under Gompertz data the statistic is ½χ²₀ + ½χ²₁ (λ on its boundary): above
+    // boundary_level(0.001) = 9.55 (χ²₁'s 0.998 quantile, statrs) with probability 0.001.
+    // This seed gives 6.5.
+    // χ² tables (from memory): χ²₁'s 0.998 quantile 9.5495, its 0.90 quantile 2.7055.
+    let level = boundary_level(0.001);
+    assert!((level - 9.5495).abs() < 1e-3, "{level}");
+    assert!((boundary_level(0.05) - 2.7055).abs() < 1e-3);
     if let Some((_, s)) = makeham(&without, &fo) {
-        assert!(s < 9.55, "{s}");
+        assert!(s < level, "{s}");
     }
 }
