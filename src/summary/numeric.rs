@@ -201,7 +201,13 @@ pub fn numeric_by_sex(
         .iter()
         .map(|c| ess(c))
         .fold(f64::INFINITY, f64::min);
-    let all = |k: usize| per_chain(k).concat();
+    // Every chain's draws of quantity k, pooled (without copying each chain first).
+    let all = |k: usize| -> Vec<f64> {
+        chains
+            .iter()
+            .flat_map(|c| c.kept[k].iter().copied())
+            .collect()
+    };
     let d = diff.concat();
     let finite = |v: Vec<f64>| v.into_iter().filter(|x| x.is_finite()).collect::<Vec<_>>();
     let n_f: f64 = chains.iter().flat_map(|c| &c.n_f).sum::<f64>() / d.len().max(1) as f64;
