@@ -1,9 +1,11 @@
 //! `tessera fit REFERENCE --traits SPEC --out MODEL.yaml`: a model fitted to a documented
-//! reference collection, with a table of estimates beside it.
+//! reference collection, with a table of estimates beside it; `tessera fit --from-summary
+//! SUMMARY.yaml --out MODEL.yaml`: a model built from the summary statistics a paper publishes.
 
 use super::input::InputArgs;
 use crate::catalogue::Catalogue;
 use crate::data::{Assemblage, Individual, Sex};
+use crate::fit::summary::{build_from_summary, SummaryFile, SummarySpec};
 use crate::fit::{check_spec, fit, FitSpec, FittedModel, ReferenceInfo};
 use crate::output::write_all_atomic;
 use crate::Error;
@@ -13,11 +15,17 @@ use std::path::{Path, PathBuf};
 #[derive(Debug, clap::Args)]
 pub struct Args {
     /// The reference table: the input columns plus `known_sex` (documented sex).
-    pub reference: PathBuf,
+    #[arg(required_unless_present = "from_summary")]
+    pub reference: Option<PathBuf>,
     /// Fitting specification (YAML): blocks, their traits, how dispersion and correlation are
     /// shared by the sexes.
-    #[arg(long, value_name = "SPEC")]
-    pub traits: PathBuf,
+    #[arg(long, value_name = "SPEC", required_unless_present = "from_summary")]
+    pub traits: Option<PathBuf>,
+    /// Build the model from published summary statistics instead of a reference table:
+    /// grade counts (or shares with n) and means and SDs by sex, with the publication and its
+    /// sample (YAML; see the manual's "Models from published tables").
+    #[arg(long, value_name = "SUMMARY.yaml", conflicts_with_all = ["reference", "traits"])]
+    pub from_summary: Option<PathBuf>,
     /// Where to write the model (YAML). The estimates with standard errors go beside it as
     /// `<name>.estimates.csv`.
     #[arg(long, value_name = "MODEL.yaml")]
@@ -74,9 +82,12 @@ pub fn estimates_path(model: &Path) -> PathBuf {
 /// # Errors
 /// Settings and file errors; [`Error::Input`] and [`Error::Fit`] with every problem inside.
 pub fn run(args: Args) -> Result<i32, Error> {
-    let (spec, catalogue) = load_spec(&args.traits)?;
+    let (Some(reference), Some(traits)) = (args.reference.clone(), args.traits.clone()) else {
+        return run_summary(args);
+    };
+    let (spec, catalogue) = load_spec(&traits)?;
     let settings = args.input.settings(&catalogue)?;
-    let a = crate::pipeline::read_path(&args.reference, &catalogue, &settings)?;
+    let a = crate::pipeline::read_path(&reference, &catalogue, &settings)?;
     let (known, unknown) = documented(&a);
     let info = ReferenceInfo {
         file: a.file.clone(),
@@ -90,7 +101,7 @@ pub fn run(args: Args) -> Result<i32, Error> {
     })?;
     // The written model must load as any model does.
     crate::model::Model::from_yaml_in(&args.out.display().to_string(), &yaml, args.out.parent())?;
-    let mut protected: Vec<&Path> = vec![args.reference.as_path(), args.traits.as_path()];
+    let mut protected: Vec<&Path> = vec![reference.as_path(), traits.as_path()];
     protected.extend(args.input.settings_files());
     let estimates = estimates_path(&args.out);
     let table = fitted.estimates_csv()?;
@@ -136,8 +147,79 @@ pub fn run(args: Args) -> Result<i32, Error> {
     );
     println!(
         "Check the model's error rates on this reference with `tessera validate {} --traits {}`.",
-        args.reference.display(),
-        args.traits.display()
+        reference.display(),
+        traits.display()
+    );
+    Ok(0)
+}
+
+/// `tessera fit --from-summary SUMMARY.yaml --out MODEL.yaml`: a model built from published
+/// summary statistics, with its table of estimates beside it.
+///
+/// # Errors
+/// Settings and file errors; [`Error::Fit`] naming every problem of the summary.
+fn run_summary(args: Args) -> Result<i32, Error> {
+    let Some(path) = args.from_summary.as_deref() else {
+        return Err(Error::Settings {
+            file: args.out.display().to_string(),
+            message: "give a reference table with --traits, or --from-summary".into(),
+        });
+    };
+    let settings = |message: String| Error::Settings {
+        file: path.display().to_string(),
+        message,
+    };
+    let text = crate::limits::read_settings_text(path).map_err(|e| e.into_error(path))?;
+    let spec = SummarySpec::from_yaml(&text).map_err(settings)?;
+    let mut catalogue = Catalogue::standard()?;
+    catalogue
+        .extend(spec.traits.clone())
+        .map_err(|e| settings(e.to_string()))?;
+    let file = SummaryFile {
+        file: path.display().to_string(),
+        sha256: crate::data::sha256_hex(text.as_bytes()),
+        command: super::command_line().join(" "),
+    };
+    let built = build_from_summary(&spec, &catalogue, &file)?;
+    let yaml = built.to_yaml().map_err(|m| Error::Settings {
+        file: args.out.display().to_string(),
+        message: m,
+    })?;
+    crate::model::Model::from_yaml_in(&args.out.display().to_string(), &yaml, args.out.parent())?;
+    let estimates = estimates_path(&args.out);
+    let table = built.estimates_csv()?;
+    write_all_atomic(
+        &[
+            (estimates.clone(), table.as_slice()),
+            (args.out.clone(), yaml.as_bytes()),
+        ],
+        &[path],
+    )?;
+    println!(
+        "Built `{}` from the published values in {} ({} females, {} males in the source).",
+        spec.name,
+        path.display(),
+        built.n_female,
+        built.n_male
+    );
+    for b in &spec.blocks {
+        let n = b.traits.len();
+        println!(
+            "  block {:<14} {n} trait{}",
+            b.id,
+            if n == 1 { "" } else { "s" }
+        );
+    }
+    if !built.warnings.is_empty() {
+        println!("Look at these before using the model:");
+        for w in &built.warnings {
+            println!("  - {w}");
+        }
+    }
+    println!(
+        "Wrote {} and {} (estimates with standard errors).",
+        args.out.display(),
+        estimates.display()
     );
     Ok(0)
 }

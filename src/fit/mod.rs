@@ -22,6 +22,7 @@ pub mod correlation;
 pub mod ordinal;
 pub mod repair;
 pub mod spec;
+pub mod summary;
 
 pub use spec::{BlockSpec, CorrelationSharing, Dispersion, FitSpec};
 
@@ -54,7 +55,7 @@ pub struct FitProblem {
 
 /// A fit that cannot be made, with every problem found.
 #[derive(Debug, Clone, PartialEq, Serialize, thiserror::Error)]
-#[error("{file}: the model cannot be fitted ({} problem{})", problems.len(), if problems.len() == 1 { "" } else { "s" })]
+#[error("{file}: no model can be made from it ({} problem{})", problems.len(), if problems.len() == 1 { "" } else { "s" })]
 pub struct FitError {
     /// The reference file.
     pub file: String,
@@ -321,6 +322,7 @@ pub fn fit(
                 females: n_female,
                 males: n_male,
             }),
+            built_from: None,
         },
         estimates,
         warnings,
@@ -545,6 +547,7 @@ fn ordinal_margin(
                     male: round(half),
                 },
                 sd: None,
+                observer_error_sd: None,
             };
             let margin = Margin::Ordinal {
                 thresholds: f.thresholds,
@@ -645,6 +648,7 @@ fn metric_margin(
             female: round(sd[0]),
             male: round(sd[1]),
         }),
+        observer_error_sd: None,
     };
     Some((Margin::Metric { mean, sd }, raw))
 }

@@ -78,6 +78,28 @@ pub fn fit_cumulative_probit(
         *counts.entry(*s).or_insert(0.0) += 1.0;
     }
     let groups: Vec<(OrdinalScore, f64)> = counts.into_iter().collect();
+    fit_grouped_probit(&groups, n_grades)
+}
+
+/// Fit the cumulative probit to grouped scores: each distinct score with its count (or any
+/// positive weight, e.g. a published share times the sample size). The log-likelihood is
+/// Σ nᵢ ln P(scoreᵢ), so a table of counts by sex and grade gives exactly the estimates of the
+/// same scores listed one row per individual. Groups of weight 0 are ignored.
+///
+/// # Errors
+/// As [`fit_cumulative_probit`].
+pub fn fit_grouped_probit(
+    groups: &[(OrdinalScore, f64)],
+    n_grades: usize,
+) -> Result<OrdinalFit, OrdinalFitError> {
+    let groups: Vec<(OrdinalScore, f64)> = groups
+        .iter()
+        .copied()
+        .filter(|(_, n)| *n > 0.0 && n.is_finite())
+        .collect();
+    if n_grades < 2 {
+        return Err(OrdinalFitError::GradeNeverSeen(0));
+    }
     if !groups.iter().any(|(s, _)| s.male) || !groups.iter().any(|(s, _)| !s.male) {
         return Err(OrdinalFitError::OneSexOnly);
     }

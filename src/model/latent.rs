@@ -12,6 +12,14 @@
 //! μₛ,ₒ + Σₛ,ₒₘ Σₛ,ₘₘ⁻¹ (y − μₛ,ₘ) and covariance Σₛ,ₒₒ − Σₛ,ₒₘ Σₛ,ₘₘ⁻¹ Σₛ,ₘₒ (Schur
 //! complement). Traits not observed are dropped from vectors and matrices, which integrates
 //! them out exactly.
+//!
+//! # Observer error
+//! A trait may carry an observer error SD σₑ: the trait as recorded is xⱼ + eⱼ with
+//! eⱼ ~ N(0, σₑ²) independent of x and of the other traits' errors (classical measurement
+//! error; Fuller 1987, from memory). Its variance in Σₛ becomes Σₛ,ⱼⱼ + σₑ², its covariances
+//! stay, so its correlations with the other traits are attenuated by 1/√(1 + σₑ²/Σₛ,ⱼⱼ); the
+//! thresholds stay where they are on the error-free scale. For an ordinal trait the recorded
+//! grade is then less certain evidence of x, and the likelihood ratio moves towards 1.
 
 use super::evidence::{BlockEvidence, BlockStatus, Context};
 use super::spec::{RawLatentBlock, RawLatentTrait};
@@ -186,6 +194,7 @@ impl LatentBlock {
         let mut mean_m = DVector::zeros(p);
         let mut sd_f = DVector::from_element(p, 1.0);
         let mut sd_m = DVector::from_element(p, 1.0);
+        let mut error_var = DVector::zeros(p);
         for (j, t) in raw.traits.iter().enumerate() {
             let place = format!(", trait `{}`", t.id);
             if raw.traits[..j].iter().any(|u| u.id == t.id) {
@@ -198,6 +207,14 @@ impl LatentBlock {
             };
             if !(t.mean.female.is_finite() && t.mean.male.is_finite()) {
                 fail(&place, "means must be finite numbers".into());
+            }
+            match t.observer_error_sd {
+                Some(e) if e.is_finite() && e >= 0.0 => error_var[j] = e * e,
+                Some(e) => fail(
+                    &place,
+                    format!("observer_error_sd must be 0 or more, found {e}"),
+                ),
+                None => {}
             }
             mean_f[j] = t.mean.female;
             mean_m[j] = t.mean.male;
@@ -263,8 +280,12 @@ impl LatentBlock {
         if problems.len() > start || traits.len() != p {
             return None;
         }
-        let cov_f = DMatrix::from_fn(p, p, |i, j| sd_f[i] * r_f[(i, j)] * sd_f[j]);
-        let cov_m = DMatrix::from_fn(p, p, |i, j| sd_m[i] * r_m[(i, j)] * sd_m[j]);
+        // Observer error: the trait as recorded is x + e, e ~ N(0, σₑ²) independent of x and
+        // of the other traits' errors, so its variance gains σₑ² and its covariances are
+        // unchanged (its correlations are attenuated by 1/√(1 + σₑ²/σ²)).
+        let error = |i: usize, j: usize| if i == j { error_var[i] } else { 0.0 };
+        let cov_f = DMatrix::from_fn(p, p, |i, j| sd_f[i] * r_f[(i, j)] * sd_f[j] + error(i, j));
+        let cov_m = DMatrix::from_fn(p, p, |i, j| sd_m[i] * r_m[(i, j)] * sd_m[j] + error(i, j));
         Some(LatentBlock {
             id: raw.id.clone(),
             label: raw.label.clone(),

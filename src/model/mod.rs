@@ -126,6 +126,9 @@ pub struct Model {
     /// The reference collection a fitted model was fitted to (`None` for a model written from
     /// published values).
     pub fitted_to: Option<spec::FitOrigin>,
+    /// The publication whose summary statistics a model was built from (`None` for a model
+    /// fitted to raw data or written by hand).
+    pub built_from: Option<spec::SummaryOrigin>,
     /// SHA-256 of the model text.
     pub sha256: String,
     /// Models whose blocks this one includes.
@@ -333,6 +336,7 @@ impl Model {
             catalogue,
             blocks,
             fitted_to: raw.fitted_to,
+            built_from: raw.built_from,
             sha256: crate::data::sha256_hex(text.as_bytes()),
             included,
         })

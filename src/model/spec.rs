@@ -8,6 +8,8 @@
 //! | `minimum_age` | years below which morphological blocks are not used (default 18) |
 //! | `traits` | optional extra trait definitions, same form as `models/traits.yaml` |
 //! | `blocks` | the evidence blocks, independent given sex |
+//! | `fitted_to` | written by `tessera fit`: the reference file, its SHA-256, females and males |
+//! | `built_from` | written by `tessera fit --from-summary`: the publication, its sample, females and males, the summary file and its SHA-256 |
 //!
 //! A block has `id`, `label`, `type` (`latent`, `equations` or `dna`) and the fields of its type:
 //!
@@ -15,7 +17,9 @@
 //! (thresholds: one fewer than the grades, strictly increasing, on the latent scale whose
 //! within-sex SD is 1) and `{id, mean: {female, male}, sd: {female, male}}` for metric traits;
 //! `correlation:` the within-sex correlation matrix in the order of `traits` (default identity),
-//! or `correlation_female:` and `correlation_male:` for one per sex.
+//! or `correlation_female:` and `correlation_male:` for one per sex. Any trait may carry
+//! `observer_error_sd:` (latent scale for ordinal traits, the unit for measurements): the
+//! recording error the likelihood integrates.
 //!
 //! **equations** — `equations:` a list, in order of preference, of `{name, inputs, coefficients,
 //! intercept, predicts: male | female, training: equal | {female: n, male: n}, source}`: the
@@ -56,6 +60,28 @@ pub struct RawModel {
     /// model written by hand from published values).
     #[serde(default, skip_serializing_if = "Option::is_none")]
     pub fitted_to: Option<FitOrigin>,
+    /// The published summary statistics a model was built from (written by `tessera fit
+    /// --from-summary`).
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub built_from: Option<SummaryOrigin>,
+}
+
+/// The published source a model's parameters were built from.
+#[derive(Debug, Clone, PartialEq, Eq, Deserialize, Serialize)]
+#[serde(deny_unknown_fields)]
+pub struct SummaryOrigin {
+    /// The publication, as it should be cited.
+    pub citation: String,
+    /// The reference sample it describes (population, period, how sex was documented).
+    pub sample: String,
+    /// Females in the published sample.
+    pub females: usize,
+    /// Males in the published sample.
+    pub males: usize,
+    /// The summary file's name (without its folder).
+    pub file: String,
+    /// SHA-256 of the summary file.
+    pub sha256: String,
 }
 
 /// The documented reference collection a model was fitted to.
@@ -141,6 +167,12 @@ pub struct RawLatentTrait {
     /// SD per sex (metric traits only).
     #[serde(default, skip_serializing_if = "Option::is_none")]
     pub sd: Option<PerSex>,
+    /// The SD of the observer's scoring or measuring error, independent of everything else:
+    /// on the latent scale (within-sex SD 1) for an ordinal trait, in the unit of measurement
+    /// for a measurement. The likelihood then uses the trait as recorded, x + e (see
+    /// [`crate::model::latent`]).
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub observer_error_sd: Option<f64>,
 }
 
 /// Equation block as written.

@@ -33,6 +33,8 @@ guarantees, not from what one machine happened to print:
   Standard errors (`*_se`), relative 1e-5: they come from a numerical Hessian (finite
   differences with steps ~1e-4), whose truncation and rounding errors are ~1e-7 relative and
   move by that much between machines (seen: 3.1e-7 relative); the Rust test needs 1e-3.
+- grouped_probit_expected.csv: as ordered_probit_expected.csv (the same statsmodels fit, on
+  count tables expanded to one row per individual; its score stops near 1e-7).
 - gompertz_expected.csv, absolute 1e-6: scipy's BFGS stops at a gradient below 1e-9, so the
   estimates are within |H^-1 grad| ~ 1e-11 of the optimum; the log-likelihood is a sum of 600
   terms (numpy's expm1 and log, an ulp apart between processors), ~1e-12 relative.
@@ -76,6 +78,7 @@ SCRIPTS = {
     "ordered_probit.py": ("ordered_probit_expected.csv", "expected", ordered_probit, ()),
     "hierarchy.py": ("hierarchy_expected.csv", "expected", lambda row: relative(1e-14), ()),
     "gompertz.py": ("gompertz_expected.csv", "expected", lambda row: absolute(1e-6), ()),
+    "grouped_probit.py": ("grouped_probit_expected.csv", "expected", ordered_probit, ()),
 }
 
 # Numeric inputs written by a seeded generator through BLAS may differ in the last bits.
