@@ -147,4 +147,6 @@ pub struct AnalysisResult {
     pub recalibration_notes: Vec<String>,
     /// Blocks flagged for a person to look at, as `ID (block): note`, in file order.
     pub flagged: Vec<String>,
+    /// How far P(female) moves over other within-sex correlations, when asked for.
+    pub correlation_check: Option<crate::likelihood::correlation_check::CorrelationCheck>,
 }

@@ -474,3 +474,58 @@ fn individuals_carry_the_evidence_alone_beside_the_assemblage_and_their_flags() 
     }
     assert!(seen_flag);
 }
+
+/// `--correlation-check` with the shipped published femur model, whose correlation is
+/// assumed: the model's own value moves nothing, and bad values are refused before any work.
+#[test]
+fn the_correlation_check_moves_nothing_at_the_model_s_own_value() {
+    let dir = tempfile::tempdir().unwrap();
+    let out = dir.path().join("results");
+    let model = Path::new(env!("CARGO_MANIFEST_DIR"))
+        .join("models/femur-noussios-2019.yaml")
+        .display()
+        .to_string();
+    let bad = tessera(&[
+        "analyse",
+        &demo(),
+        "--out",
+        out.to_str().unwrap(),
+        "--model",
+        &model,
+        "--correlation-check",
+        "0,1,x",
+    ]);
+    assert_eq!(bad.status.code(), Some(4), "{}", stderr(&bad));
+    assert!(stderr(&bad).contains("correlation-check"));
+    assert!(!out.exists());
+    let o = tessera(&[
+        "analyse",
+        &demo(),
+        "--out",
+        out.to_str().unwrap(),
+        "--model",
+        &model,
+        "--correlation-check",
+        "0,0.5",
+    ]);
+    assert!(o.status.success(), "{}", stderr(&o));
+    assert!(stdout(&o).contains("within-sex correlations of block `femur`"));
+    let mut r = csv::Reader::from_path(out.join("correlation_check.csv")).unwrap();
+    let (mut at_half, mut moved_at_zero) = (0, 0);
+    for row in r.records() {
+        let row = row.unwrap();
+        let change: f64 = row[4].parse().unwrap();
+        if &row[1] == "0.5" {
+            at_half += 1;
+            assert_eq!(change, 0.0, "{row:?}");
+            assert_eq!(&row[2], &row[3]);
+        } else if change != 0.0 {
+            moved_at_zero += 1;
+        }
+    }
+    assert!(at_half > 0 && moved_at_zero > 0);
+    let report = std::fs::read_to_string(out.join("report.md")).unwrap();
+    assert!(report.contains("## Dependence on the within-sex correlations"));
+    let columns = std::fs::read_to_string(out.join("columns.md")).unwrap();
+    assert!(columns.contains("correlation_check.csv"));
+}

@@ -82,7 +82,12 @@ fn summary_counts_give_statsmodels_thresholds_on_the_expanded_rows() {
         yaml.push_str(&format!(
             "  - {{id: {case}, name: {case}, region: cranium, bilateral: false, kind: ordinal, grades: [1, {k}], definition: d, source: s}}\n"
         ));
-        let list = |v: &[u64]| v.iter().map(|x| x.to_string()).collect::<Vec<_>>().join(", ");
+        let list = |v: &[u64]| {
+            v.iter()
+                .map(|x| x.to_string())
+                .collect::<Vec<_>>()
+                .join(", ")
+        };
         // The three-grade case is given as a paper gives shares: rounded, with n.
         let (f, m) = if case.contains("shares") {
             let shares = |v: &[u64]| {
@@ -135,7 +140,12 @@ fn summary_counts_give_statsmodels_thresholds_on_the_expanded_rows() {
             }
         };
         let d = (got - expected).abs();
-        assert!(d < tol, "{} {}: tessera {got} statsmodels {expected}", &row[0], &row[1]);
+        assert!(
+            d < tol,
+            "{} {}: tessera {got} statsmodels {expected}",
+            &row[0],
+            &row[1]
+        );
         if &row[1] != "shift_se" {
             worst = worst.max(d);
         }

@@ -144,6 +144,7 @@ fn the_page_s_zip_holds_the_command_line_s_files_byte_for_byte() {
         "life_table_classes": "20-30,30-40,40+",
         "reference_ratio": 100.0,
         "hazard_ages": "20-40",
+        "correlation_check": "0,0.6",
     });
     let names = page_and_command_line_agree("mirefold.csv", &demo_bytes(), &options);
     for file in [
@@ -154,12 +155,13 @@ fn the_page_s_zip_holds_the_command_line_s_files_byte_for_byte() {
         "hazards.csv",
         "sex_ratio.csv",
         "figures/sex_ratio.svg",
+        "correlation_check.csv",
     ] {
         assert!(names.iter().any(|n| n == file), "{file} missing");
     }
     assert_eq!(
         names.last().unwrap(),
-        "tessera analyse mirefold.csv --out results --group-by phase --draws 200 --by-sex cribra_orbitalia --by-sex stature_cm --life-table-classes 20-30,30-40,40+ --reference-ratio 100 --hazard-ages 20-40"
+        "tessera analyse mirefold.csv --out results --group-by phase --draws 200 --by-sex cribra_orbitalia --by-sex stature_cm --life-table-classes 20-30,30-40,40+ --reference-ratio 100 --hazard-ages 20-40 --correlation-check 0,0.6"
     );
 }
 

@@ -245,7 +245,13 @@ pub fn case_report(
             not_recorded_names,
         });
     }
-    if model.fitted_to.is_none() {
+    if let Some(b) = &model.built_from {
+        warnings.push(format!(
+            "the model `{}` was built from the summary statistics published for a reference sample ({}), not from its individual records: its within-sex correlations are taken from the publication or assumed (see the model's provenance), and the sample's population must suit this case",
+            model.name,
+            crate::report::publication::short_citation(&b.citation)
+        ));
+    } else if model.fitted_to.is_none() {
         warnings.push(format!(
             "the model `{}` was not fitted to a documented reference collection: its likelihood ratios illustrate the method and are not evidence for casework",
             model.name
@@ -280,12 +286,26 @@ pub fn case_report(
         model: model.name.clone(),
         model_sha256: model.sha256.clone(),
         model_provenance: model.provenance.clone(),
-        fitted_to: model.fitted_to.as_ref().map(|f| {
-            format!(
-                "{} (SHA-256 {}; {} females, {} males)",
-                f.file, f.sha256, f.females, f.males
-            )
-        }),
+        fitted_to: model
+            .fitted_to
+            .as_ref()
+            .map(|f| {
+                format!(
+                    "fitted to the documented collection {} (SHA-256 {}; {} females, {} males)",
+                    f.file, f.sha256, f.females, f.males
+                )
+            })
+            .or_else(|| {
+                model.built_from.as_ref().map(|b| {
+                    format!(
+                        "built from the summary statistics published for a reference sample: {} ({}; {} females, {} males)",
+                        b.citation.trim(),
+                        b.sample.trim(),
+                        b.females,
+                        b.males
+                    )
+                })
+            }),
         minimum_age: model.minimum_age,
         regions,
         estimable: ev.estimable,

@@ -64,6 +64,12 @@ pub struct Args {
     /// (hazards.csv): the ratio of their cumulative Gompertz hazards and P(female higher).
     #[arg(long, value_name = "FROM-TO", default_value = crate::summary::hazard::DEFAULT_HAZARD_AGES)]
     pub hazard_ages: String,
+    /// Within-sex correlations to try in every latent block of two or more traits, e.g.
+    /// 0,0.25,0.5,0.75: how far each individual's P(female) moves when the model's
+    /// correlations are replaced by each (correlation_check.csv). For models whose
+    /// correlations are assumed rather than published.
+    #[arg(long, value_name = "VALUES")]
+    pub correlation_check: Option<String>,
     /// Seed of every random stream (same seed, same bytes).
     #[arg(long, default_value_t = 1)]
     pub seed: u64,
@@ -95,6 +101,7 @@ impl Args {
             life_table_classes: self.life_table_classes.clone(),
             reference_ratio: self.reference_ratio,
             hazard_ages: self.hazard_ages.clone(),
+            correlation_check: self.correlation_check.clone().unwrap_or_default(),
             seed: self.seed,
             read: self.input.read_options(&self.groups),
         }
@@ -142,6 +149,12 @@ pub fn run(args: Args) -> Result<i32, Error> {
         println!("Recalibrated {} means of the measurements: {changes} category with them (recalibrated_individuals.csv). The summary below and every other table and figure use the model's reference means.", recal.means.len());
     }
     print!("{}", terminal_summary(&r));
+    if let Some(c) = &r.correlation_check {
+        println!(
+            "{}",
+            crate::report::publication::correlation_check_sentences(&r, c)
+        );
+    }
     for f in crate::report::named_at_most(
         r.flagged.len(),
         r.flagged.iter().cloned(),

@@ -221,7 +221,10 @@ pub fn build_from_summary(
     } else {
         for (field, v) in [("citation", &source.citation), ("sample", &source.sample)] {
             if v.as_deref().is_none_or(|t| t.trim().is_empty()) {
-                fail(format!("source.{field}"), "missing: required so that every number can be traced".into());
+                fail(
+                    format!("source.{field}"),
+                    "missing: required so that every number can be traced".into(),
+                );
             }
         }
         for (field, v) in [("females", source.females), ("males", source.males)] {
@@ -241,7 +244,10 @@ pub fn build_from_summary(
     }
     if let Some(age) = spec.minimum_age {
         if !(age.is_finite() && (0.0..=100.0).contains(&age)) {
-            fail("minimum_age".into(), format!("years from 0 to 100, found {age}"));
+            fail(
+                "minimum_age".into(),
+                format!("years from 0 to 100, found {age}"),
+            );
         }
     }
     let mut estimates = Vec::new();
@@ -253,7 +259,10 @@ pub fn build_from_summary(
             fail(format!("blocks[{}].id", i + 1), format!("`{}`: {m}", b.id));
         }
         if spec.blocks[..i].iter().any(|o| o.id == b.id) {
-            fail(format!("blocks[{}]", b.id), "block ids must be unique".into());
+            fail(
+                format!("blocks[{}]", b.id),
+                "block ids must be unique".into(),
+            );
         }
         for t in &b.traits {
             if seen.contains(&t.id.as_str()) {
@@ -403,7 +412,10 @@ fn build_block(
 ) -> Option<RawLatentBlock> {
     let start = log.problems.len();
     if b.traits.is_empty() {
-        log.fail(format!("blocks[{}].traits", b.id), "list at least one trait".into());
+        log.fail(
+            format!("blocks[{}].traits", b.id),
+            "list at least one trait".into(),
+        );
     }
     let mut written = Vec::new();
     for t in &b.traits {
@@ -418,7 +430,10 @@ fn build_block(
         let (Some(female), Some(male)) = (&t.female, &t.male) else {
             for (sex, v) in [("female", &t.female), ("male", &t.male)] {
                 if v.is_none() {
-                    log.fail(format!("{place}.{sex}"), "missing: both sexes' values are needed".into());
+                    log.fail(
+                        format!("{place}.{sex}"),
+                        "missing: both sexes' values are needed".into(),
+                    );
                 }
             }
             continue;
@@ -543,15 +558,27 @@ pub fn check_matrix(m: &[Vec<f64>], p: usize) -> Result<(), String> {
         ));
     }
     let mut wrong = Vec::new();
-    for i in 0..p {
-        if (m[i][i] - 1.0).abs() > 1e-12 {
-            wrong.push(format!("row {} has {} on the diagonal (must be 1)", i + 1, m[i][i]));
+    for (i, row) in m.iter().enumerate() {
+        if (row[i] - 1.0).abs() > 1e-12 {
+            wrong.push(format!(
+                "row {} has {} on the diagonal (must be 1)",
+                i + 1,
+                row[i]
+            ));
         }
-        for j in 0..p {
-            if !m[i][j].is_finite() || m[i][j].abs() > 1.0 {
-                wrong.push(format!("row {}, column {}: {} is not in [−1, 1]", i + 1, j + 1, m[i][j]));
-            } else if j > i && (m[i][j] - m[j][i]).abs() > 1e-9 {
-                wrong.push(format!("rows {} and {} differ (not symmetric)", i + 1, j + 1));
+        for (j, &x) in row.iter().enumerate() {
+            if !x.is_finite() || x.abs() > 1.0 {
+                wrong.push(format!(
+                    "row {}, column {}: {x} is not in [−1, 1]",
+                    i + 1,
+                    j + 1
+                ));
+            } else if j > i && (x - m[j][i]).abs() > 1e-9 {
+                wrong.push(format!(
+                    "rows {} and {} differ (not symmetric)",
+                    i + 1,
+                    j + 1
+                ));
             }
         }
     }
@@ -585,11 +612,19 @@ fn grade_counts(v: &SexSummary, k: usize, place: &str, log: &mut BlockLog) -> Op
         (Some(c), None) => (c, "counts"),
         (None, Some(s)) => (s, "shares"),
         (Some(_), Some(_)) => {
-            log.fail(place.to_string(), "give `counts` or `shares`, not both".into());
+            log.fail(
+                place.to_string(),
+                "give `counts` or `shares`, not both".into(),
+            );
             return None;
         }
         (None, None) => {
-            log.fail(place.to_string(), format!("missing: `counts` ({k} numbers, lowest grade first), or `shares` with `n`"));
+            log.fail(
+                place.to_string(),
+                format!(
+                    "missing: `counts` ({k} numbers, lowest grade first), or `shares` with `n`"
+                ),
+            );
             return None;
         }
     };
@@ -613,7 +648,9 @@ fn grade_counts(v: &SexSummary, k: usize, place: &str, log: &mut BlockLog) -> Op
     }
     match field {
         "counts" => {
-            if v.n.is_some_and(|n| (n - list.iter().sum::<f64>()).abs() > 0.5) {
+            if v.n
+                .is_some_and(|n| (n - list.iter().sum::<f64>()).abs() > 0.5)
+            {
                 log.fail(
                     format!("{place}.n"),
                     format!(
@@ -723,7 +760,12 @@ fn ordinal_trait(
             let half = 0.5 * f.shift;
             Some(RawLatentTrait {
                 id: t.id.clone(),
-                thresholds: Some(f.thresholds.iter().map(|x| super::round(x - half)).collect()),
+                thresholds: Some(
+                    f.thresholds
+                        .iter()
+                        .map(|x| super::round(x - half))
+                        .collect(),
+                ),
                 mean: PerSex {
                     female: super::round(-half),
                     male: super::round(half),
@@ -762,7 +804,8 @@ fn metric_trait(
             None => log.fail(
                 format!("{at}.n"),
                 match v.n {
-                    None => "missing: the sample size is needed for the SD and the standard errors".into(),
+                    None => "missing: the sample size is needed for the SD and the standard errors"
+                        .into(),
                     Some(x) => format!("a whole number of at least 2, found {x}"),
                 },
             ),

@@ -1,6 +1,7 @@
 //! The evidence stage: every individual's blocks evaluated, and the evidence ledger that a
 //! report can quote without any prior.
 
+pub mod correlation_check;
 pub mod ledger;
 
 pub use ledger::{ledger_csv, LedgerRow};

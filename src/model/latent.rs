@@ -87,8 +87,11 @@ pub struct LatentBlock {
     pub traits: Vec<LatentTrait>,
     /// Means per sex (female, male).
     pub mean: [DVector<f64>; 2],
-    /// Covariance per sex (female, male).
+    /// Covariance per sex (female, male), observer error included.
     pub cov: [DMatrix<f64>; 2],
+    /// Each trait's observer error variance σₑ² (0 where none is given), already added to the
+    /// diagonal of `cov`.
+    pub observer_error_var: DVector<f64>,
 }
 
 /// An ordinal trait of a latent block: `thresholds` on the latent scale, one fewer than the
@@ -292,7 +295,34 @@ impl LatentBlock {
             traits,
             mean: [mean_f, mean_m],
             cov: [cov_f, cov_m],
+            observer_error_var: error_var,
         })
+    }
+
+    /// The same block with every within-sex correlation between two different traits set to
+    /// `r` (the SDs, means, thresholds and observer errors kept): Σ′ᵢⱼ = σᵢ σⱼ r for i ≠ j,
+    /// with σᵢ² = Σᵢᵢ − σₑ,ᵢ², the trait's own SD before its observer error. For 0 ≤ r < 1 the
+    /// matrix stays positive definite.
+    pub fn with_correlation(&self, r: f64) -> LatentBlock {
+        let mut out = self.clone();
+        for (s, cov) in out.cov.iter_mut().enumerate() {
+            let p = cov.nrows();
+            let sd: Vec<f64> = (0..p)
+                .map(|i| {
+                    (self.cov[s][(i, i)] - self.observer_error_var[i])
+                        .max(0.0)
+                        .sqrt()
+                })
+                .collect();
+            for i in 0..p {
+                for j in 0..p {
+                    if i != j {
+                        cov[(i, j)] = sd[i] * sd[j] * r;
+                    }
+                }
+            }
+        }
+        out
     }
 
     /// A key naming exactly what this individual has observed in the block (traits and

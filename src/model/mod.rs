@@ -154,7 +154,7 @@ impl EvidenceCache {
         self.len() == 0
     }
 
-    fn get_or_compute(
+    pub(crate) fn get_or_compute(
         &self,
         key: (usize, String),
         f: impl FnOnce() -> BlockEvidence,

@@ -428,6 +428,16 @@ impl ValidatedOptions {
             side_policy: self.read.side_policy.as_str().into(),
         };
         let flagged = crate::likelihood::flagged(model, &a, &evidence);
+        let correlation_check = (!self.correlation_check.is_empty()).then(|| {
+            crate::likelihood::correlation_check::correlation_check(
+                model,
+                &a.individuals,
+                &evidence,
+                &results.main.p_female,
+                &self.correlation_check,
+                &Context::new(o.seed),
+            )
+        });
         Ok(AnalysisResult {
             run,
             model: model.clone(),
@@ -441,6 +451,7 @@ impl ValidatedOptions {
             input_notes,
             recalibration_notes,
             flagged,
+            correlation_check,
         })
     }
 }

@@ -244,6 +244,9 @@ pub struct AnalysisOptions {
     pub reference_ratio: f64,
     /// The age range (`18-35`) over which the mortality of the sexes is compared.
     pub hazard_ages: String,
+    /// Within-sex correlations to try in the latent blocks (`0,0.25,0.5,0.75`); empty: no
+    /// correlation check.
+    pub correlation_check: String,
     /// Seed of every random stream.
     pub seed: u64,
     /// How to read the table.
@@ -266,6 +269,7 @@ impl Default for AnalysisOptions {
             life_table_classes: crate::summary::DEFAULT_LIFE_TABLE_CLASSES.into(),
             reference_ratio: crate::summary::DEFAULT_REFERENCE_RATIO,
             hazard_ages: crate::summary::hazard::DEFAULT_HAZARD_AGES.into(),
+            correlation_check: String::new(),
             seed: 1,
             read: ReadOptions::default(),
         }
@@ -299,6 +303,8 @@ pub struct ValidatedOptions {
     pub life_table_classes: crate::summary::AgeClasses,
     /// The age range of the comparison of mortality.
     pub hazard_ages: (f64, f64),
+    /// The within-sex correlations to try (empty: no correlation check).
+    pub correlation_check: Vec<f64>,
     /// The options as given.
     pub options: AnalysisOptions,
 }
@@ -383,6 +389,15 @@ impl AnalysisOptions {
                 problems.push(OptionProblem::new("hazard-ages", message));
                 (0.0, 1.0) // never used: the options are refused
             });
+        let correlation_check = if self.correlation_check.trim().is_empty() {
+            Vec::new()
+        } else {
+            crate::likelihood::correlation_check::parse_values(&self.correlation_check)
+                .unwrap_or_else(|message| {
+                    problems.push(OptionProblem::new("correlation-check", message));
+                    Vec::new()
+                })
+        };
         if !(self.reference_ratio.is_finite() && self.reference_ratio > 0.0) {
             problems.push(OptionProblem::new(
                 "reference-ratio",
@@ -428,6 +443,7 @@ impl AnalysisOptions {
                 recalibration,
                 life_table_classes,
                 hazard_ages,
+                correlation_check,
                 options: self.clone(),
             }),
             _ => Err(Error::Options(OptionProblems(problems))),

@@ -4,7 +4,7 @@
 //! list of files names them all).
 
 use crate::output::OutputSet;
-use crate::report::analysis::{recalibration_files, render_files};
+use crate::report::analysis::{correlation_check_files, recalibration_files, render_files};
 use crate::report::publication::{by_sex_tables, figures_svg, methods_md, report_md_and_tex};
 use crate::results::AnalysisResult;
 use crate::Error;
@@ -44,7 +44,11 @@ pub fn render_each(
         }
     }
     seen.pass("methods.md", methods_md(r).into_bytes())?;
-    for f in recalibration_files(r)?.files {
+    for f in recalibration_files(r)?
+        .files
+        .into_iter()
+        .chain(correlation_check_files(r)?.files)
+    {
         seen.pass(&f.name, f.bytes)?;
     }
     // The data dictionary of every table above, read from their own header rows.

@@ -800,3 +800,46 @@ pub fn recalibration_files(result: &AnalysisResult) -> Result<OutputSet, RenderE
     files.push("recalibrated_individuals.csv", csv_bytes(ind)?);
     Ok(files)
 }
+
+/// `correlation_check.csv` (id, correlation, p_female, p_female_main, change, category,
+/// category_main, category_changed): one row per individual whose evidence used a varied
+/// block and per correlation tried; none without a correlation check.
+///
+/// # Errors
+/// [`RenderError`] when the table cannot be built.
+pub fn correlation_check_files(result: &AnalysisResult) -> Result<OutputSet, RenderError> {
+    let Some(c) = &result.correlation_check else {
+        return Ok(OutputSet::default());
+    };
+    let analysis = &result.results;
+    let t = analysis.thresholds;
+    let mut rows = vec![header(&[
+        "id",
+        "correlation",
+        "p_female",
+        "p_female_main",
+        "change",
+        "category",
+        "category_main",
+        "category_changed",
+    ])];
+    for (v, ps) in c.values.iter().zip(&c.p_female) {
+        for (&i, &q) in c.individuals.iter().zip(ps) {
+            let p = analysis.main.p_female[i].unwrap_or(f64::NAN);
+            let (cp, cq) = (t.categorise(p), t.categorise(q));
+            rows.push(vec![
+                result.assemblage.individuals[i].id.clone(),
+                format!("{v}"),
+                prob(q),
+                prob(p),
+                f4(q - p),
+                cq.as_str().into(),
+                cp.as_str().into(),
+                (cp != cq).to_string(),
+            ]);
+        }
+    }
+    let mut files = OutputSet::default();
+    files.push("correlation_check.csv", csv_bytes(rows)?);
+    Ok(files)
+}

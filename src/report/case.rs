@@ -287,7 +287,7 @@ pub fn case_markdown(c: &CaseReport, rates: Option<&QuotedRates>, command: &str)
     let _ = writeln!(m, "- Model: `{}` (SHA-256 `{}`)", c.model, c.model_sha256);
     match &c.fitted_to {
         Some(f) => {
-            let _ = writeln!(m, "- Fitted to the documented collection {f}");
+            let _ = writeln!(m, "- Parameters: {f}");
         }
         None => {
             let _ = writeln!(

@@ -168,6 +168,15 @@ pub const COLUMNS: &[Entry] = &[
     ("category_by_age.csv", "probable_male", "as female, for this category", "individuals", COUNT),
     ("category_by_age.csv", "male", "as female, for this category", "individuals", COUNT),
     ("category_by_age.csv", "not_estimable", "as female, for this category", "individuals", COUNT),
+    // correlation check
+    ("correlation_check.csv", "id", "the individual (only those whose evidence used a latent block of two or more traits)", "", "text"),
+    ("correlation_check.csv", "correlation", "the within-sex correlation put in place of the model's in every such block", "", "0 to 1"),
+    ("correlation_check.csv", "p_female", "posterior probability of female with that correlation, the main analysis's prior odds held", "", P),
+    ("correlation_check.csv", "p_female_main", "posterior probability of female in the main analysis (the model's correlations)", "", P),
+    ("correlation_check.csv", "change", "p_female − p_female_main", "probability", "−1 to 1"),
+    ("correlation_check.csv", "category", "category of p_female under the run's cut-offs", "", "female | probable_female | indeterminate | probable_male | male"),
+    ("correlation_check.csv", "category_main", "category in the main analysis", "", "female | probable_female | indeterminate | probable_male | male"),
+    ("correlation_check.csv", "category_changed", "whether the category differs from the main analysis's", "", "true | false"),
     // recalibration
     ("recalibration.csv", "trait", "the measurement", "", "a trait id"),
     ("recalibration.csv", "sex", "the sex whose mean it is", "", "F | M"),

@@ -582,6 +582,12 @@ pub fn references_used(
             refs.push(citations::work(key));
         }
     }
+    if let Some(b) = &model.built_from {
+        if used_latent && !refs.contains(&b.citation) {
+            refs.push(b.citation.trim().to_string());
+            refs.push(citations::work("McCullagh 1980"));
+        }
+    }
     // The works behind each trait used, from the catalogue's sources, in catalogue order.
     for d in model.catalogue.traits() {
         if !used_traits.contains(&d.id) {
@@ -708,8 +714,8 @@ pub fn methods_md(r: &AnalysisResult) -> String {
     let _ = writeln!(s, "# Methods: sex estimation\n");
     let _ = write!(
         s,
-        "Biological sex was estimated for the {} individuals of the assemblage ({} with usable evidence) with tessera {} (model `{}`), which combines all surviving evidence of each individual in one Bayesian computation. The evidence was treated as {} blocks, assumed independent given sex: {}. ",
-        main.n_individuals, main.n_estimable, run.version, model.name, used_blocks.len(), used_blocks.join("; ")
+        "Biological sex was estimated for the {} individuals of the assemblage ({} with usable evidence) with tessera {} (model `{}`), which combines all surviving evidence of each individual in one Bayesian computation. The evidence was treated as {}, assumed independent given sex: {}. ",
+        main.n_individuals, main.n_estimable, run.version, model.name, match used_blocks.len() { 1 => "one block".to_string(), n => format!("{n} blocks") }, used_blocks.join("; ")
     );
     let _ = write!(s, "{}", recording_sentence(model, &used_traits));
     if has_latent {
@@ -724,6 +730,9 @@ pub fn methods_md(r: &AnalysisResult) -> String {
         let _ = write!(s, "Traits not recorded were assumed missing at random with respect to sex (they neither count for nor against either sex); where both sides of a bilateral trait were recorded, {sides}; a score recorded as a range of two grades (e.g. 3-4) was taken to mean one of those grades, its latent value lying between the lower edge of the first and the upper edge of the second. ");
         if is_fitted(model) {
             let _ = write!(s, "The model's parameters were estimated with tessera from a documented reference collection ({}) by two-step maximum likelihood: cumulative probit margins for the ordinal traits (McCullagh, 1980), per-sex means and standard deviations of the measurements, and polychoric, polyserial or Pearson within-sex correlations given the margins (Olsson, 1979; Olsson, Drasgow & Dorans, 1982). ", fitted_reference(model));
+        }
+        if let Some(b) = &model.built_from {
+            let _ = write!(s, "The model's parameters were built with tessera from the summary statistics published for a reference sample ({}: {}; {} females and {} males): the per-sex means and standard deviations of the measurements as published, and for ordinal traits a cumulative probit fitted by maximum likelihood to the published grade counts by sex (McCullagh, 1980). Where the publication gives no within-sex correlations, the model's are an assumption, recorded in its provenance. ", short_citation(&b.citation), b.sample.trim().trim_end_matches('.'), b.females, b.males);
         }
     }
     for f in &model.included {
@@ -834,6 +843,9 @@ pub fn methods_md(r: &AnalysisResult) -> String {
     }
     if let Some(rc) = &r.recalibration {
         let _ = write!(s, "{}", recalibration_sentences(r, rc));
+    }
+    if let Some(c) = &r.correlation_check {
+        let _ = write!(s, "{} ", correlation_check_sentences(r, c));
     }
     let _ = writeln!(
         s,
@@ -968,6 +980,7 @@ pub fn report_md_and_tex(r: &AnalysisResult, files: &[String]) -> (String, Strin
         hazard_section,
         prevalence_section,
         recalibration_section,
+        correlation_check_section,
     ] {
         section(r, &mut m, &mut t);
     }
@@ -1636,3 +1649,103 @@ fn numeric_section(r: &AnalysisResult, m: &mut String, t: &mut String) {
 #[cfg(test)]
 #[path = "tests/publication.rs"]
 mod tests;
+
+/// Moves of P(female) by more than this are counted in the correlation check's summary (a
+/// choice of ours).
+pub const NOTABLE_MOVE: f64 = 0.05;
+
+/// The correlation check in words: what was varied, over which values, and how far P(female)
+/// moved (largest move and whose, how many moved by more than [`NOTABLE_MOVE`], how many
+/// changed category).
+pub fn correlation_check_sentences(
+    r: &AnalysisResult,
+    c: &crate::likelihood::correlation_check::CorrelationCheck,
+) -> String {
+    let values = c
+        .values
+        .iter()
+        .map(|v| format!("{v}"))
+        .collect::<Vec<_>>()
+        .join(", ");
+    if c.blocks.is_empty() {
+        return format!(
+            "A correlation check over {values} was asked for, but the model has no latent block of two or more traits: nothing depends on a within-sex correlation."
+        );
+    }
+    let blocks = c
+        .blocks
+        .iter()
+        .map(|b| format!("`{b}`"))
+        .collect::<Vec<_>>()
+        .join(", ");
+    let main = &r.results.main.p_female;
+    let moves = c.largest_moves(main);
+    let t = r.results.thresholds;
+    let changed = c
+        .individuals
+        .iter()
+        .enumerate()
+        .filter(|(k, &i)| {
+            let p = main[i].unwrap_or(f64::NAN);
+            c.p_female
+                .iter()
+                .any(|v| t.categorise(v[*k]) != t.categorise(p))
+        })
+        .count();
+    let notable = moves.iter().filter(|m| **m > NOTABLE_MOVE).count();
+    let largest = moves
+        .iter()
+        .enumerate()
+        .fold(None, |best: Option<(usize, f64)>, (k, m)| match best {
+            Some((_, b)) if b >= *m => best,
+            _ => Some((k, *m)),
+        });
+    let whose = largest
+        .map(|(k, m)| format!("{m:.3} ({})", r.assemblage.individuals[c.individuals[k]].id))
+        .unwrap_or_else(|| "0".into());
+    format!(
+        "To see how much the results depend on the within-sex correlations of block{} {blocks}, every correlation of {} was replaced in turn by {values}, the prior odds of the main analysis held. Of the {} individuals whose evidence used {}, the largest change in P(female) was {whose}; {notable} moved by more than {NOTABLE_MOVE} and {changed} changed category under at least one value (correlation_check.csv).",
+        if c.blocks.len() == 1 { "" } else { "s" },
+        if c.blocks.len() == 1 { "that block" } else { "those blocks" },
+        c.individuals.len(),
+        if c.blocks.len() == 1 { "it" } else { "them" },
+    )
+}
+
+/// The correlation check, when asked for.
+fn correlation_check_section(r: &AnalysisResult, m: &mut String, _t: &mut String) {
+    let Some(c) = &r.correlation_check else {
+        return;
+    };
+    let _ = writeln!(
+        m,
+        "## Dependence on the within-sex correlations\n\n{}\n",
+        correlation_check_sentences(r, c)
+    );
+}
+
+/// "Noussios et al., 2019" from an APA reference "Noussios, G., Theologou, K., … (2019). …":
+/// the first author's surname, "et al." for three or more authors ("& Second" for two), and
+/// the year in brackets; the reference as written where it has no bracketed year.
+pub fn short_citation(reference: &str) -> String {
+    let reference = reference.trim();
+    let Some(open) = reference.find(" (") else {
+        return reference.to_string();
+    };
+    let year: String = reference[open + 2..]
+        .chars()
+        .take_while(|c| c.is_ascii_digit())
+        .collect();
+    if year.len() != 4 {
+        return reference.to_string();
+    }
+    let authors = &reference[..open];
+    let surname = |a: &str| a.split(',').next().unwrap_or(a).trim().to_string();
+    let first = surname(authors);
+    let names = authors.matches(".,").count() + 1;
+    match (names, authors.split(" & ").nth(1)) {
+        (1, _) | (_, None) if !authors.contains(" & ") => format!("{first}, {year}"),
+        (2, Some(second)) => format!("{first} & {}, {year}", surname(second)),
+        _ => format!("{first} et al., {year}"),
+    }
+}

@@ -318,6 +318,8 @@ pub struct PageOptions {
     pub reference_ratio: f64,
     /// The age range of the comparison of mortality.
     pub hazard_ages: String,
+    /// Within-sex correlations to try (empty: no correlation check).
+    pub correlation_check: String,
     /// Joint posterior draws to write.
     pub draws: Option<usize>,
     /// Recalibrate the measurements.
@@ -351,6 +353,7 @@ impl Default for PageOptions {
             life_table_classes: d.life_table_classes,
             reference_ratio: d.reference_ratio,
             hazard_ages: d.hazard_ages,
+            correlation_check: d.correlation_check,
             draws: None,
             recalibrate: false,
             seed: d.seed,
@@ -384,6 +387,7 @@ impl PageOptions {
             life_table_classes: self.life_table_classes.clone(),
             reference_ratio: self.reference_ratio,
             hazard_ages: self.hazard_ages.clone(),
+            correlation_check: self.correlation_check.clone(),
             recalibrate: self.recalibrate,
             seed: self.seed,
             read: ReadOptions {
@@ -452,6 +456,9 @@ fn command_of(table: &str, o: &AnalysisOptions) -> Vec<String> {
     }
     if o.hazard_ages != d.hazard_ages {
         opt("--hazard-ages", o.hazard_ages.clone());
+    }
+    if !o.correlation_check.trim().is_empty() {
+        opt("--correlation-check", o.correlation_check.clone());
     }
     if o.seed != d.seed {
         opt("--seed", o.seed.to_string());

@@ -244,7 +244,11 @@ fn every_problem_of_a_bad_summary_is_named_by_its_field() {
         .iter()
         .find(|p| p.place == "blocks[femur].correlation")
         .unwrap();
-    assert!(pd.message.contains("not positive definite"), "{}", pd.message);
+    assert!(
+        pd.message.contains("not positive definite"),
+        "{}",
+        pd.message
+    );
     let shares = err
         .problems
         .iter()
@@ -277,10 +281,7 @@ blocks:
     let RawBlock::Latent(b) = &built.model.blocks[0] else {
         panic!()
     };
-    assert_eq!(
-        b.correlation,
-        Some(vec![vec![1.0, 0.4], vec![0.4, 1.0]])
-    );
+    assert_eq!(b.correlation, Some(vec![vec![1.0, 0.4], vec![0.4, 1.0]]));
     assert!(built.model.provenance.contains("ASSUMED 0.4"));
     // ML SD from the sample SD: 2.4 · √(49/50).
     let sd = b.traits[0].sd.unwrap().female;

@@ -238,6 +238,7 @@ async function run(event) {
     by_sex: Array.from(document.querySelectorAll("#by-sex input:checked")).map((b) => b.value),
     life_table_classes: $("life-table-classes").value,
     hazard_ages: $("hazard-ages").value,
+    correlation_check: $("correlation-check").value,
     reference_ratio: Number($("reference-ratio").value || 105),
     draws: $("draws").value ? Number($("draws").value) : null,
     recalibrate: $("recalibrate").checked,
