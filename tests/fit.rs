@@ -68,7 +68,7 @@ fn a_model_fitted_to_a_simulated_reference_classifies_as_well_as_the_true_model(
     let mut same_blocks = truth.clone();
     same_blocks.blocks.retain(|b| match b {
         Block::Latent(l) => l.id != "dental",
-        Block::Dna(_) => true,
+        Block::Dna(_) | Block::DnaX(_) => true,
         Block::Equations(_) => false,
     });
     let cemetery = simulate(&truth, &one_group(3000), &MissingSpec::fragmentary(), 202).unwrap();

@@ -300,7 +300,8 @@ fn build(
         carried: &carried,
         dna: catalogue
             .position("dna_x_reads")
-            .zip(catalogue.position("dna_y_reads")),
+            .zip(catalogue.position("dna_y_reads"))
+            .map(|(x, y)| (x, y, catalogue.position("dna_autosome_reads"))),
         decimal_comma: table.decimal_comma,
     };
     let mut found = Findings {
@@ -426,8 +427,9 @@ struct RowReader<'a> {
     settings: &'a ReadSettings,
     /// Columns carried through unchanged.
     carried: &'a [usize],
-    /// Catalogue positions of the X and Y read counts, when the catalogue has both.
-    dna: Option<(usize, usize)>,
+    /// Catalogue positions of the X and Y read counts, when the catalogue has both, and of
+    /// the autosomal count.
+    dna: Option<(usize, usize, Option<usize>)>,
     decimal_comma: bool,
 }
 
@@ -635,24 +637,41 @@ impl RowReader<'_> {
         (observations, sides)
     }
 
-    /// X and Y read counts come as a pair.
+    /// Read counts come in pairs: a Y or an autosomal count needs the X count it is compared
+    /// with, and an X count needs a Y count, an autosomal count, or both.
     fn check_reads_pair(&self, row: usize, written: &[bool], found: &mut Findings) {
-        let Some((x, y)) = self.dna else {
+        let Some((x, y, autosome)) = self.dna else {
             return;
         };
-        if written[x] != written[y] {
-            let (have, lack) = if written[x] {
-                ("dna_x_reads", "dna_y_reads")
-            } else {
-                ("dna_y_reads", "dna_x_reads")
-            };
+        let has_autosome = autosome.is_some_and(|a| written[a]);
+        let lack = if written[x] && !written[y] && !has_autosome {
+            Some((
+                "dna_y_reads",
+                match autosome {
+                    Some(_) => "a Y or an autosomal read count beside `dna_x_reads`: an X count is compared with one of them (write 0 where no reads mapped)",
+                    None => "a read count beside `dna_x_reads`: X and Y read counts come as a pair (write 0 where no reads mapped)",
+                },
+            ))
+        } else if !written[x] && (written[y] || has_autosome) {
+            Some((
+                "dna_x_reads",
+                if written[y] {
+                    "a read count beside `dna_y_reads`: X and Y read counts come as a pair (write 0 where no reads mapped)"
+                } else {
+                    "a read count beside `dna_autosome_reads`: the autosomal count is compared with the X count (write 0 where no reads mapped)"
+                },
+            ))
+        } else {
+            None
+        };
+        if let Some((column, expected)) = lack {
             found.problems.push(Problem {
                 file: self.name.to_string(),
                 row: Some(row),
-                column: Some(lack.to_string()),
+                column: Some(column.to_string()),
                 value: None,
                 kind: ProblemKind::UnpairedReads,
-                expected: format!("a read count beside `{have}`: X and Y read counts come as a pair (write 0 where no reads mapped)"),
+                expected: expected.to_string(),
             });
         }
     }

@@ -5,7 +5,7 @@
 //! | `id` | the individual |
 //! | `block` | block id, or `total` |
 //! | `block_type` | `latent`, `equations`, `dna` (empty on total rows) |
-//! | `status` | `used`, `no_evidence`, `below_minimum_age`, `no_usable_equation`, `atypical`, `numerical_failure`; on total rows `estimated` or `not_estimable` |
+//! | `status` | `used`, `no_evidence`, `below_minimum_age`, `no_usable_equation`, `atypical`, `numerical_failure`, `counted_by_another_block`; on total rows `estimated` or `not_estimable` |
 //! | `traits_used` | trait ids that entered the computation, `;`-separated |
 //! | `n_traits` | how many |
 //! | `ln_l_female`, `ln_l_male` | ln P(evidence \| sex) where the block defines it (latent, dna) |

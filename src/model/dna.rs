@@ -50,6 +50,35 @@ pub fn ln_gamma_difference(x: f64, a: f64, b: f64) -> f64 {
         + 1.0 / (360.0 * zb.powi(3))
 }
 
+/// ln P(k | n) of the beta-binomial BB(n, α, β), written so that nothing cancels for large
+/// counts: [lnΓ(n+1) − lnΓ(n+α+β)] + [lnΓ(k+α) − lnΓ(k+1)] + [lnΓ(n−k+β) − lnΓ(n−k+1)] − ln B(α, β),
+/// each bracket by [`ln_gamma_difference`].
+pub fn beta_binomial_ln_pmf(a: f64, b: f64, k: u64, n: u64) -> f64 {
+    let (k, n) = (k as f64, n as f64);
+    ln_gamma_difference(n, 1.0, a + b)
+        + ln_gamma_difference(k, a, 1.0)
+        + ln_gamma_difference(n - k, b, 1.0)
+        - ln_beta(a, b)
+}
+
+/// z-score of k under BB(n, α, β): (k − n m) / √(n m (1 − m)(α + β + n)/(α + β + 1)), m = α/(α + β).
+pub fn beta_binomial_z(a: f64, b: f64, k: u64, n: u64) -> f64 {
+    let (k, n) = (k as f64, n as f64);
+    let m = a / (a + b);
+    let var = n * m * (1.0 - m) * (a + b + n) / (a + b + 1.0);
+    (k - n * m) / var.sqrt()
+}
+
+/// The contamination mixture of the module documentation, from each sex's own ln P:
+/// ln[(1 − ε) Pₛ + ε ½ (P_F + P_M)] by log-sum-exp; ε = 0 gives them back unchanged.
+pub fn with_contamination(own: [f64; 2], eps: f64) -> [f64; 2] {
+    if eps == 0.0 {
+        return own;
+    }
+    let other = (0.5 * eps).ln() + ln_add_exp(own[0], own[1]);
+    own.map(|l| ln_add_exp((1.0 - eps).ln() + l, other))
+}
+
 /// Default ε: the probability that a sample's reads are not the individual's own. A stated
 /// assumption of ours (no published rate of whole-sample contamination or mix-up is used
 /// here); set `contamination` in the model file to the laboratory's own figure.
@@ -146,13 +175,10 @@ impl DnaBlock {
     /// ln[(1 − ε) BBₛ + ε ½ (BB_F + BB_M)], by log-sum-exp of the two beta-binomial terms
     /// (each computed once for both sexes).
     pub fn ln_likelihoods(&self, k: u64, n: u64) -> [f64; 2] {
-        let own = [self.ln_pmf(0, k, n), self.ln_pmf(1, k, n)];
-        let eps = self.contamination;
-        if eps == 0.0 {
-            return own;
-        }
-        let other = (0.5 * eps).ln() + ln_add_exp(own[0], own[1]);
-        own.map(|l| ln_add_exp((1.0 - eps).ln() + l, other))
+        with_contamination(
+            [self.ln_pmf(0, k, n), self.ln_pmf(1, k, n)],
+            self.contamination,
+        )
     }
 
     /// The largest likelihood ratio one sample can give either way: (2 − ε)/ε (infinite at
@@ -169,20 +195,13 @@ impl DnaBlock {
     /// separately loses every digit at 10¹⁷ reads (each term is ~10¹⁹).
     pub fn ln_pmf(&self, s: usize, k: u64, n: u64) -> f64 {
         let (a, b) = self.beta[s];
-        let (k, n) = (k as f64, n as f64);
-        ln_gamma_difference(n, 1.0, a + b)
-            + ln_gamma_difference(k, a, 1.0)
-            + ln_gamma_difference(n - k, b, 1.0)
-            - ln_beta(a, b)
+        beta_binomial_ln_pmf(a, b, k, n)
     }
 
     /// z-score of k under sex s (beta-binomial mean and SD).
     pub fn z(&self, s: usize, k: u64, n: u64) -> f64 {
         let (a, b) = self.beta[s];
-        let (k, n) = (k as f64, n as f64);
-        let m = a / (a + b);
-        let var = n * m * (1.0 - m) * (a + b + n) / (a + b + 1.0);
-        (k - n * m) / var.sqrt()
+        beta_binomial_z(a, b, k, n)
     }
 
     /// The block's evidence for one individual (used at any age).

@@ -23,6 +23,9 @@ pub enum BlockStatus {
     Atypical,
     /// The numerical routine failed for this individual (LR = 1, flagged).
     NumericalFailure,
+    /// The same reads are already weighed by another block (the X:autosome ratio beside the
+    /// Y fraction of one library; LR = 1).
+    CountedElsewhere,
 }
 
 impl BlockStatus {
@@ -35,6 +38,7 @@ impl BlockStatus {
             BlockStatus::NoUsableEquation => "no_usable_equation",
             BlockStatus::Atypical => "atypical",
             BlockStatus::NumericalFailure => "numerical_failure",
+            BlockStatus::CountedElsewhere => "counted_by_another_block",
         }
     }
 }

@@ -5,6 +5,7 @@
 //! validated once into a [`Model`]; every problem of the file is reported together.
 
 pub mod dna;
+pub mod dna_x;
 pub mod equation;
 pub mod evidence;
 pub mod include;
@@ -12,6 +13,7 @@ pub mod latent;
 pub mod spec;
 
 pub use dna::DnaBlock;
+pub use dna_x::DnaXBlock;
 pub use equation::{Equation, EquationBlock};
 pub use evidence::{BlockEvidence, BlockStatus, Context};
 pub use latent::LatentBlock;
@@ -61,8 +63,10 @@ pub enum Block {
     Latent(LatentBlock),
     /// Published logistic equations.
     Equations(EquationBlock),
-    /// DNA read counts.
+    /// DNA read counts: the Y fraction.
     Dna(DnaBlock),
+    /// DNA read counts: X against the autosomes.
+    DnaX(DnaXBlock),
 }
 
 impl Block {
@@ -72,6 +76,7 @@ impl Block {
             Block::Latent(b) => &b.id,
             Block::Equations(b) => &b.id,
             Block::Dna(b) => &b.id,
+            Block::DnaX(b) => &b.id,
         }
     }
 
@@ -81,12 +86,13 @@ impl Block {
             Block::Latent(_) => "latent",
             Block::Equations(_) => "equations",
             Block::Dna(_) => "dna",
+            Block::DnaX(_) => "dna_x",
         }
     }
 
     /// Whether the block's evidence is morphological (not used below the minimum age).
     pub fn is_morphological(&self) -> bool {
-        !matches!(self, Block::Dna(_))
+        !matches!(self, Block::Dna(_) | Block::DnaX(_))
     }
 
     /// The catalogue ids of the traits the block reads.
@@ -104,6 +110,7 @@ impl Block {
                 v
             }
             Block::Dna(b) => b.ids.to_vec(),
+            Block::DnaX(b) => b.ids.to_vec(),
         }
     }
 }
@@ -306,15 +313,26 @@ impl Model {
                 RawBlock::Equations(x) => {
                     EquationBlock::from_raw(x, &catalogue, &mut problems).map(Block::Equations)
                 }
+                RawBlock::DnaX(x) => {
+                    DnaXBlock::from_raw(x, &catalogue, &mut problems).map(Block::DnaX)
+                }
                 RawBlock::Dna(x) => {
                     DnaBlock::from_raw(x, &catalogue, &mut problems).map(Block::Dna)
                 }
             };
             blocks.extend(block);
         }
-        // Blocks are independent given sex: a trait may serve one block only.
+        // Blocks are independent given sex: a trait may serve one block only. The one
+        // exception is the X read count shared by a Y-fraction and an X:autosome block, which
+        // `settle_dna` never lets count twice unless the model says so.
         for (i, a) in blocks.iter().enumerate() {
             for b in &blocks[i + 1..] {
+                if matches!(
+                    (a, b),
+                    (Block::Dna(_), Block::DnaX(_)) | (Block::DnaX(_), Block::Dna(_))
+                ) {
+                    continue;
+                }
                 for t in a.trait_ids() {
                     if b.trait_ids().contains(&t) {
                         problems.push(ModelProblem {
@@ -416,6 +434,25 @@ impl Model {
             .collect()
     }
 
+    /// The rule between each X:autosome block and the model's Y-fraction blocks
+    /// ([`dna_x::settle_with_y`]): the two ratios of one library are not counted as
+    /// independent unless the model says so, and are flagged where they disagree.
+    fn settle_dna(&self, blocks: &mut [BlockEvidence]) {
+        for (kx, bx) in self.blocks.iter().enumerate() {
+            let Block::DnaX(x) = bx else { continue };
+            for (ky, by) in self.blocks.iter().enumerate() {
+                if !matches!(by, Block::Dna(_)) {
+                    continue;
+                }
+                let (lo, hi) = (kx.min(ky), kx.max(ky));
+                let (first, second) = blocks.split_at_mut(hi);
+                let (a, b) = (&mut first[lo], &mut second[0]);
+                let (y, xe) = if ky < kx { (a, b) } else { (b, a) };
+                dna_x::settle_with_y(y, xe, x.beside_y_ratio);
+            }
+        }
+    }
+
     /// Evaluate every block for one individual. Morphological blocks are not used below the
     /// minimum age; DNA is used at any age.
     pub fn evaluate(&self, ind: &Individual, ctx: &Context) -> IndividualEvidence {
@@ -444,6 +481,7 @@ impl Model {
                 },
                 Block::Equations(x) => x.evaluate(ind),
                 Block::Dna(x) => x.evaluate(ind),
+                Block::DnaX(x) => x.evaluate(ind),
             };
             if b.is_morphological()
                 && maturity == Maturity::Subadult
@@ -462,6 +500,7 @@ impl Model {
             }
             blocks.push(e);
         }
+        self.settle_dna(&mut blocks);
         let used = blocks.iter().filter(|b| b.status == BlockStatus::Used);
         let ln_lr = used.clone().map(|b| b.ln_lr).sum();
         let error = used.clone().map(|b| b.error).sum();

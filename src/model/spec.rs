@@ -106,8 +106,11 @@ pub enum RawBlock {
     Latent(RawLatentBlock),
     /// Published logistic equations.
     Equations(RawEquationBlock),
-    /// Ancient-DNA read counts.
+    /// Ancient-DNA read counts: the Y fraction.
     Dna(RawDnaBlock),
+    /// Ancient-DNA read counts: X against the autosomes (type `dna_x`).
+    #[serde(rename = "dna_x")]
+    DnaX(RawDnaXBlock),
 }
 
 impl RawBlock {
@@ -117,6 +120,7 @@ impl RawBlock {
             RawBlock::Latent(x) => &x.id,
             RawBlock::Equations(x) => &x.id,
             RawBlock::Dna(x) => &x.id,
+            RawBlock::DnaX(x) => &x.id,
         }
     }
 }
@@ -267,4 +271,54 @@ pub struct RawBeta {
     pub alpha: f64,
     /// β > 0.
     pub beta: f64,
+}
+
+/// Whether an X:autosome block counts beside a Y-fraction block of the same library.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Default, Deserialize, Serialize)]
+#[serde(rename_all = "kebab-case")]
+pub enum BesideYRatio {
+    /// Where the Y fraction is used, the X:autosome ratio is not counted again (the two
+    /// ratios share the X reads and the library's contamination): it is used only for
+    /// individuals without a usable Y fraction.
+    #[default]
+    NotCounted,
+    /// Both are counted, as if independent given sex: an assumption the methods text states.
+    CountedAsIndependent,
+}
+
+/// X:autosome block as written (`type: dna_x`): reads on X among reads on X and the
+/// autosomes (the Rx of Mittnik et al. 2016).
+#[derive(Debug, Clone, Deserialize, Serialize)]
+#[serde(deny_unknown_fields)]
+pub struct RawDnaXBlock {
+    /// Block id.
+    pub id: String,
+    /// Readable label.
+    #[serde(default)]
+    pub label: String,
+    /// Trait id of the X read count.
+    #[serde(default = "default_x")]
+    pub x_reads: String,
+    /// Trait id of the autosomal read count.
+    #[serde(default = "default_autosome")]
+    pub autosome_reads: String,
+    /// Expected share of X reads among X and autosomal reads for an XX individual (the X
+    /// chromosome's share of the mappable length of X and the autosomes).
+    pub x_share: f64,
+    /// Beta concentration κ of a sample's X share around its expectation (larger: less
+    /// spread between samples).
+    pub concentration: f64,
+    /// |z| beyond which the X count fits a sex badly (default 4).
+    #[serde(default)]
+    pub atypical_z: Option<f64>,
+    /// Probability that a sample's reads are not the individual's own (default 0.01).
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub contamination: Option<f64>,
+    /// Beside a Y-fraction block: `not-counted` (default) or `counted-as-independent`.
+    #[serde(default)]
+    pub beside_y_ratio: BesideYRatio,
+}
+
+fn default_autosome() -> String {
+    "dna_autosome_reads".into()
 }

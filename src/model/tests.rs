@@ -618,3 +618,146 @@ fn recorded_evidence_that_the_model_leaves_out_is_named() {
     .unwrap();
     assert!(full.unused_evidence(&a).is_empty());
 }
+
+/// The X:autosome block of models/dna-reads.yaml against scipy.stats.betabinom with the
+/// contamination mixture (tests/reference/dna_x.py): 1e-9 on libraries up to ~10⁵ reads, 1e-6
+/// at 10⁸ (where scipy's own sum of log-beta terms of size 10⁷ rounds at ~1e-8).
+#[test]
+fn the_x_autosome_block_equals_scipy_s_beta_binomial() {
+    let m = Model::from_path(std::path::Path::new(concat!(
+        env!("CARGO_MANIFEST_DIR"),
+        "/models/dna-reads.yaml"
+    )))
+    .unwrap();
+    let x = m
+        .blocks
+        .iter()
+        .find_map(|b| match b {
+            Block::DnaX(d) => Some(d.clone()),
+            _ => None,
+        })
+        .unwrap();
+    let text = include_str!("../../tests/reference/fixtures/dna_x_expected.csv");
+    let mut checked = 0;
+    for line in text.lines().skip(1) {
+        let f: Vec<&str> = line.split(',').collect();
+        let (k, a): (u64, u64) = (f[0].parse().unwrap(), f[1].parse().unwrap());
+        let expected: f64 = f[3].parse().unwrap();
+        let got = x.ln_likelihoods(k, k + a)[usize::from(f[2] == "male")];
+        let tol = if k + a > 1_000_000 { 1e-6 } else { 1e-9 };
+        assert!((got - expected).abs() < tol, "{line}: {got}");
+        checked += 1;
+    }
+    assert_eq!(checked, 10);
+    // XY has half the X dosage: p_M = p_F / (2 − p_F), and Rx is 1 and 0.5 at the two shares.
+    let p = x.x_share;
+    let male = x.beta[1].0 / (x.beta[1].0 + x.beta[1].1);
+    assert!((male - p / (2.0 - p)).abs() < 1e-15);
+    assert!((x.rx(511, 10_000 - 511) - 1.0).abs() < 1e-12);
+    let km = (10_000.0 * male).round() as u64;
+    assert!((x.rx(km, 10_000 - km) - 0.5).abs() < 0.01);
+}
+
+/// The two ratios of one library: X alone where there is no Y count; not counted again
+/// beside a Y fraction that agrees; flagged (neither used) where they disagree or where the Y
+/// fraction fits neither sex; both counted when the model says so.
+#[test]
+fn the_x_autosome_ratio_beside_the_y_fraction() {
+    let path = concat!(env!("CARGO_MANIFEST_DIR"), "/models/dna-reads.yaml");
+    let m = Model::from_path(std::path::Path::new(path)).unwrap();
+    let (kx, ky) = (block(&m, "dna_x"), block(&m, "dna"));
+    let ctx = Context::new(1);
+    let reads = |m: &Model, x: u64, y: Option<u64>, a: u64| {
+        let mut obs = vec![
+            ("dna_x_reads", Some(Observation::Count { value: x })),
+            ("dna_autosome_reads", Some(Observation::Count { value: a })),
+        ];
+        if let Some(y) = y {
+            obs.push(("dna_y_reads", Some(Observation::Count { value: y })));
+        }
+        m.evaluate(&person(m, &obs), &ctx)
+    };
+    // XY without Y counts: Rx ~0.5 is used alone.
+    let e = reads(&m, 2600, None, 99_500);
+    assert_eq!(e.blocks[kx].status, BlockStatus::Used);
+    assert!(e.ln_lr < -5.0 && e.blocks[ky].status == BlockStatus::NoEvidence);
+    // XY with a male Y fraction: the Y fraction alone counts.
+    let e = reads(&m, 2600, Some(231), 99_500);
+    assert_eq!(e.blocks[kx].status, BlockStatus::CountedElsewhere);
+    assert_eq!(e.ln_lr, e.blocks[ky].ln_lr);
+    // X0-like: no Y reads but half the X dosage: flagged, neither used.
+    let e = reads(&m, 2550, Some(3), 99_100);
+    assert_eq!(e.blocks[kx].status, BlockStatus::Atypical);
+    assert_eq!(e.blocks[ky].status, BlockStatus::Atypical);
+    assert!(!e.estimable);
+    // XXY-like: a Y fraction between the sexes and an XX-like Rx: not used alone.
+    let e = reads(&m, 5150, Some(240), 98_500);
+    assert_eq!(e.blocks[kx].status, BlockStatus::Atypical);
+    assert!(!e.estimable);
+    // Counted as independent when the model says so: the two ln LRs add.
+    let text = std::fs::read_to_string(path).unwrap().replace(
+        "beside_y_ratio: not-counted",
+        "beside_y_ratio: counted-as-independent",
+    );
+    let both = Model::from_yaml_in(
+        "both.yaml",
+        &text,
+        Some(std::path::Path::new(concat!(
+            env!("CARGO_MANIFEST_DIR"),
+            "/models"
+        ))),
+    )
+    .unwrap();
+    let e = reads(&both, 2600, Some(231), 99_500);
+    assert_eq!(e.blocks[kx].status, BlockStatus::Used);
+    assert!((e.ln_lr - e.blocks[kx].ln_lr - e.blocks[ky].ln_lr).abs() < 1e-12);
+}
+
+/// Libraries simulated from models/dna-reads.yaml (the X:autosome block and the default's
+/// Y fraction, one contamination source per library): Rx centres on 1 for XX and 0.5 for XY
+/// (Mittnik et al. 2016), the Y fraction carries the evidence, and only contaminated
+/// libraries are misread.
+#[test]
+fn simulated_libraries_give_rx_near_one_and_one_half() {
+    use crate::sim::{simulate, GroupSpec, MissingSpec};
+    let m = Model::from_path(std::path::Path::new(concat!(
+        env!("CARGO_MANIFEST_DIR"),
+        "/models/dna-reads.yaml"
+    )))
+    .unwrap();
+    let Some(Block::DnaX(x)) = m.blocks.iter().find(|b| matches!(b, Block::DnaX(_))) else {
+        panic!()
+    };
+    let sim = simulate(
+        &m,
+        &[GroupSpec::single(2000, 0.5)],
+        &MissingSpec::parse("dna=1").unwrap(),
+        3,
+    )
+    .unwrap();
+    let ctx = Context::new(1);
+    let mut rx = [Vec::new(), Vec::new()];
+    let mut wrong = 0;
+    for (ind, sex) in sim.individuals.iter().zip(&sim.true_sex) {
+        let count = |id: &str| match ind.observations[m.catalogue.position(id).unwrap()] {
+            Some(Observation::Count { value }) => value,
+            _ => panic!("{id}"),
+        };
+        let s = usize::from(*sex == crate::data::Sex::Male);
+        rx[s].push(x.rx(count("dna_x_reads"), count("dna_autosome_reads")));
+        let e = m.evaluate(ind, &ctx);
+        if e.estimable && (e.ln_lr > 0.0) != (s == 0) {
+            wrong += 1;
+        }
+    }
+    let mean = |v: &Vec<f64>| v.iter().sum::<f64>() / v.len() as f64;
+    println!(
+        "mean Rx: XX {:.4}, XY {:.4}; misread {wrong}",
+        mean(&rx[0]),
+        mean(&rx[1])
+    );
+    assert!((mean(&rx[0]) - 1.0).abs() < 0.01);
+    assert!((mean(&rx[1]) - 0.5).abs() < 0.01);
+    // ε = 0.01: about 1% of libraries are someone else's, half of them of the other sex.
+    assert!(wrong <= 25, "{wrong}");
+}

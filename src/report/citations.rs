@@ -26,6 +26,9 @@ const FULL_REFERENCES: &[(&str, &str)] = &[
     ("Zorba et al. 2011", "Zorba, E., Moraitis, K., & Manolis, S. K. (2011). Sexual dimorphism in permanent teeth of modern Greeks. Forensic Science International, 210, 74–81."),
     // From memory.
     ("Skoglund et al. 2013", "Skoglund, P., Storå, J., Götherström, A., & Jakobsson, M. (2013). Accurate sex identification of ancient human remains using DNA shotgun sequencing. Journal of Archaeological Science, 40, 4477–4482."),
+    // From memory (journal, volume and article number seen in REFERENCES.md; the authors and
+    // title recalled).
+    ("Mittnik et al. 2016", "Mittnik, A., Wang, C.-C., Svoboda, J., & Krause, J. (2016). A molecular approach to the sexing of the triple burial at the Upper Paleolithic site of Dolní Věstonice. PLoS ONE, 11, e0163019."),
     // Seen (the article's first page).
     ("Noussios et al. 2019", "Noussios, G., Theologou, K., Chouridis, P., Karavasilis, G., Alafostergios, G., & Katsourakis, A. (2019). A rare morphological study concerning the longest bone of the human anatomy in the population of the Northern Greece. Journal of Clinical Medicine Research, 11, 740–744."),
     // From memory.

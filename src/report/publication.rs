@@ -511,7 +511,7 @@ fn traits_used(model: &Model, evidence: &[IndividualEvidence]) -> (BTreeSet<Stri
             }
             match b {
                 Block::Latent(_) => used_latent = true,
-                Block::Dna(_) | Block::Equations(_) => {}
+                Block::Dna(_) | Block::DnaX(_) | Block::Equations(_) => {}
             }
         }
     }
@@ -707,6 +707,10 @@ pub fn methods_md(r: &AnalysisResult) -> String {
                 "{} (reads mapped to the X and Y chromosomes)",
                 if d.label.is_empty() { &d.id } else { &d.label }
             ),
+            Block::DnaX(d) => format!(
+                "{} (reads mapped to the X chromosome and the autosomes)",
+                if d.label.is_empty() { &d.id } else { &d.label }
+            ),
         })
         .collect();
     let has_latent = model.blocks.iter().any(|b| matches!(b, Block::Latent(_)));
@@ -750,6 +754,20 @@ pub fn methods_md(r: &AnalysisResult) -> String {
         let used = evidence
             .iter()
             .any(|e| e.blocks[k].status == BlockStatus::Used);
+        if let (Block::DnaX(d), true) = (b, used) {
+            let _ = write!(
+                s,
+                "Reads mapped to the X chromosome were compared with reads mapped to the autosomes (the X:autosome ratio Rx of Mittnik et al., 2016: about 1 for XX, 0.5 for XY), the count of X reads modelled as beta-binomial around an expected X share of {} for XX and {:.5} for XY (half the X dosage), with concentration {} and the same contamination mixture (probability {}); counts fitting neither sex were flagged and not used. {} ",
+                d.x_share,
+                d.x_share / (2.0 - d.x_share),
+                d.beta[0].0 / d.x_share,
+                d.contamination,
+                match d.beside_y_ratio {
+                    crate::model::spec::BesideYRatio::NotCounted => "Where the Y fraction of the same reads was also available, the X:autosome ratio was not counted again (the two share the X reads and any contamination), and individuals whose two ratios pointed to different sexes were flagged and neither ratio used.",
+                    crate::model::spec::BesideYRatio::CountedAsIndependent => "Where the Y fraction of the same reads was also available, both ratios were counted, as if independent given sex (an assumption: they share the X reads and any contamination); individuals whose two ratios pointed to different sexes were flagged and neither ratio used.",
+                }
+            );
+        }
         if let (Block::Dna(d), true) = (b, used) {
             let _ = write!(
                 s,

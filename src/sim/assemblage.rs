@@ -51,7 +51,21 @@ pub fn simulate(
     for b in &model.blocks {
         match b {
             Block::Latent(l) => trait_columns.extend(l.traits.iter().map(|t| t.catalogue_index)),
-            Block::Dna(d) => trait_columns.extend([d.x_index, d.y_index]),
+            // The X count serves both DNA blocks: one column.
+            Block::Dna(d) => {
+                for i in [d.x_index, d.y_index] {
+                    if !trait_columns.contains(&i) {
+                        trait_columns.push(i);
+                    }
+                }
+            }
+            Block::DnaX(d) => {
+                for i in [d.x_index, d.autosome_index] {
+                    if !trait_columns.contains(&i) {
+                        trait_columns.push(i);
+                    }
+                }
+            }
             Block::Equations(_) => {}
         }
     }

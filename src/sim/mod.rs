@@ -34,6 +34,7 @@ pub fn draw_observations(
     };
     let mut obs = vec![None; model.catalogue.len()];
     let std = Normal::standard();
+    let mut dna_source: Option<usize> = None;
     for b in &model.blocks {
         match b {
             Block::Latent(lb) => {
@@ -56,22 +57,64 @@ pub fn draw_observations(
             }
             Block::Dna(db) => {
                 // With probability ε the reads are someone else's, of either sex (the
-                // model's contamination component).
-                let source = if rng.random::<f64>() < db.contamination {
-                    usize::from(rng.random::<f64>() < 0.5)
-                } else {
-                    s
-                };
+                // model's contamination component); one library, one source for every DNA
+                // block.
+                let source = *dna_source.get_or_insert_with(|| {
+                    if rng.random::<f64>() < db.contamination {
+                        usize::from(rng.random::<f64>() < 0.5)
+                    } else {
+                        s
+                    }
+                });
                 let (a, bb) = db.beta[source];
                 let (Ok(beta), n) = (Beta::new(a, bb), reads) else {
                     continue;
                 };
                 let frac: f64 = beta.sample(rng);
+                if let Some(Observation::Count { value: x }) = obs[db.x_index] {
+                    // X reads drawn already (by an X:autosome block): the Y reads that go
+                    // with them at this sample's Y fraction.
+                    let y = (x as f64 * frac / (1.0 - frac)).round() as u64;
+                    obs[db.y_index] = Some(Observation::Count { value: y });
+                    continue;
+                }
                 let k = Binomial::new(frac, n)
                     .map(|d| Distribution::<u64>::sample(&d, rng))
                     .unwrap_or(0);
                 obs[db.x_index] = Some(Observation::Count { value: n - k });
                 obs[db.y_index] = Some(Observation::Count { value: k });
+            }
+            Block::DnaX(db) => {
+                let source = *dna_source.get_or_insert_with(|| {
+                    if rng.random::<f64>() < db.contamination {
+                        usize::from(rng.random::<f64>() < 0.5)
+                    } else {
+                        s
+                    }
+                });
+                let (a, bb) = db.beta[source];
+                let Ok(beta) = Beta::new(a, bb) else {
+                    continue;
+                };
+                let share: f64 = beta.sample(rng);
+                match obs[db.x_index] {
+                    // X reads drawn already (by a Y-fraction block): the autosomal reads that
+                    // go with them at this sample's X share.
+                    Some(Observation::Count { value: x }) => {
+                        let m = (x as f64 * (1.0 - share) / share).round() as u64;
+                        obs[db.autosome_index] = Some(Observation::Count { value: m });
+                    }
+                    _ => {
+                        // About `reads` reads on X, as for the Y fraction.
+                        let n = (reads as f64 / db.beta[s].0 * (db.beta[s].0 + db.beta[s].1))
+                            .round() as u64;
+                        let k = Binomial::new(share, n)
+                            .map(|d| Distribution::<u64>::sample(&d, rng))
+                            .unwrap_or(0);
+                        obs[db.x_index] = Some(Observation::Count { value: k });
+                        obs[db.autosome_index] = Some(Observation::Count { value: n - k });
+                    }
+                }
             }
             Block::Equations(_) => {}
         }

@@ -115,6 +115,24 @@ fn dna_reads_come_in_pairs_and_rows_without_evidence_warn() {
 }
 
 #[test]
+fn an_x_count_may_pair_with_the_autosomes_instead_of_y() {
+    // X with the autosomes only (a laboratory reporting Rx): accepted.
+    let a = read("id,dna_x_reads,dna_y_reads,dna_autosome_reads\nA,100,,2000\nB,100,3,\n").unwrap();
+    assert_eq!(a.individuals.len(), 2);
+    // The autosomes (or Y) without X: refused, naming the missing X column, every row.
+    let e = read("id,dna_x_reads,dna_y_reads,dna_autosome_reads\nA,,,2000\nB,,4,\nC,100,,\n")
+        .unwrap_err();
+    let columns: Vec<_> = e
+        .problems
+        .iter()
+        .map(|p| p.column.clone().unwrap())
+        .collect();
+    assert_eq!(columns, ["dna_x_reads", "dna_x_reads", "dna_y_reads"]);
+    assert!(e.problems[0].expected.contains("dna_autosome_reads"));
+    assert!(e.problems[2].expected.contains("autosomal"));
+}
+
+#[test]
 fn missing_words_and_decimal_commas() {
     let s = ReadSettings {
         missing_words: vec!["nr".into()],
