@@ -2,7 +2,7 @@
 that the story needs. Everything here is invented (see examples/README.md).
 
 Run from the repository root after `cargo build --release`:
-    python3 examples/make_examples.py [mirefold|stature|brackenmere|saltmarsh|infants ...]
+    python3 examples/make_examples.py [mirefold|stature|brackenmere|saltmarsh|infants|infants_rx ...]
 """
 import csv
 import random
@@ -12,8 +12,9 @@ BIN = "target/release/tessera"
 MISSING = "cranium=0.35,pelvis=0.45,postcranial=0.3,dental=0.4,trait=0.15,range=0.06,subadult=0.07,dna=0.12"
 
 
-def simulate(out, groups, seed, missing=MISSING):
-    subprocess.run([BIN, "simulate", "--groups", groups, "--missing", missing, "--seed", str(seed), "--out", out], check=True)
+def simulate(out, groups, seed, missing=MISSING, model=None):
+    extra = ["--model", model] if model else []
+    subprocess.run([BIN, "simulate", "--groups", groups, "--missing", missing, "--seed", str(seed), "--out", out] + extra, check=True)
     with open(out, newline="") as f:
         return list(csv.DictReader(f))
 
@@ -145,11 +146,52 @@ def infants():
             w.writerow(r)
 
 
+def infants_rx():
+    """Perinates under the floor of an invented bakehouse at Mirefold Hollow, sampled by a
+    laboratory that reports reads on X, on the autosomes and (for most libraries) on Y, drawn
+    from models/dna-reads.yaml. Eight libraries come from a capture without Y probes (no Y
+    count: the X:autosome ratio alone speaks); two carry a story: MX-07 has no Y reads but half
+    the X dosage (an X0-like library) and MX-15 a Y fraction between the sexes with an XX-like
+    X dosage (an XXY-like library). tessera flags both and forces neither to a sex."""
+    rows = simulate("/tmp/infants-rx-sim.csv", "bakehouse:24:0.5", 77,
+                    missing="cranium=1,pelvis=1,postcranial=1,dental=1,subadult=1,dna=1",
+                    model="models/dna-reads.yaml")
+    rnd = random.Random(11)
+    fields = ["id", "deposit", "age", "dna_x_reads", "dna_y_reads", "dna_autosome_reads", "true_sex", "note"]
+    with open("examples/mirefold-infants-rx.csv", "w", newline="") as f:
+        w = csv.DictWriter(f, fieldnames=fields, lineterminator="\n", extrasaction="ignore")
+        w.writeheader()
+        for k, r in enumerate(rows, start=1):
+            r = dict(r)
+            r["id"] = f"MX-{k:02d}"
+            r["deposit"] = r["group"]
+            r["age"] = rnd.choice(["0-0.5", "0-1", "0-0.25"])
+            r["note"] = ""
+            x, a = int(r["dna_x_reads"]), int(r["dna_autosome_reads"])
+            if k == 7:
+                # X0-like: one X, no Y.
+                r["dna_x_reads"] = str(round(x / 2)) if r["true_sex"] == "F" else str(x)
+                r["dna_y_reads"] = "1"
+                r["true_sex"] = "F"
+                r["note"] = "invented X0-like library"
+            elif k == 15:
+                # XXY-like: two X and a Y.
+                xx = x * 2 if r["true_sex"] == "M" else x
+                r["dna_x_reads"] = str(xx)
+                r["dna_y_reads"] = str(round(xx * 0.045))
+                r["true_sex"] = "M"
+                r["note"] = "invented XXY-like library"
+            elif k % 3 == 0:
+                r["dna_y_reads"] = ""
+                r["note"] = "capture without Y probes"
+            w.writerow(r)
+
+
 if __name__ == "__main__":
     # `python3 examples/make_examples.py infants` rebuilds one file. The Mirefold, Brackenmere
     # and Saltmarsh tables were drawn by an earlier `tessera simulate`; today's draws differ, so
     # rebuilding them changes the demo (and every example in README built on it).
     import sys
-    chosen = sys.argv[1:] or ["mirefold", "stature", "brackenmere", "saltmarsh", "infants"]
+    chosen = sys.argv[1:] or ["mirefold", "stature", "brackenmere", "saltmarsh", "infants", "infants_rx"]
     for name in chosen:
-        {"mirefold": mirefold, "stature": stature, "brackenmere": brackenmere, "saltmarsh": saltmarsh, "infants": infants}[name]()
+        {"mirefold": mirefold, "stature": stature, "brackenmere": brackenmere, "saltmarsh": saltmarsh, "infants": infants, "infants_rx": infants_rx}[name]()

@@ -529,3 +529,48 @@ fn the_correlation_check_moves_nothing_at_the_model_s_own_value() {
     let columns = std::fs::read_to_string(out.join("columns.md")).unwrap();
     assert!(columns.contains("correlation_check.csv"));
 }
+
+/// The bakehouse infants with reads on X, Y and the autosomes (models/dna-reads.yaml): the
+/// libraries without Y counts are sexed by the X:autosome ratio, the others by the Y fraction
+/// alone, and the invented X0-like and XXY-like libraries are flagged, not forced to a sex.
+#[test]
+fn the_bakehouse_infants_use_the_x_ratio_where_there_is_no_y_count() {
+    let dir = tempfile::tempdir().unwrap();
+    let out = dir.path().join("bakehouse");
+    let root = Path::new(env!("CARGO_MANIFEST_DIR"));
+    let o = tessera(&[
+        "analyse",
+        root.join("examples/mirefold-infants-rx.csv")
+            .to_str()
+            .unwrap(),
+        "--model",
+        root.join("models/dna-reads.yaml").to_str().unwrap(),
+        "--out",
+        out.to_str().unwrap(),
+    ]);
+    assert!(o.status.success(), "{}", stderr(&o));
+    let mut r = csv::Reader::from_path(out.join("individuals.csv")).unwrap();
+    let h = r.headers().unwrap().clone();
+    let col = |name: &str| h.iter().position(|c| c == name).unwrap();
+    let (by_x, by_y) = (col("log10_lr_dna_x"), col("log10_lr_dna"));
+    for row in r.records() {
+        let row = row.unwrap();
+        let note = &row[col("note")];
+        match &row[0] {
+            "MX-07" | "MX-15" => {
+                assert_eq!(&row[col("status")], "not_estimable");
+                assert!(row[col("flags")].contains("dna_atypical"));
+            }
+            _ if note.contains("without Y") => {
+                assert!(!row[by_x].is_empty() && row[by_y].is_empty(), "{row:?}");
+                // Sexed right by the X dosage alone.
+                let female = row[col("p_female")].parse::<f64>().unwrap() > 0.5;
+                assert_eq!(female, &row[col("true_sex")] == "F", "{row:?}");
+            }
+            _ => assert!(row[by_x].is_empty() && !row[by_y].is_empty(), "{row:?}"),
+        }
+    }
+    let methods = std::fs::read_to_string(out.join("methods.md")).unwrap();
+    assert!(methods.contains("X:autosome ratio Rx of Mittnik et al., 2016"));
+    assert!(methods.contains("Mittnik, A."));
+}

@@ -47,7 +47,8 @@ pub enum Command {
     Plan(plan::Args),
     /// How well two observers' scorings of the same individuals agree.
     Agreement(agreement::Args),
-    /// Fit a model to a documented reference collection (individuals of known sex).
+    /// Fit a model to a documented reference collection (individuals of known sex), or build
+    /// one from the summary statistics a paper publishes (--from-summary).
     Fit(fit::Args),
     /// Error rates of a model on a documented reference collection, by cross-validation.
     Validate(validate::Args),

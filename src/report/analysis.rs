@@ -2,7 +2,7 @@
 //!
 //! `individuals.csv`: `id, group, status, n_traits, log10_lr, lr_support, p_female, p_male,
 //! category, p_female_min, p_female_max, prior_sensitive, p_female_equal_prior,
-//! category_equal_prior, category_note, age, flags, dna_reads, y_fraction`, then `log10_lr_<block>` for every
+//! category_equal_prior, category_note, age, flags, dna_reads, y_fraction`, `rx` where the model has an X:autosome block, then `log10_lr_<block>` for every
 //! block of the model (empty where the block was not used), then every input column the model
 //! did not use, unchanged. Individuals without usable evidence have `status = not_estimable`,
 //! `category = not_estimable` and empty numbers.
@@ -174,6 +174,14 @@ fn individuals_csv(r: &AnalysisResult) -> Result<Vec<u8>, RenderError> {
         "dna_reads",
         "y_fraction",
     ]);
+    // The X:autosome ratio, where the model has such a block.
+    let x_block = model.blocks.iter().find_map(|b| match b {
+        crate::model::Block::DnaX(d) => Some(d),
+        _ => None,
+    });
+    if x_block.is_some() {
+        head.push("rx".into());
+    }
     head.extend(model.blocks.iter().map(|b| format!("log10_lr_{}", b.id())));
     head.extend(a.carried_columns.iter().cloned());
     // Rows whose sides disagree, found once (not once per individual).
@@ -249,6 +257,20 @@ fn individuals_csv(r: &AnalysisResult) -> Result<Vec<u8>, RenderError> {
                 .map(|(n, y)| format!("{:.4}", y as f64 / n as f64))
                 .unwrap_or_default(),
         );
+        if let Some(d) = x_block {
+            use crate::data::Observation::Count;
+            r.push(
+                match (
+                    ind.observations[d.x_index],
+                    ind.observations[d.autosome_index],
+                ) {
+                    (Some(Count { value: x }), Some(Count { value: a })) if a > 0 => {
+                        format!("{:.4}", d.rx(x, a))
+                    }
+                    _ => String::new(),
+                },
+            );
+        }
         for b in &ev.blocks {
             r.push(if b.status == BlockStatus::Used {
                 f4(b.ln_lr / LN_10)

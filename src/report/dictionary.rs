@@ -45,6 +45,7 @@ pub const COLUMNS: &[Entry] = &[
     ("individuals.csv", "flags", "what a person should look at, separated by `;`: dna_atypical, numerical_failure, integration_error, sides_disagree, below_minimum_age, prior_sensitive", "", "text"),
     ("individuals.csv", "dna_reads", "reads mapped to the X and Y chromosomes (where the model has a DNA block and both counts are recorded)", "reads", COUNT),
     ("individuals.csv", "y_fraction", "share of those reads mapped to Y", "share", SHARE),
+    ("individuals.csv", "rx", "X:autosome ratio Rx: X reads per autosomal read over the model's expectation for XX (about 1 for XX, 0.5 for XY; Mittnik et al. 2016); where the model has a dna_x block", "", "0 or more"),
     ("individuals.csv", "log10_lr_*", "log10 likelihood ratio female:male of this block (body region) alone; empty where the block was not used", "log10", ANY),
     // assemblage.csv
     ("assemblage.csv", "prior", "the prior on the proportion female (the chosen prior first, then the sensitivity set)", "", "a prior's name"),
