@@ -73,6 +73,8 @@ pub struct BySex {
     pub numeric: Vec<crate::summary::NumericBySex>,
     /// Age interval of each individual.
     pub ages: Vec<Option<(f64, f64)>>,
+    /// The age classes of the tables of age by sex and of categories by age.
+    pub age_classes: crate::summary::AgeClasses,
     /// Who the tables by sex leave out (counted beside them, never sexed in them).
     pub left_out: LeftOut,
     /// Sentences on the chains of the prevalences (convergence), empty when all is well.

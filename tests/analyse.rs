@@ -574,3 +574,74 @@ fn the_bakehouse_infants_use_the_x_ratio_where_there_is_no_y_count() {
     assert!(methods.contains("X:autosome ratio Rx of Mittnik et al., 2016"));
     assert!(methods.contains("Mittnik, A."));
 }
+
+/// A laboratory's own age words (`--age-map`) and age classes (`--age-classes`): the words
+/// are read as the ages they stand for, an adult of unknown age is a row of its own, and a
+/// bad class list or an unknown word is refused, naming what would do.
+#[test]
+fn a_laboratory_s_age_words_and_classes() {
+    let dir = tempfile::tempdir().unwrap();
+    let table = dir.path().join("ages.csv");
+    std::fs::write(
+        &table,
+        "id,age,glabella,mastoid\nA1,adultus,2,2\nA2,Maturus,4,5\nA3,senilis,3,4\nA4,juvenis,1,2\nA5,40±5,5,4\nA6,old adult,2,1\nA7,\"adult, age unknown\",3,3\n",
+    )
+    .unwrap();
+    let map = Path::new(env!("CARGO_MANIFEST_DIR")).join("examples/age-map-classes.yaml");
+    let out = dir.path().join("results");
+    let run = |classes: &str| {
+        tessera(&[
+            "analyse",
+            table.to_str().unwrap(),
+            "--age-map",
+            map.to_str().unwrap(),
+            "--age-classes",
+            classes,
+            "--out",
+            out.to_str().unwrap(),
+        ])
+    };
+    let bad = run("18-40,40+");
+    assert_eq!(bad.status.code(), Some(4), "{}", stderr(&bad));
+    assert!(stderr(&bad).contains("age-classes") && stderr(&bad).contains("starts above 0"));
+    let o = run("0-20,20-40,40-60,60+");
+    assert!(o.status.success(), "{}", stderr(&o));
+    let text = std::fs::read_to_string(out.join("category_by_age.csv")).unwrap();
+    let labels: Vec<&str> = text
+        .lines()
+        .skip(1)
+        .map(|l| l.rsplitn(7, ',').last().unwrap())
+        .collect();
+    assert_eq!(
+        labels,
+        [
+            "under 20",
+            "20-40",
+            "40-60",
+            "60+",
+            "adult of unknown age",
+            "unknown"
+        ]
+    );
+    let mut r = csv::Reader::from_path(out.join("individuals.csv")).unwrap();
+    let h = r.headers().unwrap().clone();
+    let age = h.iter().position(|c| c == "age").unwrap();
+    let ages: Vec<String> = r.records().map(|x| x.unwrap()[age].to_string()).collect();
+    assert_eq!(
+        ages,
+        ["20-40", "40-60", "60+", "14-20", "35-45", "50+", "adult"]
+    );
+    std::fs::write(&table, "id,age,glabella\nA1,elderly,2\n").unwrap();
+    let o = tessera(&[
+        "check",
+        table.to_str().unwrap(),
+        "--age-map",
+        map.to_str().unwrap(),
+    ]);
+    assert_eq!(o.status.code(), Some(3));
+    assert!(
+        stderr(&o).contains("a word of the age map (adult?, adultus"),
+        "{}",
+        stderr(&o)
+    );
+}

@@ -42,7 +42,9 @@ fn age_by_sex_agrees_with_numpy() {
         .map(|d| d.iter().skip(1).map(|s| s == "F").collect())
         .collect();
     let expected = expected("by_sex_expected.csv");
-    let a = age_by_sex(&ages, &draws, 1);
+    let classes =
+        tessera::summary::AgeClasses::parse(tessera::summary::DEFAULT_AGE_CLASSES).unwrap();
+    let a = age_by_sex(&ages, &draws, &classes, 1);
     let got = [
         ("mean_age_female", a.mean_female.0),
         ("mean_age_female_lo", a.mean_female.1),

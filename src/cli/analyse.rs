@@ -56,6 +56,11 @@ pub struct Args {
     /// starting where the one before ends, the last one open.
     #[arg(long, value_name = "CLASSES", default_value = crate::summary::DEFAULT_LIFE_TABLE_CLASSES)]
     pub life_table_classes: String,
+    /// Age classes of the tables of age at death by sex and of categories by age
+    /// (by_sex_age.csv, category_by_age.csv): from-to in years, the first from 0, each
+    /// starting where the one before ends, the last one open.
+    #[arg(long, value_name = "CLASSES", default_value = crate::summary::DEFAULT_AGE_CLASSES)]
+    pub age_classes: String,
     /// The sex ratio, in males per 100 females, that the population's (and each group's) is
     /// compared with (sex_ratio.csv); 105 is the usual ratio at birth.
     #[arg(long, value_name = "MALES_PER_100_FEMALES", default_value_t = crate::summary::DEFAULT_REFERENCE_RATIO)]
@@ -99,6 +104,7 @@ impl Args {
             iterations: self.iterations,
             minimum_age: self.minimum_age,
             life_table_classes: self.life_table_classes.clone(),
+            age_classes: self.age_classes.clone(),
             reference_ratio: self.reference_ratio,
             hazard_ages: self.hazard_ages.clone(),
             correlation_check: self.correlation_check.clone().unwrap_or_default(),

@@ -36,6 +36,10 @@ pub struct InputArgs {
     /// YAML file mapping scores recorded on another scale onto the model's grades.
     #[arg(long, value_name = "FILE")]
     pub scale_map: Option<PathBuf>,
+    /// YAML file of the laboratory's own age words and the ages they stand for
+    /// (`adultus: 20-40`, `senilis: 60+`).
+    #[arg(long, value_name = "FILE")]
+    pub age_map: Option<PathBuf>,
     /// Worksheet to read from a workbook (default: the first).
     #[arg(long, value_name = "NAME")]
     pub sheet: Option<String>,
@@ -61,6 +65,7 @@ impl InputArgs {
         self.scale_map
             .iter()
             .chain(self.columns.iter())
+            .chain(self.age_map.iter())
             .map(PathBuf::as_path)
             .collect()
     }
@@ -80,6 +85,7 @@ impl InputArgs {
             sheet: self.sheet.clone(),
             group_by: groups.group_by.clone(),
             columns: self.columns.clone(),
+            age_map: self.age_map.clone(),
             ..ReadOptions::default()
         }
     }

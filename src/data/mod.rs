@@ -16,7 +16,7 @@ pub mod reader;
 pub mod settings;
 pub mod source;
 
-pub use age::{AgeAtDeath, Maturity, Sex, ADULT_AGE_YEARS};
+pub use age::{parse_age_map, AgeAtDeath, Maturity, Sex, ADULT_AGE_YEARS};
 pub use cell::Observation;
 pub use completeness::Completeness;
 pub use problem::{Problem, ProblemKind, Warning, WarningKind};

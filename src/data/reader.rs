@@ -548,10 +548,29 @@ impl RowReader<'_> {
                     }
                 }
                 ColumnRole::Group if !missing => f.group = Some(cell.trim().to_string()),
-                ColumnRole::Age if !missing => match parse_age(cell, self.decimal_comma) {
-                    Ok(a) => f.age = Some(a),
-                    Err(e) => push(ProblemKind::BadAge, e),
-                },
+                ColumnRole::Age if !missing => {
+                    let own = self.settings.age_map.get(&cell.trim().to_lowercase());
+                    match own
+                        .map(|a| Ok(*a))
+                        .unwrap_or_else(|| parse_age(cell, self.decimal_comma))
+                    {
+                        Ok(a) => f.age = Some(a),
+                        Err(e) if self.settings.age_map.is_empty() => push(ProblemKind::BadAge, e),
+                        Err(e) => push(
+                            ProblemKind::BadAge,
+                            format!(
+                                "{e}, or a word of the age map ({})",
+                                self.settings
+                                    .age_map
+                                    .keys()
+                                    .take(12)
+                                    .cloned()
+                                    .collect::<Vec<_>>()
+                                    .join(", ")
+                            ),
+                        ),
+                    }
+                }
                 ColumnRole::KnownSex if !missing => match parse_known_sex(cell) {
                     Some(s) => f.known_sex = Some(s),
                     None => push(

@@ -88,6 +88,9 @@ pub struct ReadSettings {
     /// name → tessera's name.
     #[serde(default)]
     pub renames: Vec<(String, String)>,
+    /// A laboratory's own age words and the ages they stand for (lower-case keys).
+    #[serde(default)]
+    pub age_map: BTreeMap<String, super::AgeAtDeath>,
 }
 
 impl ReadSettings {

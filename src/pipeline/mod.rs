@@ -299,10 +299,16 @@ impl ValidatedOptions {
                     .filter_map(crate::summary::NumericBySex::convergence_note),
             )
             .collect();
-        let table_ages: Vec<Option<(f64, f64)>> = ages
+        // Open classes stay open here: the tables by sex impute them from the known older ages
+        // of the same sex (summary::by_sex::draw_ages).
+        let table_ages: Vec<Option<(f64, f64)>> = a
+            .individuals
             .iter()
             .zip(&in_tables)
-            .map(|(g, &t)| if t { *g } else { None })
+            .map(|(i, &t)| {
+                t.then(|| crate::summary::by_sex::open_interval(i.age, model.minimum_age))
+                    .flatten()
+            })
             .collect();
         let with_ages = table_ages.iter().any(Option::is_some);
         let groups: Vec<Option<&str>> = a.individuals.iter().map(|i| i.group.as_deref()).collect();
@@ -315,7 +321,7 @@ impl ValidatedOptions {
             self.options.reference_ratio,
         );
         BySex {
-            age: with_ages.then(|| age_by_sex(&table_ages, &draws.female, seed)),
+            age: with_ages.then(|| age_by_sex(&table_ages, &draws.female, &self.age_classes, seed)),
             hazards: with_ages.then(|| {
                 let recorded: Vec<Option<crate::summary::hazard::RecordedAge>> = a
                     .individuals
@@ -347,6 +353,7 @@ impl ValidatedOptions {
             prevalence,
             numeric,
             ages,
+            age_classes: self.age_classes.clone(),
             left_out,
             notes,
         }

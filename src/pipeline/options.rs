@@ -43,6 +43,8 @@ pub struct ReadOptions {
     /// A scale map given as text (the page: a file the user chose), with its file name for
     /// messages; used instead of `scale_map`.
     pub scale_map_text: Option<(String, String)>,
+    /// YAML file of the laboratory's own age words and the ages they stand for.
+    pub age_map: Option<PathBuf>,
 }
 
 impl Default for ReadOptions {
@@ -59,6 +61,7 @@ impl Default for ReadOptions {
             renames: Default::default(),
             not_recorded: Vec::new(),
             scale_map_text: None,
+            age_map: None,
         }
     }
 }
@@ -143,7 +146,18 @@ impl ReadOptions {
             Some((file, text)) => parse_scale_maps(&text, catalogue)
                 .map_err(|message| Error::Settings { file, message })?,
         };
+        let age_map = match &self.age_map {
+            None => Default::default(),
+            Some(p) => {
+                let text = crate::limits::read_settings_text(p).map_err(|e| e.into_error(p))?;
+                crate::data::parse_age_map(&text).map_err(|message| Error::Settings {
+                    file: p.display().to_string(),
+                    message,
+                })?
+            }
+        };
         Ok(ReadSettings {
+            age_map,
             missing_words: missing,
             side_policy: self.sides,
             side_tolerance: SideTolerance {
@@ -240,6 +254,9 @@ pub struct AnalysisOptions {
     pub minimum_age: Option<f64>,
     /// Age classes of the life tables by sex (`18-25,25-35,35-50,50+`).
     pub life_table_classes: String,
+    /// Age classes of the tables of age by sex and of categories by age
+    /// (`0-18,18-25,25-35,35-50,50+`).
+    pub age_classes: String,
     /// The sex ratio (males per 100 females) the population's is compared with.
     pub reference_ratio: f64,
     /// The age range (`18-35`) over which the mortality of the sexes is compared.
@@ -267,6 +284,7 @@ impl Default for AnalysisOptions {
             iterations: 2000,
             minimum_age: None,
             life_table_classes: crate::summary::DEFAULT_LIFE_TABLE_CLASSES.into(),
+            age_classes: crate::summary::DEFAULT_AGE_CLASSES.into(),
             reference_ratio: crate::summary::DEFAULT_REFERENCE_RATIO,
             hazard_ages: crate::summary::hazard::DEFAULT_HAZARD_AGES.into(),
             correlation_check: String::new(),
@@ -301,6 +319,8 @@ pub struct ValidatedOptions {
     pub recalibration: Option<RecalibrationSettings>,
     /// Age classes of the life tables.
     pub life_table_classes: crate::summary::AgeClasses,
+    /// Age classes of the tables of age by sex and of categories by age.
+    pub age_classes: crate::summary::AgeClasses,
     /// The age range of the comparison of mortality.
     pub hazard_ages: (f64, f64),
     /// The within-sex correlations to try (empty: no correlation check).
@@ -384,6 +404,18 @@ impl AnalysisOptions {
                 problems.push(OptionProblem::new("life-table-classes", message));
                 crate::summary::AgeClasses::default()
             });
+        let age_classes = crate::summary::AgeClasses::parse(&self.age_classes)
+            .and_then(|c| match c.0.first() {
+                Some(first) if first.from > 0.0 => Err(format!(
+                    "the first class `{}` starts above 0: these tables count every individual, subadults too, so the first class starts at 0 (0-18)",
+                    first.label
+                )),
+                _ => Ok(c),
+            })
+            .unwrap_or_else(|message| {
+                problems.push(OptionProblem::new("age-classes", message));
+                crate::summary::AgeClasses::default()
+            });
         let hazard_ages = crate::summary::hazard::parse_age_range(&self.hazard_ages)
             .unwrap_or_else(|message| {
                 problems.push(OptionProblem::new("hazard-ages", message));
@@ -442,6 +474,7 @@ impl AnalysisOptions {
                 read,
                 recalibration,
                 life_table_classes,
+                age_classes,
                 hazard_ages,
                 correlation_check,
                 options: self.clone(),

@@ -62,6 +62,8 @@ const FULL_REFERENCES: &[(&str, &str)] = &[
     ("Chiang 1984", "Chiang, C. L. (1984). The life table and its applications. Malabar, FL: Krieger."),
     ("Acsádi & Nemeskéri 1970", "Acsádi, G., & Nemeskéri, J. (1970). History of human life span and mortality. Budapest: Akadémiai Kiadó."),
     ("Rubin 1981", "Rubin, D. B. (1981). The Bayesian bootstrap. The Annals of Statistics, 9, 130–134."),
+    // From memory.
+    ("Andridge & Little 2010", "Andridge, R. R., & Little, R. J. A. (2010). A review of hot deck imputation for survey non-response. International Statistical Review, 78, 40–64."),
     ("Wood et al. 1992", "Wood, J. W., Milner, G. R., Harpending, H. C., & Weiss, K. M. (1992). The osteological paradox: Problems of inferring prehistoric health from skeletal samples. Current Anthropology, 33, 343–370."),
     // From memory.
     ("Gelman et al. 2013", "Gelman, A., Carlin, J. B., Stern, H. S., Dunson, D. B., Vehtari, A., & Rubin, D. B. (2013). Bayesian data analysis (3rd ed.). Boca Raton, FL: CRC Press."),

@@ -162,7 +162,7 @@ pub const COLUMNS: &[Entry] = &[
     ("by_sex_prevalence.csv", "odds_ratio_hi", "97.5% quantile of it", "ratio", "above 0"),
     ("by_sex_prevalence.csv", "rhat", "largest split-R̂ of the chains (converged at ≤ 1.01)", "", "about 1"),
     ("by_sex_prevalence.csv", "effective_draws", "smallest effective sample size of the chains (enough at ≥ 400)", "draws", COUNT),
-    ("category_by_age.csv", "age_class", "age class at death", "years", "text"),
+    ("category_by_age.csv", "age_class", "age class at death (`--age-classes`), by the midpoint of the recorded interval; `adult of unknown age` for adults recorded without an age; `unknown` without any age", "years", "text"),
     ("category_by_age.csv", "female", "individuals of the class in this category (under the chosen prior)", "individuals", COUNT),
     ("category_by_age.csv", "probable_female", "as female, for this category", "individuals", COUNT),
     ("category_by_age.csv", "indeterminate", "as female, for this category", "individuals", COUNT),

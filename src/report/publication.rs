@@ -318,7 +318,18 @@ pub fn by_sex_tables(r: &AnalysisResult) -> Result<OutputSet, RenderError> {
     let mut rows = vec![std::iter::once("age_class".to_string())
         .chain(Category::ALL.iter().map(|c| c.as_str().to_string()))
         .collect::<Vec<_>>()];
-    for (label, counts) in category_by_age(&by_sex.ages, &analysis.main.categories) {
+    let adult_unknown: Vec<bool> = r
+        .assemblage
+        .individuals
+        .iter()
+        .map(|i| i.age == Some(crate::data::AgeAtDeath::Adult))
+        .collect();
+    for (label, counts) in category_by_age(
+        &by_sex.ages,
+        &analysis.main.categories,
+        &by_sex.age_classes,
+        &adult_unknown,
+    ) {
         rows.push(
             std::iter::once(label)
                 .chain(counts.iter().map(|c| c.to_string()))
@@ -629,6 +640,9 @@ pub fn references_used(
             refs.push(citations::work(key));
         }
     }
+    if by_sex.age.is_some() {
+        refs.push(citations::work("Andridge & Little 2010"));
+    }
     if by_sex.age.is_some() && by_sex.life_tables.is_some() {
         for key in [
             "Chiang 1984",
@@ -824,7 +838,7 @@ pub fn methods_md(r: &AnalysisResult) -> String {
         let _ = write!(
             s,
             "Analyses by sex left out individuals without evidence of sex and subadults (counted beside each table){}{}. ",
-            if by_sex.age.is_some() { format!("; age at death by sex was computed over {} joint posterior draws of every individual's sex, so that uncertainty in sex is carried into it{}", draws.mu.len(), match &by_sex.life_tables {
+            if by_sex.age.is_some() { format!("; age at death by sex was computed over {} joint posterior draws of every individual's sex, so that uncertainty in sex is carried into it, ages recorded as intervals drawn uniformly within them and open classes (50+, adult of unknown age) from the known older ages of the same sex in each draw (hot-deck imputation; Andridge & Little, 2010){}", draws.mu.len(), match &by_sex.life_tables {
                 Some(lt) => format!(", and so were abridged life tables by sex (classes {}; deaths evenly spread within classes, the open last class closed at {} years; Chiang, 1984; Acsádi & Nemeskéri, 1970), with intervals for the population's table from a Bayesian bootstrap of the dead (Rubin, 1981), which assumes them a fair sample of the deaths of a stationary population (Wood et al., 1992)", lt.classes.0.iter().map(|c| c.label.as_str()).collect::<Vec<_>>().join(", "), crate::report::number::short(lt.open_end, 1)),
                 None => String::new(),
             }) } else { String::new() },
@@ -1350,7 +1364,7 @@ fn groups_section(r: &AnalysisResult, m: &mut String, t: &mut String) {
 fn age_section(r: &AnalysisResult, m: &mut String, t: &mut String) {
     let by_sex = &r.by_sex;
     if let Some(age) = &by_sex.age {
-        let _ = writeln!(m, "## Age at death by sex\n\nOver the joint draws ({} individuals with evidence of sex and a recorded age; interval ages imputed uniformly within their interval, open classes closed at {} years){}:\n", age.n_with_age, crate::summary::OPEN_CLASS_END, left_out_clause(by_sex));
+        let _ = writeln!(m, "## Age at death by sex\n\nOver the joint draws ({} individuals with evidence of sex and a recorded age; interval ages imputed uniformly within their interval; an open class such as 50+ or an adult of unknown age takes, in each draw, the age of a random individual of the same sex whose known age is at or above the class's start, and is closed at {} years only where there is none){}:\n", age.n_with_age, crate::summary::OPEN_CLASS_END, left_out_clause(by_sex));
         let _ = writeln!(m, "| | mean | 95% interval |\n|---|---|---|");
         for (q, v) in [
             ("females", age.mean_female),

@@ -314,6 +314,8 @@ pub struct PageOptions {
     pub by_sex: Vec<String>,
     /// Age classes of the life tables.
     pub life_table_classes: String,
+    /// Age classes of the tables of age by sex and of categories by age.
+    pub age_classes: String,
     /// The reference sex ratio, males per 100 females.
     pub reference_ratio: f64,
     /// The age range of the comparison of mortality.
@@ -351,6 +353,7 @@ impl Default for PageOptions {
             sides: "left-first".into(),
             by_sex: Vec::new(),
             life_table_classes: d.life_table_classes,
+            age_classes: d.age_classes,
             reference_ratio: d.reference_ratio,
             hazard_ages: d.hazard_ages,
             correlation_check: d.correlation_check,
@@ -385,6 +388,7 @@ impl PageOptions {
             draws: self.draws,
             by_sex: self.by_sex.clone(),
             life_table_classes: self.life_table_classes.clone(),
+            age_classes: self.age_classes.clone(),
             reference_ratio: self.reference_ratio,
             hazard_ages: self.hazard_ages.clone(),
             correlation_check: self.correlation_check.clone(),
@@ -450,6 +454,9 @@ fn command_of(table: &str, o: &AnalysisOptions) -> Vec<String> {
     }
     if o.life_table_classes != d.life_table_classes {
         opt("--life-table-classes", o.life_table_classes.clone());
+    }
+    if o.age_classes != d.age_classes {
+        opt("--age-classes", o.age_classes.clone());
     }
     if o.reference_ratio != d.reference_ratio {
         opt("--reference-ratio", o.reference_ratio.to_string());

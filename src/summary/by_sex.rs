@@ -11,14 +11,38 @@ use serde::Serialize;
 /// assumption, since an open class has no recorded upper bound.
 pub const OPEN_CLASS_END: f64 = 80.0;
 
-/// Age classes of the tables: (label, from, to) in years, `to` exclusive.
-pub const AGE_CLASSES: [(&str, f64, f64); 5] = [
-    ("under 18", 0.0, 18.0),
-    ("18-25", 18.0, 25.0),
-    ("25-35", 25.0, 35.0),
-    ("35-50", 35.0, 50.0),
-    ("50+", 50.0, f64::INFINITY),
-];
+/// The age classes of `by_sex_age.csv` and `category_by_age.csv` unless the user sets them
+/// (`--age-classes`): under 18, then the adult classes of the life tables (after the
+/// categories of Buikstra & Ubelaker 1994, young adult split at 25).
+pub const DEFAULT_AGE_CLASSES: &str = "0-18,18-25,25-35,35-50,50+";
+
+/// The classes as (label, from, to) in years, `to` exclusive (infinite for the open class).
+/// A first class from 0 reads "under N".
+pub fn class_bounds(classes: &super::AgeClasses) -> Vec<(String, f64, f64)> {
+    classes
+        .0
+        .iter()
+        .map(|c| {
+            let label = match c.to {
+                Some(to) if c.from == 0.0 => format!("under {}", super::life_table::fmt_age(to)),
+                _ => c.label.clone(),
+            };
+            (label, c.from, c.to.unwrap_or(f64::INFINITY))
+        })
+        .collect()
+}
+
+/// The index of the class holding `age` (the first class below its start, the last above).
+fn class_index(bounds: &[(String, f64, f64)], age: f64) -> usize {
+    bounds
+        .iter()
+        .position(|(_, from, to)| age >= *from && age < *to)
+        .unwrap_or(if bounds.first().is_some_and(|b| age < b.1) {
+            0
+        } else {
+            bounds.len().saturating_sub(1)
+        })
+}
 
 /// The recorded age as years from `low` to `high`, `high` = `None` for an open class (`50+`,
 /// `adult`), `low == high` for a point (`None` when not recorded).
@@ -34,6 +58,70 @@ pub fn recorded_age(age: Option<AgeAtDeath>, adult_from: f64) -> Option<(f64, Op
 /// its start, if later) (`None` when not recorded).
 pub fn age_interval(age: Option<AgeAtDeath>, adult_from: f64) -> Option<(f64, f64)> {
     recorded_age(age, adult_from).map(|(low, high)| (low, high.unwrap_or(OPEN_CLASS_END.max(low))))
+}
+
+/// The recorded age as an interval of years with an open class left open (`to` infinite, as
+/// `50+` and `adult`): what the tables by sex impute from ([`draw_ages`]).
+pub fn open_interval(age: Option<AgeAtDeath>, adult_from: f64) -> Option<(f64, f64)> {
+    recorded_age(age, adult_from).map(|(low, high)| (low, high.unwrap_or(f64::INFINITY)))
+}
+
+/// One joint draw's ages at death, each with a value `extra` draws right after it (the life
+/// tables' bootstrap weight; the random stream is then the same as drawing both in turn).
+///
+/// A closed interval gives a uniform age within it (multiple imputation of interval ages;
+/// points stay points). An open one (`50+`, `adult` of unknown age), having no upper bound, is
+/// not closed at an invented age: it takes the age of an individual of the same sex in this
+/// draw whose own closed interval gave an age at or above the open class's start, chosen at
+/// random (hot-deck imputation, the distribution of the known ages above that start within
+/// the draw's sex; Andridge & Little 2010, from memory). Only where no such individual exists
+/// is the class closed at [`OPEN_CLASS_END`] (uniform from its start), as before.
+pub fn draw_ages<R: rand::Rng>(
+    ages: &[Option<(f64, f64)>],
+    female: &[bool],
+    rng: &mut R,
+    mut extra: impl FnMut(&mut R) -> f64,
+) -> Vec<Option<(f64, f64)>> {
+    let mut out: Vec<Option<(f64, f64)>> = vec![None; ages.len()];
+    let mut open: Vec<(usize, f64, f64)> = Vec::new();
+    for (i, a) in ages.iter().enumerate() {
+        let Some((lo, hi)) = *a else { continue };
+        let end = if hi.is_infinite() {
+            OPEN_CLASS_END.max(lo)
+        } else {
+            hi
+        };
+        let u = if end > lo { rng.random::<f64>() } else { 0.0 };
+        let x = extra(rng);
+        if hi.is_infinite() && end > lo {
+            open.push((i, lo, u));
+            out[i] = Some((f64::NAN, x));
+        } else {
+            out[i] = Some((lo + u * (end - lo), x));
+        }
+    }
+    let closed: Vec<(usize, f64)> = ages
+        .iter()
+        .enumerate()
+        .filter(|(_, a)| a.is_some_and(|(_, hi)| hi.is_finite()))
+        .filter_map(|(i, _)| out[i].map(|(age, _)| (i, age)))
+        .collect();
+    for (i, lo, u) in open {
+        let donors: Vec<f64> = closed
+            .iter()
+            .filter(|(j, age)| female[*j] == female[i] && *age >= lo)
+            .map(|(_, age)| *age)
+            .collect();
+        let age = if donors.is_empty() {
+            lo + u * (OPEN_CLASS_END.max(lo) - lo)
+        } else {
+            donors[((u * donors.len() as f64) as usize).min(donors.len() - 1)]
+        };
+        if let Some(slot) = out[i].as_mut() {
+            slot.0 = age;
+        }
+    }
+    out
 }
 
 /// Mean, 2.5% and 97.5% quantiles of a sample (its finite values).
@@ -75,33 +163,30 @@ pub struct AgeClassRow {
     pub male: (f64, f64, f64),
 }
 
-/// Age at death by sex. In each draw every individual's age is drawn uniformly within its
-/// recorded interval (multiple imputation of interval-recorded ages; points stay points), and
+/// Age at death by sex. In each draw every individual's age is drawn by [`draw_ages`] (uniform
+/// within a closed recorded interval; an open one from the same sex's known older ages), and
 /// the sexes come from the joint draw. `female[d][i]` is individual i's sex in draw d.
-pub fn age_by_sex(ages: &[Option<(f64, f64)>], female: &[Vec<bool>], seed: u64) -> AgeBySex {
+pub fn age_by_sex(
+    ages: &[Option<(f64, f64)>],
+    female: &[Vec<bool>],
+    classes: &super::AgeClasses,
+    seed: u64,
+) -> AgeBySex {
+    let bounds = class_bounds(classes);
     let mut rng = ChaCha8Rng::seed_from_u64(seed ^ 0x5eed_a9e5);
     let (mut mf, mut mm, mut diff) = (Vec::new(), Vec::new(), Vec::new());
     let mut younger = 0usize;
     let mut counted = 0usize;
-    let mut class_counts: Vec<(Vec<f64>, Vec<f64>)> = AGE_CLASSES
-        .iter()
-        .map(|_| (Vec::new(), Vec::new()))
-        .collect();
+    let mut class_counts: Vec<(Vec<f64>, Vec<f64>)> =
+        bounds.iter().map(|_| (Vec::new(), Vec::new())).collect();
     for sexes in female {
         let (mut sf, mut nf, mut sm, mut nm) = (0.0, 0usize, 0.0, 0usize);
-        let mut cf = vec![0.0; AGE_CLASSES.len()];
-        let mut cm = vec![0.0; AGE_CLASSES.len()];
-        for (a, &f) in ages.iter().zip(sexes) {
-            let Some((lo, hi)) = *a else { continue };
-            let age = if hi > lo {
-                lo + rng.random::<f64>() * (hi - lo)
-            } else {
-                lo
-            };
-            let k = AGE_CLASSES
-                .iter()
-                .position(|(_, from, to)| age >= *from && age < *to)
-                .unwrap_or(AGE_CLASSES.len() - 1);
+        let mut cf = vec![0.0; bounds.len()];
+        let mut cm = vec![0.0; bounds.len()];
+        let drawn = draw_ages(ages, sexes, &mut rng, |_| 0.0);
+        for (a, &f) in drawn.iter().zip(sexes) {
+            let Some((age, _)) = *a else { continue };
+            let k = class_index(&bounds, age);
             if f {
                 sf += age;
                 nf += 1;
@@ -135,7 +220,7 @@ pub fn age_by_sex(ages: &[Option<(f64, f64)>], female: &[Vec<bool>], seed: u64) 
         } else {
             f64::NAN
         },
-        classes: AGE_CLASSES
+        classes: bounds
             .iter()
             .zip(&class_counts)
             .map(|((label, _, _), (a, b))| AgeClassRow {
@@ -252,28 +337,34 @@ fn read_cells<T>(
 }
 
 /// Counts of each category by age class (by the recorded interval's midpoint; `unknown` when
-/// no age is recorded). Rows in [`AGE_CLASSES`] order then `unknown`; columns in
-/// [`Category::ALL`] order.
+/// no age is recorded). Rows in the classes' order, then `adult of unknown age` (only when some
+/// individual is recorded as an adult of unknown age: a state of its own, not a class), then
+/// `unknown`; columns in [`Category::ALL`] order.
 pub fn category_by_age(
     ages: &[Option<(f64, f64)>],
     categories: &[Category],
+    classes: &super::AgeClasses,
+    adult_unknown: &[bool],
 ) -> Vec<(String, [usize; 6])> {
-    let mut rows: Vec<(String, [usize; 6])> = AGE_CLASSES
+    let bounds = class_bounds(classes);
+    let mut rows: Vec<(String, [usize; 6])> = bounds
         .iter()
         .map(|(l, _, _)| (l.to_string(), [0; 6]))
         .collect();
+    let adults = adult_unknown.iter().any(|a| *a);
+    if adults {
+        rows.push(("adult of unknown age".into(), [0; 6]));
+    }
     rows.push(("unknown".into(), [0; 6]));
-    for (a, c) in ages.iter().zip(categories) {
+    for (i, (a, c)) in ages.iter().zip(categories).enumerate() {
         let k = Category::ALL.iter().position(|x| x == c).unwrap_or(5);
+        if adult_unknown.get(i).copied().unwrap_or(false) {
+            rows[bounds.len()].1[k] += 1;
+            continue;
+        }
         let r = match a {
-            Some((lo, hi)) => {
-                let mid = (lo + hi) / 2.0;
-                AGE_CLASSES
-                    .iter()
-                    .position(|(_, from, to)| mid >= *from && mid < *to)
-                    .unwrap_or(AGE_CLASSES.len() - 1)
-            }
-            None => AGE_CLASSES.len(),
+            Some((lo, hi)) => class_index(&bounds, (lo + hi) / 2.0),
+            None => bounds.len() + usize::from(adults),
         };
         rows[r].1[k] += 1;
     }

@@ -168,7 +168,7 @@ impl AgeClasses {
     }
 }
 
-fn fmt_age(x: f64) -> String {
+pub(crate) fn fmt_age(x: f64) -> String {
     crate::report::number::short(x, 1)
 }
 
@@ -304,6 +304,7 @@ pub fn life_tables(
         .iter()
         .flatten()
         .map(|&(_, hi)| hi)
+        .filter(|hi| hi.is_finite())
         .fold(OPEN_CLASS_END, f64::max);
     // Per sex (female, male, all): the tables of these dead and of the population.
     let mut own: [Vec<Vec<LifeTableRow>>; 3] = [Vec::new(), Vec::new(), Vec::new()];
@@ -312,15 +313,12 @@ pub fn life_tables(
     for sexes in female {
         let mut deaths = [vec![0.0; k], vec![0.0; k], vec![0.0; k]];
         let mut weighted = [vec![0.0; k], vec![0.0; k], vec![0.0; k]];
-        for (a, &f) in ages.iter().zip(sexes) {
-            let Some((lo, hi)) = *a else { continue };
-            let age = if hi > lo {
-                lo + rng.random::<f64>() * (hi - lo)
-            } else {
-                lo
-            };
-            // Exp(1) by inversion: the Bayesian bootstrap's weight of this individual.
-            let w = -(1.0 - rng.random::<f64>()).ln();
+        // Exp(1) by inversion: the Bayesian bootstrap's weight of each individual, drawn
+        // right after its age.
+        let drawn =
+            super::by_sex::draw_ages(ages, sexes, &mut rng, |r| -(1.0 - r.random::<f64>()).ln());
+        for (a, &f) in drawn.iter().zip(sexes) {
+            let Some((age, w)) = *a else { continue };
             match classes.class_of(age) {
                 Some(c) => {
                     for s in [usize::from(!f), 2] {

@@ -15,7 +15,7 @@ pub mod sex_ratio;
 
 pub use by_sex::{
     age_by_sex, category_by_age, outcome_column, AgeBySex, AgeClassRow, OutcomeColumn,
-    OutcomeValues, AGE_CLASSES, OPEN_CLASS_END,
+    OutcomeValues, DEFAULT_AGE_CLASSES, OPEN_CLASS_END,
 };
 pub use hazard::{hazards_by_sex, HazardsBySex, DEFAULT_HAZARD_AGES};
 pub use life_table::{life_tables, AgeClasses, LifeTables, DEFAULT_LIFE_TABLE_CLASSES};

@@ -40,3 +40,41 @@ fn known_sex_words() {
     assert_eq!(parse_known_sex("m"), Some(Sex::Male));
     assert_eq!(parse_known_sex("PF"), None);
 }
+
+#[test]
+fn the_trade_s_ways_of_writing_an_age() {
+    assert_eq!(parse_age("40±5", false), Ok(years(35.0, Some(45.0))));
+    assert_eq!(parse_age("40 +/- 5", false), Ok(years(35.0, Some(45.0))));
+    assert_eq!(parse_age("3±5", false), Ok(years(0.0, Some(8.0))));
+    assert_eq!(parse_age("17,5±2,5", true), Ok(years(15.0, Some(20.0))));
+    // Buikstra & Ubelaker (1994): young adult 20–35, middle 35–50, old 50+ (open).
+    assert_eq!(parse_age("Young adult", false), Ok(years(20.0, Some(35.0))));
+    assert_eq!(
+        parse_age("middle  adult", false),
+        Ok(years(35.0, Some(50.0)))
+    );
+    assert_eq!(parse_age("old adult", false), Ok(years(50.0, None)));
+    assert_eq!(
+        parse_age("adult, age unknown", false),
+        Ok(AgeAtDeath::Adult)
+    );
+    assert_eq!(
+        parse_age("Adult (age unknown)", false),
+        Ok(AgeAtDeath::Adult)
+    );
+    assert!(parse_age("40±x", false).is_err());
+    assert!(parse_age("elderly", false)
+        .unwrap_err()
+        .contains("young / middle / old adult"));
+}
+
+#[test]
+fn a_laboratory_s_own_age_words() {
+    let map =
+        parse_age_map("Adultus: 20-40\nmaturus: 40-60\nsenilis: 60+\n\"adult?\": adult\n").unwrap();
+    assert_eq!(map["adultus"], years(20.0, Some(40.0)));
+    assert_eq!(map["senilis"], years(60.0, None));
+    assert_eq!(map["adult?"], AgeAtDeath::Adult);
+    let e = parse_age_map("adultus: 40-20\ninfans: [0, 6]\n").unwrap_err();
+    assert!(e.contains("`adultus`") && e.contains("`infans`"), "{e}");
+}

@@ -237,6 +237,7 @@ async function run(event) {
     sides: $("sides").value,
     by_sex: Array.from(document.querySelectorAll("#by-sex input:checked")).map((b) => b.value),
     life_table_classes: $("life-table-classes").value,
+    age_classes: $("age-classes").value,
     hazard_ages: $("hazard-ages").value,
     correlation_check: $("correlation-check").value,
     reference_ratio: Number($("reference-ratio").value || 105),

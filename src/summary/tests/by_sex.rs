@@ -14,7 +14,8 @@ fn certain_sexes_give_plain_counts() {
         Some((60.0, 60.0)),
         None,
     ];
-    let a = age_by_sex(&ages, &draws, 1);
+    let classes = crate::summary::AgeClasses::parse(DEFAULT_AGE_CLASSES).unwrap();
+    let a = age_by_sex(&ages, &draws, &classes, 1);
     assert_eq!(a.mean_female.0, 35.0);
     assert_eq!(a.mean_male.0, 40.0);
     assert_eq!(a.p_females_die_younger, 1.0);
@@ -23,11 +24,68 @@ fn certain_sexes_give_plain_counts() {
 
 #[test]
 fn categories_by_age_class() {
+    let classes = crate::summary::AgeClasses::parse(DEFAULT_AGE_CLASSES).unwrap();
     let rows = category_by_age(
         &[Some((20.0, 30.0)), None, Some((50.0, 80.0))],
         &[Category::Female, Category::Male, Category::NotEstimable],
+        &classes,
+        &[false; 3],
     );
+    assert_eq!(rows[0].0, "under 18");
     assert_eq!(rows[2].1[0], 1);
     assert_eq!(rows[5].1[4], 1);
     assert_eq!(rows[4].1[5], 1);
+    // A laboratory's own classes: the trade's young, middle and old adult (Buikstra &
+    // Ubelaker 1994), under 20 first.
+    let own = crate::summary::AgeClasses::parse("0-20,20-35,35-50,50+").unwrap();
+    let rows = category_by_age(
+        &[Some((20.0, 30.0)), Some((10.0, 12.0)), Some((50.0, 80.0))],
+        &[Category::Female, Category::Male, Category::NotEstimable],
+        &own,
+        &[false; 3],
+    );
+    let labels: Vec<&str> = rows.iter().map(|r| r.0.as_str()).collect();
+    assert_eq!(labels, ["under 20", "20-35", "35-50", "50+", "unknown"]);
+    assert_eq!(rows[0].1[4], 1);
+    assert_eq!(rows[1].1[0], 1);
+    assert_eq!(rows[3].1[5], 1);
+    // An adult of unknown age is a state of its own, not spread over the classes.
+    let rows = category_by_age(
+        &[Some((18.0, 80.0)), None],
+        &[Category::Female, Category::Male],
+        &own,
+        &[true, false],
+    );
+    assert_eq!(rows[4].0, "adult of unknown age");
+    assert_eq!(rows[4].1[0], 1);
+    assert_eq!(rows[5].1[4], 1);
+}
+
+/// Open classes are not closed at an invented age where the draw has older known ages of the
+/// same sex: they take one of those (hot-deck); without any, the old closure at 80 stays.
+#[test]
+fn open_classes_take_known_older_ages_of_the_same_sex() {
+    let ages = [
+        Some((60.0, 60.0)),          // female, known
+        Some((70.0, 70.0)),          // female, known
+        Some((30.0, 30.0)),          // female, known, younger than 50
+        Some((50.0, f64::INFINITY)), // female, 50+
+        Some((18.0, f64::INFINITY)), // female, adult of unknown age
+        Some((50.0, f64::INFINITY)), // male, 50+: no male donor
+    ];
+    let female = [true, true, true, true, true, false];
+    let mut rng = ChaCha8Rng::seed_from_u64(9);
+    let mut from_donors = [0usize; 2];
+    for _ in 0..400 {
+        let d = draw_ages(&ages, &female, &mut rng, |_| 0.0);
+        let a = |i: usize| d[i].unwrap().0;
+        assert!(a(3) == 60.0 || a(3) == 70.0, "{}", a(3));
+        assert!([60.0, 70.0, 30.0].contains(&a(4)), "{}", a(4));
+        assert!((50.0..=80.0).contains(&a(5)));
+        from_donors[0] += usize::from(a(4) == 30.0);
+        from_donors[1] += usize::from(a(5) != 60.0 && a(5) != 70.0);
+    }
+    // Each donor equally likely: the 30-year-old about a third of the time.
+    assert!((100..170).contains(&from_donors[0]), "{from_donors:?}");
+    assert_eq!(from_donors[1], 400);
 }
