@@ -326,11 +326,11 @@ pub fn case_report(
 /// every other trait removed, evaluated by the same model (so the same integration and seed).
 fn alone(model: &Model, ind: &Individual, b: usize, k: usize, ctx: &Context) -> Option<f64> {
     let mut one = ind.clone();
-    for (j, o) in one.observations.iter_mut().enumerate() {
-        if j != k {
-            *o = None;
-        }
+    let mut only = vec![None; ind.observations.len()];
+    if let Some(slot) = only.get_mut(k) {
+        *slot = ind.observations[k];
     }
+    one.observations = only.into();
     let e = model.evaluate(&one, ctx);
     (e.blocks[b].status == BlockStatus::Used).then(|| e.blocks[b].ln_lr / LN_10)
 }

@@ -10,6 +10,7 @@ pub mod age;
 pub mod cell;
 pub mod columns;
 pub mod completeness;
+pub mod observations;
 pub mod problem;
 pub mod profile;
 pub mod reader;
@@ -19,6 +20,7 @@ pub mod source;
 pub use age::{parse_age_map, AgeAtDeath, Maturity, Sex, ADULT_AGE_YEARS};
 pub use cell::Observation;
 pub use completeness::Completeness;
+pub use observations::Observations;
 pub use problem::{Problem, ProblemKind, Warning, WarningKind};
 pub use profile::ColumnProfile;
 pub use reader::{

@@ -45,7 +45,7 @@ pub struct Individual {
     /// Documented sex of a reference individual.
     pub known_sex: Option<Sex>,
     /// One entry per catalogue trait, in catalogue order; `None` where not observed.
-    pub observations: Vec<Option<Observation>>,
+    pub observations: super::Observations,
     /// The side each observation came from, aligned with `observations`.
     pub sides: Vec<Option<SideUsed>>,
     /// The cells of the carried columns, unchanged, aligned with
@@ -56,7 +56,7 @@ pub struct Individual {
 impl Individual {
     /// Number of traits observed.
     pub fn n_observed(&self) -> usize {
-        self.observations.iter().filter(|o| o.is_some()).count()
+        self.observations.n_recorded()
     }
 }
 
@@ -497,7 +497,7 @@ impl RowReader<'_> {
             group: fields.group,
             age: fields.age,
             known_sex: fields.known_sex,
-            observations,
+            observations: observations.into(),
             sides,
             carried: self
                 .carried

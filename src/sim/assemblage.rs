@@ -96,7 +96,7 @@ pub fn simulate(
                 group: named_groups.then(|| g.name.clone()),
                 age: Some(age),
                 known_sex: None,
-                observations: obs,
+                observations: obs.into(),
                 sides: vec![None; n],
                 carried: Vec::new(),
             });

@@ -132,7 +132,7 @@ pub fn individual(id: String, observations: Vec<Option<Observation>>) -> Individ
         group: None,
         age: None,
         known_sex: None,
-        observations,
+        observations: observations.into(),
         sides: vec![None; n],
         carried: Vec::new(),
     }

@@ -119,7 +119,9 @@ fn masked(
 ) -> Individual {
     let mut rng = ChaCha8Rng::seed_from_u64(seed ^ 0x6d61_736b_u64.wrapping_mul(i as u64 + 1));
     let mut copy = ind.clone();
-    crate::sim::preserve(catalogue, missing, &mut copy.observations, &mut rng);
+    let mut dense = copy.observations.to_dense();
+    crate::sim::preserve(catalogue, missing, &mut dense, &mut rng);
+    copy.observations = dense.into();
     for (o, side) in copy.observations.iter().zip(copy.sides.iter_mut()) {
         if o.is_none() {
             *side = None;
