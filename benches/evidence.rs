@@ -35,8 +35,9 @@ fn bench(c: &mut Criterion) {
         .iter()
         .map(|ind| {
             let mut ind = ind.clone();
+            let mut dense = ind.observations.to_dense();
             let mut k = 0;
-            for o in ind.observations.iter_mut() {
+            for o in dense.iter_mut() {
                 if o.is_some() {
                     if k % 2 == 1 {
                         *o = None::<Observation>;
@@ -44,6 +45,7 @@ fn bench(c: &mut Criterion) {
                     k += 1;
                 }
             }
+            ind.observations = dense.into();
             ind
         })
         .collect();
