@@ -200,6 +200,7 @@ pub fn observer_error(pairs: &[(i32, i32)], lowest: i32, highest: i32) -> Option
                 sex: 0,
                 first: Value::Grade(gx, gx),
                 second: Value::Grade(gy, gy),
+                shift: [0.0; 2],
             }
         })
         .collect();

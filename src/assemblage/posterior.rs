@@ -10,6 +10,7 @@
 //! rule stays accurate. A coarse pass over t ∈ (0, 1) finds where the posterior lives, and a
 //! fine pass covers that region (every cell within e⁻⁶⁰ of the maximum).
 
+use crate::numeric::quadrature::GL8;
 use crate::prior::{Prior, PriorShape};
 use serde::Serialize;
 use statrs::function::beta::ln_beta;
@@ -47,15 +48,6 @@ const NARROW: f64 = 0.25;
 const EDGE: f64 = 0.05;
 /// Panels of the composite Gauss–Legendre rule used for individuals' P(female).
 const PANELS: usize = 16;
-/// Nodes and weights of the 8-point Gauss–Legendre rule on [−1, 1] (Abramowitz & Stegun
-/// 1964, Table 25.4; from memory, checked in the tests against exact integrals of polynomials
-/// up to degree 15).
-const GL8: [(f64, f64); 4] = [
-    (0.183_434_642_495_649_8, 0.362_683_783_378_362),
-    (0.525_532_409_916_329, 0.313_706_645_877_887_3),
-    (0.796_666_477_413_626_7, 0.222_381_034_453_374_5),
-    (0.960_289_856_497_536_3, 0.101_228_536_290_376_3),
-];
 
 /// Nodes and weights of the composite rule (`PANELS` panels of 8 points) on [lo, hi].
 pub fn composite_gauss_legendre(lo: f64, hi: f64) -> Vec<(f64, f64)> {

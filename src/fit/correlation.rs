@@ -47,6 +47,9 @@ pub struct PairCase {
     pub first: Value,
     /// Value of the second trait.
     pub second: Value,
+    /// How far this individual's mean of each trait lies from its sex's mean in the margin
+    /// (the age effect, β (age − centre); 0 without one), in the trait's own scale.
+    pub shift: [f64; 2],
 }
 
 /// An estimated correlation.
@@ -86,8 +89,8 @@ pub fn estimate(first: &Margin, second: &Margin, cases: &[PairCase]) -> Correlat
             let (mut sxy, mut sxx, mut syy) = (0.0, 0.0, 0.0);
             for c in cases {
                 if let (Value::Measure(x), Value::Measure(y)) = (c.first, c.second) {
-                    let zx = (x - m1[c.sex]) / s1[c.sex];
-                    let zy = (y - m2[c.sex]) / s2[c.sex];
+                    let zx = (x - m1[c.sex] - c.shift[0]) / s1[c.sex];
+                    let zy = (y - m2[c.sex] - c.shift[1]) / s2[c.sex];
                     sxy += zx * zy;
                     sxx += zx * zx;
                     syy += zy * zy;
@@ -143,8 +146,8 @@ pub fn pair_log_likelihood(first: &Margin, second: &Margin, cases: &[PairCase], 
                 Value::Grade(l1, h1),
                 Value::Grade(l2, h2),
             ) => {
-                let (a1, b1) = latent_bounds(t1, l1, h1, m1[c.sex]);
-                let (a2, b2) = latent_bounds(t2, l2, h2, m2[c.sex]);
+                let (a1, b1) = latent_bounds(t1, l1, h1, m1[c.sex] + c.shift[0]);
+                let (a2, b2) = latent_bounds(t2, l2, h2, m2[c.sex] + c.shift[1]);
                 bvn_rectangle([a1, a2], [b1, b2], rho).max(1e-300).ln()
             }
             (
@@ -152,22 +155,31 @@ pub fn pair_log_likelihood(first: &Margin, second: &Margin, cases: &[PairCase], 
                 Margin::Metric { mean: mm, sd },
                 Value::Grade(l, h),
                 Value::Measure(x),
-            )
-            | (
+            ) => {
+                let z = (x - mm[c.sex] - c.shift[1]) / sd[c.sex];
+                let (a, b) = latent_bounds(thresholds, l, h, mean[c.sex] + c.shift[0]);
+                polyserial_term(a, b, z, rho)
+            }
+            (
                 Margin::Metric { mean: mm, sd },
                 Margin::Ordinal { thresholds, mean },
                 Value::Measure(x),
                 Value::Grade(l, h),
             ) => {
-                let z = (x - mm[c.sex]) / sd[c.sex];
-                let (a, b) = latent_bounds(thresholds, l, h, mean[c.sex]);
-                let s = (1.0 - rho * rho).sqrt();
-                ln_interval((a - rho * z) / s, (b - rho * z) / s).max(-700.0)
+                let z = (x - mm[c.sex] - c.shift[0]) / sd[c.sex];
+                let (a, b) = latent_bounds(thresholds, l, h, mean[c.sex] + c.shift[1]);
+                polyserial_term(a, b, z, rho)
             }
             _ => 0.0,
         };
     }
     total
+}
+
+/// ln P(a < x ≤ b | z) for a latent x correlated ρ with a standardised measurement z.
+fn polyserial_term(a: f64, b: f64, z: f64, rho: f64) -> f64 {
+    let s = (1.0 - rho * rho).sqrt();
+    ln_interval((a - rho * z) / s, (b - rho * z) / s).max(-700.0)
 }
 
 /// Maximise a function of ρ on (−0.999, 0.999) by golden-section search on z = atanh ρ.

@@ -27,11 +27,13 @@ pub mod summary;
 pub use spec::{BlockSpec, CorrelationSharing, Dispersion, FitSpec};
 
 use crate::catalogue::{Catalogue, TraitKind};
-use crate::data::{Individual, Maturity, Observation, Sex};
-use crate::model::spec::{PerSex, RawBlock, RawLatentBlock, RawLatentTrait, RawModel};
+use crate::data::{AgeAtDeath, Individual, Maturity, Observation, Sex};
+use crate::model::spec::{
+    PerSex, RawAgeEffect, RawBlock, RawLatentBlock, RawLatentTrait, RawModel,
+};
 use correlation::{Margin, PairCase, Value};
 use nalgebra::DMatrix;
-use ordinal::{fit_cumulative_probit, OrdinalScore};
+use ordinal::{fit_cumulative_probit, fit_probit_regression, OrdinalScore, ProbitCase};
 use serde::Serialize;
 
 /// Default minimum age of the individuals used (years), as for the shipped models.
@@ -43,6 +45,11 @@ pub const MIN_PAIRS: usize = 5;
 /// Fewer pairs than this and a correlation is kept with a warning that it is imprecise (a
 /// choice of ours: the SE of a correlation near 0 is then above about 0.18).
 pub const FEW_PAIRS: usize = 30;
+
+/// Widest recorded age interval (years) whose midpoint a block with an age slope takes as
+/// the individual's age; wider intervals, open classes and unknown ages leave the individual
+/// out of that block (a choice of ours: a 10-year class puts the midpoint within 5 years).
+pub const WIDEST_AGE_INTERVAL: f64 = 10.0;
 
 /// One problem that stops a fit.
 #[derive(Debug, Clone, PartialEq, Serialize)]
@@ -179,6 +186,19 @@ pub fn check_spec(spec: &FitSpec, catalogue: &Catalogue) -> Result<(), Vec<Strin
         if b.traits.is_empty() {
             problems.push(format!("block `{}`: list at least one trait", b.id));
         }
+        match (b.age_slope, b.age_centre) {
+            (false, Some(_)) => problems.push(format!(
+                "block `{}`: `age_centre` goes with `age_slope: true`",
+                b.id
+            )),
+            (true, Some(c)) if !(c.is_finite() && (0.0..=100.0).contains(&c)) => {
+                problems.push(format!(
+                    "block `{}`: `age_centre`: years from 0 to 100, found {c}",
+                    b.id
+                ))
+            }
+            _ => {}
+        }
         for t in &b.traits {
             match catalogue.get(t) {
                 None => problems.push(format!(
@@ -278,13 +298,14 @@ pub fn fit(
          measurements, then polychoric (Olsson 1979), polyserial (Olsson, Drasgow & Dorans \
          1982) or Pearson correlations given the margins, repaired to positive definite by \
          eigenvalue clipping where needed. Standard errors are in the table of estimates \
-         written beside this file.{}{}\n",
+         written beside this file.{}{}{}\n",
         env!("CARGO_PKG_VERSION"),
         info.file,
         info.sha256,
         n_female,
         n_male,
         info.command,
+        age_sentence(spec),
         if include.is_empty() {
             String::new()
         } else {
@@ -331,6 +352,121 @@ pub fn fit(
     })
 }
 
+/// The sentence of the provenance on the blocks fitted with age slopes (empty if none).
+fn age_sentence(spec: &FitSpec) -> String {
+    let aged: Vec<&str> = spec
+        .blocks
+        .iter()
+        .filter(|b| b.age_slope)
+        .map(|b| b.id.as_str())
+        .collect();
+    if aged.is_empty() {
+        return String::new();
+    }
+    format!(
+        "\nAge: in {} {} each mean changes with age at death, a slope per sex (the \
+         cumulative probit with covariates male, female × (age − centre) and male × (age − \
+         centre); least squares per sex for measurements), from the individuals whose age is \
+         recorded to within {WIDEST_AGE_INTERVAL} years (the interval's midpoint); the \
+         correlations are estimated with each individual's means at its age.",
+        if aged.len() == 1 { "block" } else { "blocks" },
+        aged.join(", ")
+    )
+}
+
+/// The ages of the individuals of a block fitted with age slopes.
+#[derive(Debug, Clone)]
+struct AgeFrame {
+    /// Years at which the written means hold.
+    centre: f64,
+    /// Youngest age used.
+    lowest: f64,
+    /// Oldest age used.
+    highest: f64,
+    /// Each individual's age, aligned with the block's individuals.
+    ages: Vec<f64>,
+}
+
+impl AgeFrame {
+    /// age − centre of individual `i`.
+    fn offset(&self, i: usize) -> f64 {
+        self.ages[i] - self.centre
+    }
+}
+
+/// The age a fit with age slopes takes: a point, or the midpoint of a closed interval no
+/// wider than [`WIDEST_AGE_INTERVAL`].
+fn age_point(age: Option<&AgeAtDeath>) -> Option<f64> {
+    match age? {
+        AgeAtDeath::Years {
+            low,
+            high: Some(high),
+        } if high - low <= WIDEST_AGE_INTERVAL => Some(0.5 * (low + high)),
+        _ => None,
+    }
+}
+
+/// The individuals of an age-sloped block (those with an age) and their ages; `None` with a
+/// problem logged when too few remain or their ages do not vary.
+fn age_frame<'a>(
+    b: &BlockSpec,
+    used: &[(&'a Individual, Sex)],
+    log: &mut FitLog,
+) -> Option<(Vec<(&'a Individual, Sex)>, AgeFrame)> {
+    let mut kept = Vec::new();
+    let mut ages = Vec::new();
+    for &(ind, sex) in used {
+        if let Some(a) = age_point(ind.age.as_ref()) {
+            kept.push((ind, sex));
+            ages.push(a);
+        }
+    }
+    if kept.len() < used.len() {
+        log.warnings.push(format!(
+            "block `{}`: {} individuals without an age at death recorded to within \
+             {WIDEST_AGE_INTERVAL} years were left out of this block (its age slopes need each \
+             one's age)",
+            b.id,
+            used.len() - kept.len()
+        ));
+    }
+    let lowest = ages.iter().copied().fold(f64::INFINITY, f64::min);
+    let highest = ages.iter().copied().fold(f64::NEG_INFINITY, f64::max);
+    if ages.is_empty() || !(highest - lowest >= 1.0) {
+        log.problems.push(FitProblem {
+            place: format!("block `{}`", b.id),
+            message: format!(
+                "an age slope needs ages at death spanning at least a year; {} individuals have \
+                 an age recorded to within {WIDEST_AGE_INTERVAL} years",
+                ages.len()
+            ),
+        });
+        return None;
+    }
+    let centre = b
+        .age_centre
+        .unwrap_or_else(|| (ages.iter().sum::<f64>() / ages.len() as f64).round());
+    if !(lowest..=highest).contains(&centre) {
+        log.problems.push(FitProblem {
+            place: format!("block `{}`", b.id),
+            message: format!(
+                "`age_centre` {centre} lies outside the ages of the individuals used \
+                 ({lowest} to {highest})"
+            ),
+        });
+        return None;
+    }
+    Some((
+        kept,
+        AgeFrame {
+            centre,
+            lowest,
+            highest,
+            ages,
+        },
+    ))
+}
+
 /// One trait's values among the individuals used (index into `used`, sex index, value).
 type TraitValues = Vec<(usize, usize, Value)>;
 
@@ -352,11 +488,19 @@ fn fit_block(
     log: &mut FitLog,
 ) -> Option<RawLatentBlock> {
     let start = log.problems.len();
+    let (block_used, frame) = if b.age_slope {
+        let (kept, frame) = age_frame(b, used, log)?;
+        (kept, Some(frame))
+    } else {
+        (used.to_vec(), None)
+    };
     let mut margins: Vec<Margin> = Vec::new();
     let mut values: Vec<TraitValues> = Vec::new();
     let mut written: Vec<RawLatentTrait> = Vec::new();
     for t in &b.traits {
-        if let Some((vals, margin, raw)) = fit_margin(b, t, catalogue, used, log) {
+        if let Some((vals, margin, raw)) =
+            fit_margin(b, t, catalogue, &block_used, frame.as_ref(), log)
+        {
             values.push(vals);
             margins.push(margin);
             written.push(raw);
@@ -366,7 +510,11 @@ fn fit_block(
         return None;
     }
     let p = b.traits.len();
-    let matrices = correlations(b, &values, &margins, log);
+    let slopes: Vec<[f64; 2]> = written
+        .iter()
+        .map(|t| t.age_slope.map_or([0.0; 2], |s| [s.female, s.male]))
+        .collect();
+    let matrices = correlations(b, &values, &margins, (frame.as_ref(), &slopes), log);
     let rows = |m: &DMatrix<f64>| -> Vec<Vec<f64>> {
         (0..p)
             .map(|i| (0..p).map(|j| round(m[(i, j)])).collect())
@@ -388,6 +536,11 @@ fn fit_block(
         correlation,
         correlation_female,
         correlation_male,
+        age: frame.map(|f| RawAgeEffect {
+            centre: f.centre,
+            lowest: f.lowest,
+            highest: f.highest,
+        }),
     })
 }
 
@@ -416,6 +569,7 @@ fn fit_margin(
     t: &str,
     catalogue: &Catalogue,
     used: &[(&Individual, Sex)],
+    age: Option<&AgeFrame>,
     log: &mut FitLog,
 ) -> Option<(TraitValues, Margin, RawLatentTrait)> {
     let place = format!("block `{}`, trait `{t}`", b.id);
@@ -448,9 +602,9 @@ fn fit_margin(
     let (margin, raw) = match &def.kind {
         TraitKind::Ordinal { .. } => {
             let k = def.kind.n_grades().unwrap_or(2);
-            ordinal_margin(b, t, &place, lowest, k, &vals, log)?
+            ordinal_margin(b, t, &place, (lowest, k), &vals, age, log)?
         }
-        TraitKind::Metric { unit, .. } => metric_margin(b, t, &place, unit, &vals, n_sex, log)?,
+        TraitKind::Metric { unit, .. } => metric_margin(b, t, &place, unit, &vals, age, log)?,
         TraitKind::Count => {
             log.problems.push(FitProblem {
                 place,
@@ -465,14 +619,16 @@ fn fit_margin(
 /// An ordinal trait's margin: a cumulative probit (McCullagh 1980) with a shift between the
 /// sexes; the female latent mean is 0 and the within-sex SD 1, and the model stores the
 /// thresholds centred between the sexes. Seven arguments: the block and trait name the
-/// estimates, the place names the problems, and `lowest`/`k` give the grade scale.
+/// estimates, the place names the problems, `(lowest, k)` give the grade scale, and `age`
+/// the ages when the block has age slopes (covariates male, female × (age − c), male × (age −
+/// c): the female latent mean is 0 at the centre age c).
 fn ordinal_margin(
     b: &BlockSpec,
     t: &str,
     place: &str,
-    lowest: i32,
-    k: usize,
+    (lowest, k): (i32, usize),
     vals: &TraitValues,
+    age: Option<&AgeFrame>,
     log: &mut FitLog,
 ) -> Option<(Margin, RawLatentTrait)> {
     let n = vals.len();
@@ -500,7 +656,25 @@ fn ordinal_margin(
             }
         }
     }
-    match fit_cumulative_probit(&scores, k) {
+    let fitted = match age {
+        None => fit_cumulative_probit(&scores, k).map(|f| (f, None)),
+        Some(frame) => fit_probit_regression(&age_cases(vals, frame), k).map(|f| {
+            let fit = ordinal::OrdinalFit {
+                thresholds: f.thresholds.clone(),
+                shift: f.coefficients[0],
+                threshold_se: f.threshold_se.clone(),
+                shift_se: f.coefficient_se[0],
+                log_likelihood: f.log_likelihood,
+                iterations: f.iterations,
+            };
+            let slopes = [
+                (f.coefficients[1], f.coefficient_se[1]),
+                (f.coefficients[2], f.coefficient_se[2]),
+            ];
+            (fit, Some(slopes))
+        }),
+    };
+    match fitted {
         Err(e) => {
             let message = match e {
                 ordinal::OrdinalFitError::GradeNeverSeen(g) => format!(
@@ -516,8 +690,12 @@ fn ordinal_margin(
             });
             None
         }
-        Ok(f) => {
-            let scale = "latent, female mean 0, within-sex SD 1";
+        Ok((f, slopes)) => {
+            let centred =
+                age.map(|a| format!("latent, female mean 0 at age {}, within-sex SD 1", a.centre));
+            let scale = centred
+                .as_deref()
+                .unwrap_or("latent, female mean 0, within-sex SD 1");
             for (j, (th, se)) in f.thresholds.iter().zip(&f.threshold_se).enumerate() {
                 log.estimates.push(Estimate {
                     block: b.id.clone(),
@@ -538,6 +716,9 @@ fn ordinal_margin(
                 se: f.shift_se,
                 n,
             });
+            if let Some(sl) = slopes {
+                push_slopes(log, b, t, "latent SD", sl, [n, n]);
+            }
             let half = 0.5 * f.shift;
             let raw = RawLatentTrait {
                 id: t.to_string(),
@@ -548,6 +729,10 @@ fn ordinal_margin(
                 },
                 sd: None,
                 observer_error_sd: None,
+                age_slope: slopes.map(|[f, m]| PerSex {
+                    female: round(f.0),
+                    male: round(m.0),
+                }),
             };
             let margin = Margin::Ordinal {
                 thresholds: f.thresholds,
@@ -560,28 +745,69 @@ fn ordinal_margin(
 
 /// A measurement's margin: per-sex means and maximum-likelihood SDs (per sex or pooled, as
 /// the block says), with their standard errors. Seven arguments, as [`ordinal_margin`]: the
-/// names of the estimates and problems, the unit, and the per-sex counts already made.
+/// names of the estimates and problems, the unit, and the ages when the block has age slopes
+/// (then per sex y = α + β (age − c) + ε by least squares: α the mean at the centre age c, β
+/// the slope, the SD from the residuals; the standard errors of α and β are the usual ones,
+/// σ √(1/n + d̄²/S_dd) and σ/√S_dd with d = age − c).
 fn metric_margin(
     b: &BlockSpec,
     t: &str,
     place: &str,
     unit: &str,
     vals: &TraitValues,
-    n_sex: [usize; 2],
+    age: Option<&AgeFrame>,
     log: &mut FitLog,
 ) -> Option<(Margin, RawLatentTrait)> {
     let n = vals.len();
+    let mut n_sex = [0usize; 2];
     let mut sum = [0.0; 2];
-    for &(_, s, v) in vals {
+    let mut sum_d = [0.0; 2];
+    let offset = |i: usize| age.map_or(0.0, |a| a.offset(i));
+    for &(i, s, v) in vals {
         if let Value::Measure(x) = v {
+            n_sex[s] += 1;
             sum[s] += x;
+            sum_d[s] += offset(i);
         }
     }
-    let mean = [sum[0] / n_sex[0] as f64, sum[1] / n_sex[1] as f64];
+    let mut mean = [sum[0] / n_sex[0] as f64, sum[1] / n_sex[1] as f64];
+    let mut slope = [0.0; 2];
+    let mut slope_se_factor = [f64::NAN; 2];
+    let mut mean_se_factor = [
+        1.0 / (n_sex[0] as f64).sqrt(),
+        1.0 / (n_sex[1] as f64).sqrt(),
+    ];
+    if age.is_some() {
+        let d_bar = [sum_d[0] / n_sex[0] as f64, sum_d[1] / n_sex[1] as f64];
+        let (mut s_dd, mut s_dy) = ([0.0; 2], [0.0; 2]);
+        for &(i, s, v) in vals {
+            if let Value::Measure(x) = v {
+                let d = offset(i) - d_bar[s];
+                s_dd[s] += d * d;
+                s_dy[s] += d * (x - mean[s]);
+            }
+        }
+        if !(s_dd[0] > 0.0 && s_dd[1] > 0.0) {
+            log.problems.push(FitProblem {
+                place: place.into(),
+                message: "the ages of one sex's individuals with this measurement are all the \
+                          same, so its age slope cannot be estimated"
+                    .into(),
+            });
+            return None;
+        }
+        for s in 0..2 {
+            slope[s] = s_dy[s] / s_dd[s];
+            // The mean at the centre age: ȳ − β d̄.
+            mean[s] -= slope[s] * d_bar[s];
+            slope_se_factor[s] = 1.0 / s_dd[s].sqrt();
+            mean_se_factor[s] = (1.0 / n_sex[s] as f64 + d_bar[s] * d_bar[s] / s_dd[s]).sqrt();
+        }
+    }
     let mut ss = [0.0; 2];
-    for &(_, s, v) in vals {
+    for &(i, s, v) in vals {
         if let Value::Measure(x) = v {
-            ss[s] += (x - mean[s]).powi(2);
+            ss[s] += (x - mean[s] - slope[s] * offset(i)).powi(2);
         }
     }
     let sd = match b.dispersion {
@@ -606,12 +832,22 @@ fn metric_margin(
         log.estimates.push(Estimate {
             block: b.id.clone(),
             trait_id: t.to_string(),
-            parameter: format!("mean {word}"),
+            parameter: match age {
+                None => format!("mean {word}"),
+                Some(a) => format!("mean {word} at age {}", a.centre),
+            },
             scale: unit.to_string(),
             estimate: mean[s],
-            se: sd[s] / (n_sex[s] as f64).sqrt(),
+            se: sd[s] * mean_se_factor[s],
             n: n_sex[s],
         });
+    }
+    if age.is_some() {
+        let sl = [
+            (slope[0], sd[0] * slope_se_factor[0]),
+            (slope[1], sd[1] * slope_se_factor[1]),
+        ];
+        push_slopes(log, b, t, unit, sl, n_sex);
     }
     match b.dispersion {
         Dispersion::PerSex => {
@@ -649,8 +885,54 @@ fn metric_margin(
             male: round(sd[1]),
         }),
         observer_error_sd: None,
+        age_slope: age.map(|_| PerSex {
+            female: round(slope[0]),
+            male: round(slope[1]),
+        }),
     };
     Some((Margin::Metric { mean, sd }, raw))
+}
+
+/// The age slopes of one trait in the table of estimates, per year in `unit`.
+fn push_slopes(
+    log: &mut FitLog,
+    b: &BlockSpec,
+    t: &str,
+    unit: &str,
+    slopes: [(f64, f64); 2],
+    n: [usize; 2],
+) {
+    for (s, word) in [(0, "female"), (1, "male")] {
+        log.estimates.push(Estimate {
+            block: b.id.clone(),
+            trait_id: t.to_string(),
+            parameter: format!("age slope {word}"),
+            scale: format!("{unit} per year"),
+            estimate: slopes[s].0,
+            se: slopes[s].1,
+            n: n[s],
+        });
+    }
+}
+
+/// The probit cases of an ordinal trait in a block with age slopes: covariates male,
+/// female × (age − c), male × (age − c).
+fn age_cases(vals: &TraitValues, frame: &AgeFrame) -> Vec<ProbitCase> {
+    vals.iter()
+        .filter_map(|&(i, s, v)| match v {
+            Value::Grade(low, high) => {
+                let d = frame.offset(i);
+                let male = s as f64;
+                Some(ProbitCase {
+                    low,
+                    high,
+                    covariates: vec![male, (1.0 - male) * d, male * d],
+                    weight: 1.0,
+                })
+            }
+            Value::Measure(_) => None,
+        })
+        .collect()
 }
 
 /// The block's correlation matrices given the margins (polychoric, polyserial or Pearson by
@@ -660,6 +942,7 @@ fn correlations(
     b: &BlockSpec,
     values: &[TraitValues],
     margins: &[Margin],
+    (age, slopes): (Option<&AgeFrame>, &[[f64; 2]]),
     log: &mut FitLog,
 ) -> Vec<DMatrix<f64>> {
     let p = b.traits.len();
@@ -678,7 +961,12 @@ fn correlations(
         let mut r = DMatrix::identity(p, p);
         for j in 0..p {
             for k in j + 1..p {
-                let cases = pair_cases(&values[j], &values[k], sex_set);
+                let shift = |trait_j: usize, i: usize, s: usize| {
+                    age.map_or(0.0, |a| slopes[trait_j][s] * a.offset(i))
+                };
+                let cases = pair_cases((&values[j], &values[k]), sex_set, |i, s| {
+                    [shift(j, i, s), shift(k, i, s)]
+                });
                 let place = format!(
                     "block `{}`: {}{} and {}",
                     b.id,
@@ -732,8 +1020,13 @@ fn correlations(
     matrices
 }
 
-/// Cases with both traits recorded, among the given sexes.
-fn pair_cases(first: &TraitValues, second: &TraitValues, sexes: &[usize]) -> Vec<PairCase> {
+/// Cases with both traits recorded, among the given sexes, each with its means' shifts
+/// (`shift(individual, sex)`: the age effects of the two traits).
+fn pair_cases(
+    (first, second): (&TraitValues, &TraitValues),
+    sexes: &[usize],
+    shift: impl Fn(usize, usize) -> [f64; 2],
+) -> Vec<PairCase> {
     let mut out = Vec::new();
     let mut k = 0;
     for &(i, s, v) in first {
@@ -745,6 +1038,7 @@ fn pair_cases(first: &TraitValues, second: &TraitValues, sexes: &[usize]) -> Vec
                 sex: s,
                 first: v,
                 second: second[k].2,
+                shift: shift(i, s),
             });
         }
     }

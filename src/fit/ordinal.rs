@@ -1,4 +1,5 @@
-//! Maximum-likelihood cumulative probit for one ordinal trait with sex as the only covariate.
+//! Maximum-likelihood cumulative probit for one ordinal trait: sex as the only covariate, or
+//! sex and age with a slope per sex ([`fit_probit_regression`]).
 //!
 //! # Model
 //! x = δ·[male] + ε, ε ~ N(0, 1); grade k (index 0 … K−1) is seen when τₖ₋₁ < x ≤ τₖ
@@ -8,7 +9,7 @@
 //! probability Φ(τ_h − μ) − Φ(τ_{l−1} − μ).
 //!
 //! # Algorithm
-//! Newton–Raphson on (τ₀ … τ_{K−2}, δ) with the analytic gradient and Hessian, halving the
+//! Newton–Raphson on (τ₀ … τ_{K−2}, δ) (or (τ, β) with covariates) with the analytic gradient and Hessian, halving the
 //! step until the log-likelihood rises and the thresholds stay ordered; the log-likelihood is
 //! concave in these parameters for the probit link (Pratt 1981, J Am Stat Assoc 76:103–106;
 //! reference details here and above from memory),
@@ -92,22 +93,92 @@ pub fn fit_grouped_probit(
     groups: &[(OrdinalScore, f64)],
     n_grades: usize,
 ) -> Result<OrdinalFit, OrdinalFitError> {
-    let groups: Vec<(OrdinalScore, f64)> = groups
+    let cases: Vec<ProbitCase> = groups
         .iter()
-        .copied()
-        .filter(|(_, n)| *n > 0.0 && n.is_finite())
+        .map(|(s, n)| ProbitCase {
+            low: s.low,
+            high: s.high,
+            covariates: vec![if s.male { 1.0 } else { 0.0 }],
+            weight: *n,
+        })
+        .collect();
+    let f = fit_probit_regression(&cases, n_grades)?;
+    Ok(OrdinalFit {
+        thresholds: f.thresholds,
+        shift: f.coefficients[0],
+        threshold_se: f.threshold_se,
+        shift_se: f.coefficient_se[0],
+        log_likelihood: f.log_likelihood,
+        iterations: f.iterations,
+    })
+}
+
+/// One score of a cumulative probit regression: the grade-index interval, the covariates x
+/// (latent mean x·β) and a weight.
+#[derive(Debug, Clone, PartialEq)]
+pub struct ProbitCase {
+    /// Lowest grade index allowed (0-based).
+    pub low: usize,
+    /// Highest grade index allowed.
+    pub high: usize,
+    /// Covariates, one per coefficient; no intercept (the thresholds carry it).
+    pub covariates: Vec<f64>,
+    /// Count or weight (cases of weight 0 are ignored).
+    pub weight: f64,
+}
+
+/// A fitted cumulative probit regression.
+#[derive(Debug, Clone, PartialEq)]
+pub struct ProbitRegression {
+    /// Thresholds τ₀ < … < τ_{K−2} (latent mean x·β, SD 1).
+    pub thresholds: Vec<f64>,
+    /// Standard errors of the thresholds.
+    pub threshold_se: Vec<f64>,
+    /// β, one per covariate.
+    pub coefficients: Vec<f64>,
+    /// Standard errors of β.
+    pub coefficient_se: Vec<f64>,
+    /// The full inverse observed information over (τ, β), for standard errors of
+    /// combinations.
+    pub covariance: DMatrix<f64>,
+    /// Maximised log-likelihood.
+    pub log_likelihood: f64,
+    /// Newton iterations used.
+    pub iterations: usize,
+}
+
+/// Fit x = covariates·β + ε, ε ~ N(0, 1), grade k seen when τₖ₋₁ < x ≤ τₖ (McCullagh 1980),
+/// by Newton–Raphson as above. With the covariate [male] this is the model of
+/// [`fit_grouped_probit`]; with [male, female·(age − c), male·(age − c)] it gives each sex its
+/// own age slope (Agresti 2010, Analysis of Ordinal Categorical Data, ch. 5; from memory).
+/// The first covariate must separate the sexes (`OneSexOnly` if it never varies).
+///
+/// # Errors
+/// [`OrdinalFitError`] when a grade is never seen, the first covariate is constant, or the
+/// maximum is not finite.
+pub fn fit_probit_regression(
+    cases: &[ProbitCase],
+    n_grades: usize,
+) -> Result<ProbitRegression, OrdinalFitError> {
+    let cases: Vec<&ProbitCase> = cases
+        .iter()
+        .filter(|c| c.weight > 0.0 && c.weight.is_finite())
         .collect();
     if n_grades < 2 {
         return Err(OrdinalFitError::GradeNeverSeen(0));
     }
-    if !groups.iter().any(|(s, _)| s.male) || !groups.iter().any(|(s, _)| !s.male) {
+    let Some(q) = cases.first().map(|c| c.covariates.len()) else {
+        return Err(OrdinalFitError::OneSexOnly);
+    };
+    let first = |c: &&ProbitCase| c.covariates.first().copied().unwrap_or(0.0);
+    if q == 0 || cases.iter().all(|c| first(c) == first(&cases[0])) {
         return Err(OrdinalFitError::OneSexOnly);
     }
     // Every threshold needs mass on both sides: some score entirely at or below grade k and
     // some entirely above it.
     for k in 0..n_grades.saturating_sub(1) {
-        let below = groups.iter().any(|(s, _)| s.high <= k);
-        let above = groups.iter().any(|(s, _)| s.low > k);
+        let below = cases.iter().any(|s| s.high <= k);
+        let above = cases.iter().any(|s| s.low > k);
         if !below {
             return Err(OrdinalFitError::GradeNeverSeen(k));
         }
@@ -116,15 +187,15 @@ pub fn fit_grouped_probit(
         }
     }
     let m = n_grades - 1;
-    // Start: thresholds at the pooled cumulative proportions of exact scores.
+    // Start: thresholds at the pooled cumulative proportions of exact scores, β = 0.
     let mut cum = vec![0.0; n_grades];
     let mut total = 0.0;
-    for (s, n) in &groups {
+    for s in &cases {
         let mid = (s.low + s.high) / 2;
-        cum[mid] += n;
-        total += n;
+        cum[mid] += s.weight;
+        total += s.weight;
     }
-    let mut theta = DVector::zeros(m + 1);
+    let mut theta = DVector::zeros(m + q);
     let mut acc = 0.0;
     for k in 0..m {
         acc += cum[k];
@@ -136,14 +207,14 @@ pub fn fit_grouped_probit(
             theta[k] = theta[k - 1] + 0.1;
         }
     }
-    let mut ll = log_likelihood(&groups, &theta, m);
+    let mut ll = log_likelihood(&cases, &theta, m);
     let mut iterations = 0;
     loop {
         iterations += 1;
         if iterations > 200 {
             return Err(OrdinalFitError::NoMaximum);
         }
-        let (g, h) = derivatives(&groups, &theta, m);
+        let (g, h) = derivatives(&cases, &theta, m);
         let neg_h = -h;
         let Some(chol) = neg_h.clone().cholesky() else {
             return Err(OrdinalFitError::NoMaximum);
@@ -155,14 +226,14 @@ pub fn fit_grouped_probit(
             let cand = &theta + &step * t;
             let ordered = (1..m).all(|k| cand[k] > cand[k - 1]);
             if ordered {
-                let l = log_likelihood(&groups, &cand, m);
+                let l = log_likelihood(&cases, &cand, m);
                 if l.is_finite() && l >= ll - 1e-12 {
                     theta = cand;
                     let gain = l - ll;
                     ll = l;
                     improved = true;
                     if step.amax() * t < 1e-10 || gain.abs() < 1e-13 {
-                        return finish(&groups, theta, m, ll, iterations);
+                        return finish(&cases, theta, m, ll, iterations);
                     }
                     break;
                 }
@@ -170,7 +241,7 @@ pub fn fit_grouped_probit(
             t *= 0.5;
         }
         if !improved {
-            return finish(&groups, theta, m, ll, iterations);
+            return finish(&cases, theta, m, ll, iterations);
         }
         if theta.amax() > 40.0 {
             return Err(OrdinalFitError::NoMaximum);
@@ -179,27 +250,29 @@ pub fn fit_grouped_probit(
 }
 
 fn finish(
-    groups: &[(OrdinalScore, f64)],
+    cases: &[&ProbitCase],
     theta: DVector<f64>,
     m: usize,
     ll: f64,
     iterations: usize,
-) -> Result<OrdinalFit, OrdinalFitError> {
-    let (_, h) = derivatives(groups, &theta, m);
+) -> Result<ProbitRegression, OrdinalFitError> {
+    let (_, h) = derivatives(cases, &theta, m);
     let cov = (-h).try_inverse().ok_or(OrdinalFitError::NoMaximum)?;
     let se = |i: usize| cov[(i, i)].max(0.0).sqrt();
-    Ok(OrdinalFit {
+    let q = theta.len() - m;
+    Ok(ProbitRegression {
         thresholds: (0..m).map(|k| theta[k]).collect(),
-        shift: theta[m],
         threshold_se: (0..m).map(se).collect(),
-        shift_se: se(m),
+        coefficients: (0..q).map(|j| theta[m + j]).collect(),
+        coefficient_se: (0..q).map(|j| se(m + j)).collect(),
+        covariance: cov,
         log_likelihood: ll,
         iterations,
     })
 }
 
 /// The latent interval (a, b) of a score, before subtracting the mean.
-fn bounds(s: &OrdinalScore, theta: &DVector<f64>, m: usize) -> (f64, f64) {
+fn bounds(s: &ProbitCase, theta: &DVector<f64>, m: usize) -> (f64, f64) {
     let a = if s.low == 0 {
         f64::NEG_INFINITY
     } else {
@@ -213,13 +286,22 @@ fn bounds(s: &OrdinalScore, theta: &DVector<f64>, m: usize) -> (f64, f64) {
     (a, b)
 }
 
-fn log_likelihood(groups: &[(OrdinalScore, f64)], theta: &DVector<f64>, m: usize) -> f64 {
-    groups
+/// The latent mean x·β of a case.
+fn latent_mean(s: &ProbitCase, theta: &DVector<f64>, m: usize) -> f64 {
+    s.covariates
         .iter()
-        .map(|(s, n)| {
-            let mu = if s.male { theta[m] } else { 0.0 };
+        .enumerate()
+        .map(|(j, x)| x * theta[m + j])
+        .sum()
+}
+
+fn log_likelihood(cases: &[&ProbitCase], theta: &DVector<f64>, m: usize) -> f64 {
+    cases
+        .iter()
+        .map(|s| {
+            let mu = latent_mean(s, theta, m);
             let (a, b) = bounds(s, theta, m);
-            n * ln_interval(a - mu, b - mu)
+            s.weight * ln_interval(a - mu, b - mu)
         })
         .sum()
 }
@@ -233,20 +315,22 @@ fn ratio(x: f64, ln_p: f64) -> f64 {
     }
 }
 
-/// Gradient and Hessian of the log-likelihood in (τ, δ).
+/// Gradient and Hessian of the log-likelihood in (τ, β).
 ///
 /// For one score with ℓ = ln(Φ(b) − Φ(a)) = ln P: ∂ℓ/∂b = φ(b)/P, ∂ℓ/∂a = −φ(a)/P,
 /// ∂²ℓ/∂b² = −b φ(b)/P − (∂ℓ/∂b)², ∂²ℓ/∂a² = a φ(a)/P − (∂ℓ/∂a)², ∂²ℓ/∂a∂b = −(∂ℓ/∂a)(∂ℓ/∂b);
-/// a and b move one-for-one with their thresholds and by −1 with δ for males.
+/// a and b move one-for-one with their thresholds and by −xⱼ with βⱼ.
 fn derivatives(
-    groups: &[(OrdinalScore, f64)],
+    cases: &[&ProbitCase],
     theta: &DVector<f64>,
     m: usize,
 ) -> (DVector<f64>, DMatrix<f64>) {
-    let mut g = DVector::zeros(m + 1);
-    let mut h = DMatrix::zeros(m + 1, m + 1);
-    for (s, n) in groups {
-        let mu = if s.male { theta[m] } else { 0.0 };
+    let dim = theta.len();
+    let mut g = DVector::zeros(dim);
+    let mut h = DMatrix::zeros(dim, dim);
+    for s in cases {
+        let n = s.weight;
+        let mu = latent_mean(s, theta, m);
         let (a0, b0) = bounds(s, theta, m);
         let (a, b) = (a0 - mu, b0 - mu);
         let ln_p = ln_interval(a, b);
@@ -258,20 +342,22 @@ fn derivatives(
         let hbb = if b.is_infinite() { 0.0 } else { -b * rb } - gb * gb;
         let hab = -ga * gb;
         // Parameter index and coefficient of a and of b: (index, d/dθ).
-        let mut da: Vec<(usize, f64)> = Vec::with_capacity(2);
-        let mut db: Vec<(usize, f64)> = Vec::with_capacity(2);
+        let mut da: Vec<(usize, f64)> = Vec::with_capacity(1 + s.covariates.len());
+        let mut db: Vec<(usize, f64)> = Vec::with_capacity(1 + s.covariates.len());
         if s.low > 0 {
             da.push((s.low - 1, 1.0));
         }
         if s.high < m {
             db.push((s.high, 1.0));
         }
-        if s.male {
-            if s.low > 0 {
-                da.push((m, -1.0));
-            }
-            if s.high < m {
-                db.push((m, -1.0));
+        for (j, &x) in s.covariates.iter().enumerate() {
+            if x != 0.0 {
+                if s.low > 0 {
+                    da.push((m + j, -x));
+                }
+                if s.high < m {
+                    db.push((m + j, -x));
+                }
             }
         }
         for &(i, ci) in &da {

@@ -14,6 +14,8 @@
 //!     traits: [glabella, mastoid, nuchal_crest]
 //!     dispersion: per-sex            # metric SDs: per-sex (default) or shared
 //!     correlation: shared            # shared (default), per-sex, or none (independent)
+//!     age_slope: false               # true: means change with age, a slope per sex
+//!     age_centre: 40                 # with age_slope: years at which the means hold
 //! ```
 //!
 //! A trait's kind (ordinal with its grades, metric with its unit) comes from its catalogue
@@ -63,6 +65,14 @@ pub struct BlockSpec {
     /// Correlation shared, per sex, or none.
     #[serde(default)]
     pub correlation: CorrelationSharing,
+    /// Let each trait's mean change with age at death, with a slope per sex (only individuals
+    /// whose age is known to within [`crate::fit::WIDEST_AGE_INTERVAL`] years enter the block).
+    #[serde(default)]
+    pub age_slope: bool,
+    /// The age (years) at which the written means hold (with `age_slope`); default the mean
+    /// age of the block's individuals, to the year.
+    #[serde(default)]
+    pub age_centre: Option<f64>,
 }
 
 /// A fitting specification.

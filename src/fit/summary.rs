@@ -471,6 +471,7 @@ fn build_block(
         correlation,
         correlation_female,
         correlation_male,
+        age: None,
     })
 }
 
@@ -772,6 +773,7 @@ fn ordinal_trait(
                 },
                 sd: None,
                 observer_error_sd: None,
+                age_slope: None,
             })
         }
     }
@@ -880,6 +882,7 @@ fn metric_trait(
             male: super::round(ml[1]),
         }),
         observer_error_sd: None,
+        age_slope: None,
     })
 }
 

@@ -20,12 +20,26 @@
 //! stay, so its correlations with the other traits are attenuated by 1/√(1 + σₑ²/Σₛ,ⱼⱼ); the
 //! thresholds stay where they are on the error-free scale. For an ordinal trait the recorded
 //! grade is then less certain evidence of x, and the likelihood ratio moves towards 1.
+//!
+//! # Age as a covariate
+//! A block may let its means change with age at death t: μₛ(t) = μₛ + βₛ (t′ − c), with c the
+//! block's centre age, βₛ each trait's slope per year for sex s, and t′ = t clamped to the
+//! ages the reference sample covered, [t_lo, t_hi] (the slope is never extrapolated). Older
+//! women's crania are more robust, for instance (Walker 2008, Am J Phys Anthropol
+//! 136:39–50, from memory). The covariances do not change with age. An individual whose age
+//! is recorded as an interval [a, b] (a class, `40±5`; an open class `50+` is [50, t_hi];
+//! no age, or "adult" only, is [t_lo, t_hi]) has the likelihood averaged over the interval,
+//! age taken as uniform on it:
+//! L(s) = (1/(b − a)) ∫ₐᵇ L(s | t) dt,
+//! by 8-point Gauss–Legendre quadrature ([`crate::numeric::quadrature`]); a point age is one
+//! evaluation.
 
 use super::evidence::{BlockEvidence, BlockStatus, Context};
 use super::spec::{RawLatentBlock, RawLatentTrait};
 use super::ModelProblem;
 use crate::catalogue::{Catalogue, TraitKind};
-use crate::data::{Individual, Observation, Sex};
+use crate::data::{AgeAtDeath, Individual, Observation, Sex};
+use crate::numeric::quadrature::gauss_legendre_8;
 use crate::numeric::{ln_box_probability, QmcSettings};
 use nalgebra::{DMatrix, DVector};
 
@@ -92,6 +106,48 @@ pub struct LatentBlock {
     /// Each trait's observer error variance σₑ² (0 where none is given), already added to the
     /// diagonal of `cov`.
     pub observer_error_var: DVector<f64>,
+    /// How the means change with age at death, where the block says so.
+    pub age: Option<AgeEffect>,
+}
+
+/// The age covariate of a latent block: μₛ(t) = μₛ + βₛ (clamp(t, lowest, highest) − centre).
+#[derive(Debug, Clone, PartialEq)]
+pub struct AgeEffect {
+    /// Years at which `LatentBlock::mean` holds.
+    pub centre: f64,
+    /// Youngest age of the reference sample.
+    pub lowest: f64,
+    /// Oldest age of the reference sample.
+    pub highest: f64,
+    /// Change of each trait's mean per year, per sex (female, male).
+    pub slope: [DVector<f64>; 2],
+}
+
+impl AgeEffect {
+    /// The interval of ages (years, within the reference's) an individual's record allows:
+    /// the recorded interval clamped to [lowest, highest]; an open class runs to `highest`;
+    /// no age, "adult" or "subadult" is the whole reference range.
+    pub fn interval(&self, age: Option<&AgeAtDeath>) -> (f64, f64) {
+        let clamp = |t: f64| t.clamp(self.lowest, self.highest);
+        match age {
+            Some(AgeAtDeath::Years { low, high }) => {
+                (clamp(*low), clamp(high.unwrap_or(self.highest)))
+            }
+            _ => (self.lowest, self.highest),
+        }
+    }
+
+    /// Ages and weights (summing to 1) over which an interval's likelihood is averaged: one
+    /// point for a point age, else the 8-point Gauss–Legendre rule.
+    pub fn nodes(&self, (lo, hi): (f64, f64)) -> Vec<(f64, f64)> {
+        if hi - lo < 1e-9 {
+            return vec![(lo, 1.0)];
+        }
+        gauss_legendre_8(lo, hi)
+            .iter()
+            .map(|&(t, w)| (t, w / (hi - lo)))
+            .collect()
+    }
 }
 
 /// An ordinal trait of a latent block: `thresholds` on the latent scale, one fewer than the
@@ -198,6 +254,7 @@ impl LatentBlock {
         let mut sd_f = DVector::from_element(p, 1.0);
         let mut sd_m = DVector::from_element(p, 1.0);
         let mut error_var = DVector::zeros(p);
+        let mut slope = [DVector::zeros(p), DVector::zeros(p)];
         for (j, t) in raw.traits.iter().enumerate() {
             let place = format!(", trait `{}`", t.id);
             if raw.traits[..j].iter().any(|u| u.id == t.id) {
@@ -218,6 +275,18 @@ impl LatentBlock {
                     format!("observer_error_sd must be 0 or more, found {e}"),
                 ),
                 None => {}
+            }
+            match (t.age_slope, raw.age) {
+                (Some(b), Some(_)) if b.female.is_finite() && b.male.is_finite() => {
+                    slope[0][j] = b.female;
+                    slope[1][j] = b.male;
+                }
+                (Some(_), Some(_)) => fail(&place, "age_slope must be finite numbers".into()),
+                (Some(_), None) => fail(
+                    &place,
+                    "an age_slope needs the block's `age: {centre, lowest, highest}`".into(),
+                ),
+                (None, _) => {}
             }
             mean_f[j] = t.mean.female;
             mean_m[j] = t.mean.male;
@@ -280,6 +349,20 @@ impl LatentBlock {
                 (DMatrix::identity(p, p), DMatrix::identity(p, p))
             }
         };
+        if let Some(a) = raw.age {
+            let ok = [a.centre, a.lowest, a.highest]
+                .iter()
+                .all(|x| x.is_finite() && (0.0..=crate::data::age::MAX_AGE_YEARS).contains(x));
+            if !(ok && a.lowest < a.highest && (a.lowest..=a.highest).contains(&a.centre)) {
+                fail(
+                    ", age",
+                    format!(
+                        "lowest < highest with the centre between them, years from 0 to {}; found centre {}, lowest {}, highest {}",
+                        crate::data::age::MAX_AGE_YEARS, a.centre, a.lowest, a.highest
+                    ),
+                );
+            }
+        }
         if problems.len() > start || traits.len() != p {
             return None;
         }
@@ -296,6 +379,12 @@ impl LatentBlock {
             mean: [mean_f, mean_m],
             cov: [cov_f, cov_m],
             observer_error_var: error_var,
+            age: raw.age.map(|a| AgeEffect {
+                centre: a.centre,
+                lowest: a.lowest,
+                highest: a.highest,
+                slope,
+            }),
         })
     }
 
@@ -340,7 +429,22 @@ impl LatentBlock {
                 _ => {}
             }
         }
-        (!key.is_empty()).then_some(key)
+        if key.is_empty() {
+            return None;
+        }
+        if let Some(a) = &self.age {
+            key.push_str(&age_key(a.interval(ind.age.as_ref())));
+        }
+        Some(key)
+    }
+
+    /// The latent means of sex `s` (0 female, 1 male) at age `t` (years; the block's means
+    /// where it has no age effect).
+    pub fn mean_at(&self, s: usize, t: f64) -> DVector<f64> {
+        match &self.age {
+            None => self.mean[s].clone(),
+            Some(a) => &self.mean[s] + &a.slope[s] * (t.clamp(a.lowest, a.highest) - a.centre),
+        }
     }
 
     /// ln L(female), ln L(male) of one individual's observations of this block.
@@ -370,17 +474,22 @@ impl LatentBlock {
                 "no trait of this block recorded",
             );
         }
-        let pattern = pattern_key(&metric, &ordinal);
+        let mut pattern = pattern_key(&metric, &ordinal);
+        let interval = self.age.as_ref().map(|a| a.interval(ind.age.as_ref()));
+        if let Some(i) = interval {
+            pattern.push_str(&age_key(i));
+        }
         let mut ln_l = [0.0; 2];
         let mut error = 0.0;
         for (s, sex) in [Sex::Female, Sex::Male].into_iter().enumerate() {
-            match self.ln_likelihood(
-                s,
-                &metric,
-                &ordinal,
-                ctx.seed_for(&pattern, &self.id, sex),
-                &ctx.qmc,
-            ) {
+            let seed = ctx.seed_for(&pattern, &self.id, sex);
+            let result = match (&self.age, interval) {
+                (Some(a), Some(i)) => {
+                    self.ln_likelihood_over_age(s, a.nodes(i), &metric, &ordinal, seed, &ctx.qmc)
+                }
+                _ => self.ln_likelihood(s, &self.mean[s], &metric, &ordinal, seed, &ctx.qmc),
+            };
+            match result {
                 Ok((l, e)) => {
                     ln_l[s] = l;
                     error += e;
@@ -391,15 +500,46 @@ impl LatentBlock {
         BlockEvidence::from_likelihoods(used, ln_l[0], ln_l[1], error)
     }
 
-    fn ln_likelihood(
+    /// ln Σₖ wₖ L(s | tₖ) over the age nodes, summed in log space; the error is the nodes'
+    /// errors weighted by their share of the sum (a bound on the error of the logarithm of a
+    /// sum of terms each known to that relative error).
+    fn ln_likelihood_over_age(
         &self,
         s: usize,
+        nodes: Vec<(f64, f64)>,
         metric: &[(usize, f64)],
         ordinal: &[(usize, f64, f64)],
         seed: u64,
         qmc: &QmcSettings,
     ) -> Result<(f64, f64), String> {
-        let mu = &self.mean[s];
+        let mut terms = Vec::with_capacity(nodes.len());
+        for (t, w) in nodes {
+            let (l, e) = self.ln_likelihood(s, &self.mean_at(s, t), metric, ordinal, seed, qmc)?;
+            terms.push((w.ln() + l, e));
+        }
+        let top = terms.iter().map(|x| x.0).fold(f64::NEG_INFINITY, f64::max);
+        if !top.is_finite() {
+            return Ok((top, 0.0));
+        }
+        let shares: Vec<f64> = terms.iter().map(|x| (x.0 - top).exp()).collect();
+        let total: f64 = shares.iter().sum();
+        let error = terms
+            .iter()
+            .zip(&shares)
+            .map(|(x, w)| x.1 * w / total)
+            .sum();
+        Ok((top + total.ln(), error))
+    }
+
+    fn ln_likelihood(
+        &self,
+        s: usize,
+        mu: &DVector<f64>,
+        metric: &[(usize, f64)],
+        ordinal: &[(usize, f64, f64)],
+        seed: u64,
+        qmc: &QmcSettings,
+    ) -> Result<(f64, f64), String> {
         let cov = &self.cov[s];
         let m: Vec<usize> = metric.iter().map(|x| x.0).collect();
         let o: Vec<usize> = ordinal.iter().map(|x| x.0).collect();
@@ -450,6 +590,11 @@ impl LatentBlock {
         }
         Ok((ln_l, error))
     }
+}
+
+/// The part of a pattern key that names an age interval (bit-exact).
+fn age_key((lo, hi): (f64, f64)) -> String {
+    format!("a{:x}-{:x};", lo.to_bits(), hi.to_bits())
 }
 
 fn pattern_key(metric: &[(usize, f64)], ordinal: &[(usize, f64, f64)]) -> String {

@@ -155,6 +155,23 @@ pub struct RawLatentBlock {
     /// Male within-sex correlation (with `correlation_female`).
     #[serde(default, skip_serializing_if = "Option::is_none")]
     pub correlation_male: Option<Vec<Vec<f64>>>,
+    /// Age as a covariate of the latent means: the age at which the written means hold and
+    /// the ages the reference sample covered (see [`crate::model::latent`]).
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub age: Option<RawAgeEffect>,
+}
+
+/// The ages of a block whose traits change with age.
+#[derive(Debug, Clone, Copy, PartialEq, Deserialize, Serialize)]
+#[serde(deny_unknown_fields)]
+pub struct RawAgeEffect {
+    /// Years at which the traits' `mean` holds; each trait's `age_slope` moves it from there.
+    pub centre: f64,
+    /// Youngest age of the reference sample (years): younger ages take the mean at this age.
+    pub lowest: f64,
+    /// Oldest age of the reference sample (years): older ages, and the open end of a class
+    /// such as `50+`, take the mean at this age; the slope is never extrapolated.
+    pub highest: f64,
 }
 
 /// One trait of a latent block as written.
@@ -177,6 +194,11 @@ pub struct RawLatentTrait {
     /// [`crate::model::latent`]).
     #[serde(default, skip_serializing_if = "Option::is_none")]
     pub observer_error_sd: Option<f64>,
+    /// Change of the mean per year of age at death, per sex, in the mean's own scale (latent
+    /// SD units for an ordinal trait, the unit of measurement for a measurement). Only in a
+    /// block with `age`; absent there, 0.
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub age_slope: Option<PerSex>,
 }
 
 /// Equation block as written.

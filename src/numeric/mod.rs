@@ -5,5 +5,6 @@ pub mod mcmc;
 pub mod mvn;
 pub mod normal;
 pub mod proportion;
+pub mod quadrature;
 
 pub use mvn::{ln_box_probability, LnProbability, MvnError, QmcSettings};

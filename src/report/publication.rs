@@ -768,6 +768,15 @@ pub fn methods_md(r: &AnalysisResult) -> String {
         let used = evidence
             .iter()
             .any(|e| e.blocks[k].status == BlockStatus::Used);
+        if let (Block::Latent(l), true) = (b, used) {
+            if let Some(a) = &l.age {
+                let _ = write!(
+                    s,
+                    "In block `{}` each latent mean changed linearly with age at death, with a slope per trait and sex, from its value at {} years; outside the ages of the model's reference sample ({}–{} years) the mean at the nearer limit was used, the slope never extrapolated. Each individual's likelihood was averaged over the age interval recorded for them, age taken as uniform within it (8-point Gauss–Legendre quadrature); an open class such as 50+ ran to {} years, and an individual of unknown adult age was averaged over {}–{} years. ",
+                    l.id, a.centre, a.lowest, a.highest, a.highest, a.lowest, a.highest
+                );
+            }
+        }
         if let (Block::DnaX(d), true) = (b, used) {
             let _ = write!(
                 s,

@@ -2,7 +2,7 @@
 //! [`MissingSpec`] says, written in the input contract.
 
 use super::spec::{GroupSpec, MissingSpec};
-use super::{draw_observations, draw_sex};
+use super::{draw_observations_at, draw_sex};
 use crate::catalogue::TraitKind;
 use crate::data::{AgeAtDeath, Individual, Observation, Sex};
 use crate::model::{Block, Model};
@@ -79,16 +79,26 @@ pub fn simulate(
         trait_columns,
     };
     let named_groups = groups.len() > 1 || groups.iter().any(|g| !g.name.is_empty());
+    let ages = age_range(model);
     let mut k = 0;
     for g in groups {
         for _ in 0..g.n {
             k += 1;
             let sex = draw_sex(g.pi, &mut rng);
             let reads = 200 + (rng.random::<f64>() * 4800.0) as u64;
-            let mut obs = draw_observations(model, sex, reads, &mut rng);
-            within_plausible_range(model, sex, &mut obs, &mut rng);
+            // A model whose traits change with age: a true adult age, uniform over the ages
+            // its reference covered, drawn first (models without leave the stream as it was).
+            let true_age = ages.map(|(lo, hi)| (lo + rng.random::<f64>() * (hi - lo)).round());
+            let mut obs = draw_observations_at(model, sex, reads, true_age, &mut rng);
+            within_plausible_range(model, (sex, true_age), &mut obs, &mut rng);
             let subadult = preserve(&model.catalogue, missing, &mut obs, &mut rng);
-            let age = draw_age(subadult, &mut rng);
+            let age = match true_age {
+                Some(t) if !subadult => AgeAtDeath::Years {
+                    low: t,
+                    high: Some(t),
+                },
+                _ => draw_age(subadult, &mut rng),
+            };
             let n = obs.len();
             out.individuals.push(Individual {
                 id: format!("S-{k:05}"),
@@ -106,11 +116,24 @@ pub fn simulate(
     Ok(out)
 }
 
+/// The ages covered by the model's blocks with an age effect (youngest lowest, oldest
+/// highest); `None` when no block has one.
+fn age_range(model: &Model) -> Option<(f64, f64)> {
+    model
+        .blocks
+        .iter()
+        .filter_map(|b| match b {
+            Block::Latent(l) => l.age.as_ref().map(|a| (a.lowest, a.highest)),
+            _ => None,
+        })
+        .reduce(|a, b| (a.0.min(b.0), a.1.max(b.1)))
+}
+
 /// Measurements redrawn (at most 100 times) until within the trait's plausible range, then
 /// clamped to it and rounded as recorded.
 fn within_plausible_range(
     model: &Model,
-    sex: Sex,
+    (sex, age): (Sex, Option<f64>),
     obs: &mut [Option<Observation>],
     rng: &mut ChaCha8Rng,
 ) {
@@ -122,7 +145,7 @@ fn within_plausible_range(
             let mut v = value;
             let mut tries = 0;
             while !(v >= *low && v <= *high) && tries < 100 {
-                v = match draw_observations(model, sex, 0, rng)[t] {
+                v = match draw_observations_at(model, sex, 0, age, rng)[t] {
                     Some(Observation::Measurement { value }) => value,
                     _ => v,
                 };
@@ -244,6 +267,7 @@ impl Simulated {
                 r.push(ind.group.clone().unwrap_or_default());
             }
             r.push(match ind.age {
+                Some(AgeAtDeath::Years { low, high: Some(h) }) if h == low => format!("{low}"),
                 Some(AgeAtDeath::Years { low, high: Some(h) }) => format!("{low}-{h}"),
                 Some(AgeAtDeath::Years { low, high: None }) => format!("{low}+"),
                 Some(AgeAtDeath::Adult) => "adult".into(),

@@ -27,6 +27,18 @@ pub fn draw_observations(
     reads: u64,
     rng: &mut ChaCha8Rng,
 ) -> Vec<Option<Observation>> {
+    draw_observations_at(model, sex, reads, None, rng)
+}
+
+/// As [`draw_observations`], for an individual who died at `age` (years): blocks with an age
+/// effect draw from their means at that age (at their centre age where `age` is `None`).
+pub fn draw_observations_at(
+    model: &Model,
+    sex: Sex,
+    reads: u64,
+    age: Option<f64>,
+    rng: &mut ChaCha8Rng,
+) -> Vec<Option<Observation>> {
     use rand::distr::Distribution;
     let s = match sex {
         Sex::Female => 0,
@@ -43,7 +55,10 @@ pub fn draw_observations(
                     continue;
                 };
                 let z = nalgebra::DVector::from_fn(p, |_, _| std.sample(rng));
-                let x = &lb.mean[s] + chol.l() * z;
+                let x = match (age, &lb.age) {
+                    (Some(t), Some(_)) => lb.mean_at(s, t) + chol.l() * z,
+                    _ => &lb.mean[s] + chol.l() * z,
+                };
                 for (j, t) in lb.traits.iter().enumerate() {
                     obs[t.catalogue_index] = Some(match &t.kind {
                         LatentKind::Metric => Observation::Measurement { value: x[j] },

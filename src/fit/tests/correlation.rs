@@ -49,6 +49,7 @@ fn polychoric_polyserial_and_pearson_recover_rho() {
             sex,
             first: grade(x, &th),
             second: grade(y, &th),
+            shift: [0.0; 2],
         })
         .collect();
     let serial: Vec<PairCase> = data
@@ -57,6 +58,7 @@ fn polychoric_polyserial_and_pearson_recover_rho() {
             sex,
             first: grade(x, &th),
             second: Value::Measure(y),
+            shift: [0.0; 2],
         })
         .collect();
     let pearson: Vec<PairCase> = data
@@ -65,6 +67,7 @@ fn polychoric_polyserial_and_pearson_recover_rho() {
             sex,
             first: Value::Measure(x),
             second: Value::Measure(y),
+            shift: [0.0; 2],
         })
         .collect();
     for (name, e) in [

@@ -35,11 +35,20 @@ fn gradient_and_hessian_match_finite_differences() {
         },
         3.0,
     );
-    let groups: Vec<_> = groups.into_iter().collect();
-    let theta = DVector::from_vec(vec![-0.9, 0.1, 0.7, 0.8]);
+    let cases: Vec<ProbitCase> = groups
+        .into_iter()
+        .map(|(s, n)| ProbitCase {
+            low: s.low,
+            high: s.high,
+            covariates: vec![f64::from(u8::from(s.male)), if s.male { 0.3 } else { -1.2 }],
+            weight: n,
+        })
+        .collect();
+    let groups: Vec<&ProbitCase> = cases.iter().collect();
+    let theta = DVector::from_vec(vec![-0.9, 0.1, 0.7, 0.8, 0.2]);
     let (g, h) = derivatives(&groups, &theta, 3);
     let eps = 1e-6;
-    for i in 0..4 {
+    for i in 0..5 {
         let mut up = theta.clone();
         up[i] += eps;
         let mut dn = theta.clone();
@@ -48,7 +57,7 @@ fn gradient_and_hessian_match_finite_differences() {
         assert!((fd - g[i]).abs() < 1e-5, "gradient {i}: {fd} vs {}", g[i]);
         let (gu, _) = derivatives(&groups, &up, 3);
         let (gd, _) = derivatives(&groups, &dn, 3);
-        for j in 0..4 {
+        for j in 0..5 {
             let fd = (gu[j] - gd[j]) / (2.0 * eps);
             assert!(
                 (fd - h[(i, j)]).abs() < 1e-4,
