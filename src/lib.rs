@@ -59,6 +59,7 @@ pub mod assemblage;
 pub mod case;
 pub mod catalogue;
 pub mod cli;
+pub mod commingled;
 pub mod data;
 pub mod error;
 pub mod fit;

@@ -5,6 +5,7 @@ pub mod agreement;
 pub mod analyse;
 pub mod case;
 pub mod check;
+pub mod elements;
 pub mod evidence;
 pub mod fit;
 pub mod input;
@@ -45,6 +46,9 @@ pub enum Command {
     Simulate(simulate::Args),
     /// Before excavating: how wide will the interval of the sex ratio be, over a range of sizes?
     Plan(plan::Args),
+    /// Commingled remains, one row per element: sex by element, the minimum number of
+    /// individuals by sex, and the proportion female.
+    Elements(elements::Args),
     /// How well two observers' scorings of the same individuals agree.
     Agreement(agreement::Args),
     /// Fit a model to a documented reference collection (individuals of known sex), or build
@@ -66,6 +70,7 @@ pub fn run(cli: Cli) -> i32 {
         Command::Case(args) => case::run(args),
         Command::Simulate(args) => simulate::run(args),
         Command::Plan(args) => plan::run(args),
+        Command::Elements(args) => elements::run(args),
         Command::Agreement(args) => agreement::run(args),
         Command::Fit(args) => fit::run(args),
         Command::Validate(args) => validate::run(args),

@@ -43,6 +43,11 @@ pub struct Args {
     /// reference collection for `tessera fit` and `tessera validate`.
     #[arg(long)]
     pub as_reference: bool,
+    /// Write a commingled deposit instead: the individuals broken into elements (cranium,
+    /// mandible, os coxae, femur, humerus), some lost, the rest mixed, one row per element with
+    /// `true_individual` and `true_sex` (for `tessera elements`).
+    #[arg(long, conflicts_with_all = ["groups", "as_reference", "missing"])]
+    pub as_elements: bool,
     /// Where to write the table (CSV).
     #[arg(long, value_name = "FILE")]
     pub out: PathBuf,
@@ -75,6 +80,24 @@ pub fn run(args: Args) -> Result<i32, Error> {
             "--n",
             format!("{total} individuals: give from 1 to 5 000 000"),
         ));
+    }
+    if args.as_elements {
+        let sim = crate::sim::elements::simulate_elements(&model, total, args.pi, args.seed)
+            .map_err(|e| settings_error("--model", e.to_string()))?;
+        let protected: Vec<&Path> = args.model.iter().map(|m| m.as_path()).collect();
+        write_atomic(&args.out, &sim.to_csv(&model)?, &protected)?;
+        println!(
+            "Simulated a commingled deposit of {} individuals ({} female) from model {}: {} elements survive, mixed, into {} (the truth is in `true_individual` and `true_sex`, never evidence)",
+            total,
+            sim.individuals.iter().filter(|s| **s == crate::data::Sex::Female).count(),
+            model.name,
+            sim.elements.len(),
+            args.out.display()
+        );
+        println!(
+            "Simulated data: invented individuals for testing and teaching, not observations."
+        );
+        return Ok(0);
     }
     let missing = MissingSpec::given_or_fragmentary(args.missing.as_deref())
         .map_err(|m| settings_error("--missing", m))?;

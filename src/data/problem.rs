@@ -46,6 +46,10 @@ pub enum ProblemKind {
     /// The input asks more of the machine than a limit allows: a column name too long, a sheet
     /// or workbook too large, read counts no sequencer produces (`limit_exceeded`).
     LimitExceeded,
+    /// An element table lacks its `element` column (`missing_element_column`).
+    MissingElementColumn,
+    /// An element's type, side or association cannot be read (`bad_element_record`).
+    BadElementRecord,
 }
 
 impl ProblemKind {
@@ -70,6 +74,8 @@ impl ProblemKind {
             ProblemKind::UnpairedReads => "unpaired_reads",
             ProblemKind::BadWorkbook => "bad_workbook",
             ProblemKind::LimitExceeded => "limit_exceeded",
+            ProblemKind::MissingElementColumn => "missing_element_column",
+            ProblemKind::BadElementRecord => "bad_element_record",
         }
     }
 }

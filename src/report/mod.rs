@@ -4,6 +4,7 @@ pub mod agreement;
 pub mod analysis;
 pub mod case;
 pub mod citations;
+pub mod commingled;
 pub mod dictionary;
 pub mod figures;
 pub mod number;

@@ -131,7 +131,7 @@ fn age_range(model: &Model) -> Option<(f64, f64)> {
 
 /// Measurements redrawn (at most 100 times) until within the trait's plausible range, then
 /// clamped to it and rounded as recorded.
-fn within_plausible_range(
+pub(crate) fn within_plausible_range(
     model: &Model,
     (sex, age): (Sex, Option<f64>),
     obs: &mut [Option<Observation>],

@@ -3,6 +3,7 @@
 
 pub mod assemblage;
 pub mod calibration;
+pub mod elements;
 pub mod plan;
 pub mod spec;
 
