@@ -7,6 +7,7 @@
 //! simulations with a known slope, the slope recovered within its standard error and old
 //! women's posteriors corrected.
 
+mod common;
 use std::collections::BTreeMap;
 use tessera::data::{AgeAtDeath, Individual, Observation, Sex};
 use tessera::fit::{fit, FitSpec, ReferenceInfo};
@@ -381,4 +382,29 @@ fn a_known_age_slope_is_recovered_and_corrects_old_women() {
         "{wrong_old_women:?}"
     );
     assert!(log_score[0] > log_score[1]);
+}
+
+/// A case report under a model with age effects says over which ages the likelihood ratio
+/// was averaged, for the reader to weigh the age estimate.
+#[test]
+fn a_case_report_names_the_ages_its_likelihood_ratio_covers() {
+    let dir = tempfile::tempdir().unwrap();
+    let model = dir.path().join("age.yaml");
+    std::fs::write(&model, AGE_MODEL).unwrap();
+    let table = dir.path().join("case.csv");
+    std::fs::write(&table, "id,age,femur_head_diameter\nK1,40-60,45.0\n").unwrap();
+    let out = dir.path().join("k1");
+    let o = common::tessera(&[
+        "case",
+        table.to_str().unwrap(),
+        "--id",
+        "K1",
+        "--model",
+        model.to_str().unwrap(),
+        "--out",
+        out.to_str().unwrap(),
+    ]);
+    assert!(o.status.success(), "{}", common::stderr(&o));
+    let md = std::fs::read_to_string(out.join("case.md")).unwrap();
+    assert!(md.contains("averaged over ages 40 to 60 years"), "{md}");
 }

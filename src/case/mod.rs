@@ -229,6 +229,23 @@ pub fn case_report(
         ) {
             warnings.push(format!("{}: {}", b.id(), e.note));
         }
+        if let (crate::model::Block::Latent(l), true) = (b, used) {
+            if let Some(age) = &l.age {
+                let (lo, hi) = age.interval(ind.age.as_ref());
+                let span = if hi - lo < 1e-9 {
+                    format!("taken at {lo} years")
+                } else {
+                    format!("averaged over ages {lo} to {hi} years")
+                };
+                warnings.push(format!(
+                    "{}: the model's means for these traits change with age at death; this likelihood ratio was {span} (age recorded as {}; the model's reference covered {} to {} years), and another age estimate would change it",
+                    b.id(),
+                    ind.age.map_or_else(|| "not recorded".to_string(), crate::report::analysis::age_text),
+                    age.lowest,
+                    age.highest
+                ));
+            }
+        }
         regions.push(RegionLine {
             block: b.id().to_string(),
             status: e.status.as_str().to_string(),
