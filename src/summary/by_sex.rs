@@ -106,12 +106,20 @@ pub fn draw_ages<R: rand::Rng>(
         .filter(|(_, a)| a.is_some_and(|(_, hi)| hi.is_finite()))
         .filter_map(|(i, _)| out[i].map(|(age, _)| (i, age)))
         .collect();
+    // The donors of one sex above one start, in row order, made once per (sex, start): open
+    // classes share a few starts (50+, 60+), so this is linear in the individuals per draw.
+    let mut donor_lists: std::collections::HashMap<(bool, u64), Vec<f64>> =
+        std::collections::HashMap::new();
     for (i, lo, u) in open {
-        let donors: Vec<f64> = closed
-            .iter()
-            .filter(|(j, age)| female[*j] == female[i] && *age >= lo)
-            .map(|(_, age)| *age)
-            .collect();
+        let donors = donor_lists
+            .entry((female[i], lo.to_bits()))
+            .or_insert_with(|| {
+                closed
+                    .iter()
+                    .filter(|(j, age)| female[*j] == female[i] && *age >= lo)
+                    .map(|(_, age)| *age)
+                    .collect()
+            });
         let age = if donors.is_empty() {
             lo + u * (OPEN_CLASS_END.max(lo) - lo)
         } else {
