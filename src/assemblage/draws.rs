@@ -18,8 +18,80 @@ pub struct Draws {
     pub kappa: Vec<Option<f64>>,
     /// πg per draw and group.
     pub pi: Vec<Vec<f64>>,
-    /// Sex per draw and individual: `true` for female.
-    pub female: Vec<Vec<bool>>,
+    /// Sex per draw and individual: female where the bit is set (8 individuals a byte: a
+    /// regional run's 200 draws of a million sexes take 25 MB, not 200 MB).
+    pub female: Vec<SexDraw>,
+}
+
+/// One draw of every individual's sex, a bit each (set: female).
+#[derive(Debug, Clone, PartialEq, Eq, Default)]
+pub struct SexDraw {
+    bits: Vec<u64>,
+    len: usize,
+}
+
+impl SexDraw {
+    /// Individuals in the draw.
+    pub fn len(&self) -> usize {
+        self.len
+    }
+
+    /// Whether the draw holds no individual.
+    pub fn is_empty(&self) -> bool {
+        self.len == 0
+    }
+
+    /// Whether individual `i` is female in this draw.
+    pub fn is_female(&self, i: usize) -> bool {
+        i < self.len && self.bits[i / 64] >> (i % 64) & 1 == 1
+    }
+
+    /// Females in the draw.
+    pub fn n_female(&self) -> usize {
+        self.bits.iter().map(|w| w.count_ones() as usize).sum()
+    }
+
+    /// Every individual's sex in order (`true`: female).
+    pub fn iter(&self) -> impl Iterator<Item = bool> + '_ {
+        (0..self.len).map(|i| self.is_female(i))
+    }
+}
+
+impl FromIterator<bool> for SexDraw {
+    fn from_iter<I: IntoIterator<Item = bool>>(it: I) -> SexDraw {
+        let mut d = SexDraw::default();
+        for f in it {
+            if d.len % 64 == 0 {
+                d.bits.push(0);
+            }
+            if f {
+                d.bits[d.len / 64] |= 1 << (d.len % 64);
+            }
+            d.len += 1;
+        }
+        d
+    }
+}
+
+/// A draw of every individual's sex as the summaries by sex read it: one row of the joint
+/// draws, unpacked into a list of `true` for female (`Vec<bool>` rows are accepted too).
+pub trait SexRow {
+    /// The row as `true` (female) / `false`, into `out` (cleared first).
+    fn unpack_into(&self, out: &mut Vec<bool>);
+}
+
+impl SexRow for SexDraw {
+    fn unpack_into(&self, out: &mut Vec<bool>) {
+        out.clear();
+        out.extend(self.iter());
+    }
+}
+
+impl SexRow for Vec<bool> {
+    fn unpack_into(&self, out: &mut Vec<bool>) {
+        out.clear();
+        out.extend_from_slice(self);
+    }
 }
 
 /// An index drawn with probability proportional to `mass`.
@@ -129,10 +201,7 @@ impl Draws {
 
     /// Number of females in each draw.
     pub fn n_female(&self) -> Vec<usize> {
-        self.female
-            .iter()
-            .map(|s| s.iter().filter(|&&f| f).count())
-            .collect()
+        self.female.iter().map(SexDraw::n_female).collect()
     }
 }
 

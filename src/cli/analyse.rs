@@ -140,6 +140,10 @@ pub fn run(args: Args) -> Result<i32, Error> {
     let mut folder = FolderWriter::begin(&args.out, "analyse", &protected)?;
     let mut names: Vec<String> = Vec::new();
     render_each(&r, &mut |name, bytes| {
+        // Consecutive pieces of one long table continue its file.
+        if names.last().is_some_and(|n| n == name) {
+            return folder.append(name, &bytes);
+        }
         names.push(name.to_string());
         folder.add(name, &bytes)
     })?;

@@ -22,6 +22,9 @@ pub use set::{OutputFile, OutputSet};
 
 /// Where a renderer hands each file as soon as it is made (name, bytes): an [`OutputSet`] in
 /// memory, or a [`FolderWriter`]'s staging folder.
+///
+/// A long table may come in pieces: consecutive calls with the same name continue the file
+/// (each sink joins them: [`FolderWriter::append`], [`OutputSet::push_piece`]).
 pub type FileSink<'a> = dyn FnMut(&str, Vec<u8>) -> Result<(), Error> + 'a;
 
 use crate::Error;
@@ -299,6 +302,28 @@ impl FolderWriter {
         self.manifest.push_str(rel);
         self.manifest.push('\n');
         Ok(())
+    }
+
+    /// Add bytes to the end of a file already written by [`add`](Self::add) (a long table
+    /// handed on in pieces).
+    ///
+    /// # Errors
+    /// [`Error::Io`] when the file cannot be written.
+    pub fn append(&mut self, rel: &str, bytes: &[u8]) -> Result<(), Error> {
+        let Some(staging) = &self.staging else {
+            return Err(io_error(
+                &self.dir,
+                std::io::ErrorKind::Other,
+                "the output folder was already put in place".into(),
+            ));
+        };
+        let path = staging.path().join(rel);
+        let written = (|| {
+            let mut f = std::fs::OpenOptions::new().append(true).open(&path)?;
+            f.write_all(bytes)?;
+            f.sync_all()
+        })();
+        written.map_err(io(&self.dir))
     }
 
     /// Write the manifest and put the folder in place: renamed into place when the target is

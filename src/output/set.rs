@@ -48,6 +48,15 @@ impl OutputSet {
         });
     }
 
+    /// Append a file, or, when the last file has the same name, continue it with these bytes
+    /// (a long table handed on in pieces; see [`crate::output::FileSink`]).
+    pub fn push_piece(&mut self, name: &str, bytes: Vec<u8>) {
+        match self.files.last_mut() {
+            Some(last) if last.name == name => last.bytes.extend_from_slice(&bytes),
+            _ => self.push(name, bytes),
+        }
+    }
+
     /// Append every (name, bytes) pair.
     pub fn extend<N: Into<String>, B: Into<Vec<u8>>>(
         &mut self,

@@ -16,7 +16,7 @@ use crate::Error;
 pub fn render(r: &AnalysisResult) -> Result<OutputSet, Error> {
     let mut files = OutputSet::default();
     render_each(r, &mut |name, bytes| {
-        files.push(name, bytes);
+        files.push_piece(name, bytes);
         Ok(())
     })?;
     Ok(files)
@@ -73,6 +73,10 @@ struct Seen<'a> {
 
 impl Seen<'_> {
     fn pass(&mut self, name: &str, bytes: Vec<u8>) -> Result<(), Error> {
+        // A further piece of the file just handed on: only its bytes go on.
+        if self.names.last().is_some_and(|n| n == name) {
+            return (self.sink)(name, bytes);
+        }
         if name.ends_with(".csv") {
             self.tables.push((
                 name.to_string(),

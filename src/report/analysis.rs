@@ -136,9 +136,11 @@ pub fn render_files(
     r: &AnalysisResult,
     sink: &mut crate::output::FileSink<'_>,
 ) -> Result<(), crate::Error> {
-    sink("individuals.csv", individuals_csv(r)?)?;
+    // The two long tables go out in pieces (consecutive calls with one name continue the
+    // file): a million individuals' sensitivity rows are 0.5 GB of text.
+    individuals_csv(r, &mut |bytes| sink("individuals.csv", bytes))?;
     sink("assemblage.csv", assemblage_csv(r)?)?;
-    sink("sensitivity.csv", sensitivity_csv(r)?)?;
+    sensitivity_csv(r, &mut |bytes| sink("sensitivity.csv", bytes))?;
     if !r.results.main.groups.is_empty() {
         sink("groups.csv", groups_csv(r)?)?;
     }
@@ -149,8 +151,51 @@ pub fn render_files(
     sink("run.json", run_json(r)?)
 }
 
-/// `individuals.csv`: one row per individual (the columns are listed in the module's doc).
-fn individuals_csv(r: &AnalysisResult) -> Result<Vec<u8>, RenderError> {
+/// Rows of a long table per piece handed on (a choice of ours: a few MB of text).
+const ROWS_PER_PIECE: usize = 50_000;
+
+/// A long table's text, handed to `emit` in pieces of [`ROWS_PER_PIECE`] rows: the pieces
+/// joined are the bytes [`CsvText`] would give for the whole table.
+struct Pieces<'a> {
+    text: CsvText,
+    rows: usize,
+    emit: &'a mut dyn FnMut(Vec<u8>) -> Result<(), crate::Error>,
+}
+
+impl<'a> Pieces<'a> {
+    fn new(emit: &'a mut dyn FnMut(Vec<u8>) -> Result<(), crate::Error>) -> Self {
+        Pieces {
+            text: CsvText::default(),
+            rows: 0,
+            emit,
+        }
+    }
+
+    fn row<I, T>(&mut self, cells: I) -> Result<(), crate::Error>
+    where
+        I: IntoIterator<Item = T>,
+        T: AsRef<[u8]>,
+    {
+        self.text.row(cells);
+        self.rows += 1;
+        if self.rows >= ROWS_PER_PIECE {
+            self.rows = 0;
+            (self.emit)(std::mem::take(&mut self.text).finish()?)?;
+        }
+        Ok(())
+    }
+
+    fn finish(self) -> Result<(), crate::Error> {
+        (self.emit)(self.text.finish()?)
+    }
+}
+
+/// `individuals.csv`: one row per individual (the columns are listed in the module's doc),
+/// handed to `emit` in pieces.
+fn individuals_csv(
+    r: &AnalysisResult,
+    emit: &mut dyn FnMut(Vec<u8>) -> Result<(), crate::Error>,
+) -> Result<(), crate::Error> {
     let (model, a, evidence, analysis) = (&r.model, &r.assemblage, &r.evidence, &r.results);
     let main = &analysis.main;
     let mut head: Vec<String> = header(&[
@@ -192,8 +237,8 @@ fn individuals_csv(r: &AnalysisResult) -> Result<Vec<u8>, RenderError> {
         .filter_map(|w| w.row)
         .collect();
     // Written row by row: a million individuals' rows held as strings took 1.4 GB.
-    let mut text = CsvText::default();
-    text.row(&head);
+    let mut text = Pieces::new(emit);
+    text.row(&head)?;
     let digits = super::number::probability_decimals;
     let main_digits = digits(main.hyper.is_some());
     let any_digits = digits(analysis.results().any(|r| r.hyper.is_some()));
@@ -279,7 +324,7 @@ fn individuals_csv(r: &AnalysisResult) -> Result<Vec<u8>, RenderError> {
             });
         }
         r.extend(ind.carried.iter().cloned());
-        text.row(&r);
+        text.row(&r)?;
     }
     text.finish()
 }
@@ -397,11 +442,14 @@ fn assemblage_csv(r: &AnalysisResult) -> Result<Vec<u8>, RenderError> {
     csv_bytes(rows)
 }
 
-/// `sensitivity.csv`: one row per individual and prior.
-fn sensitivity_csv(r: &AnalysisResult) -> Result<Vec<u8>, RenderError> {
+/// `sensitivity.csv`: one row per individual and prior, handed to `emit` in pieces.
+fn sensitivity_csv(
+    r: &AnalysisResult,
+    emit: &mut dyn FnMut(Vec<u8>) -> Result<(), crate::Error>,
+) -> Result<(), crate::Error> {
     let all: Vec<&PriorResult> = r.results.results().collect();
-    let mut text = CsvText::default();
-    text.row(["id", "prior", "p_female", "category"]);
+    let mut text = Pieces::new(emit);
+    text.row(["id", "prior", "p_female", "category"])?;
     for (i, ind) in r.assemblage.individuals.iter().enumerate() {
         for x in &all {
             let p = x.p_female[i]
@@ -417,7 +465,7 @@ fn sensitivity_csv(r: &AnalysisResult) -> Result<Vec<u8>, RenderError> {
                 x.prior.name.as_str(),
                 p.as_str(),
                 x.categories[i].as_str(),
-            ]);
+            ])?;
         }
     }
     text.finish()
@@ -494,7 +542,7 @@ fn draws_csv(r: &AnalysisResult) -> Result<Vec<u8>, RenderError> {
         text.row(["draw", "id", "sex"]);
         for (d, sexes) in draws.female.iter().enumerate() {
             let draw = (d + 1).to_string();
-            for (ind, &f) in a.individuals.iter().zip(sexes) {
+            for (ind, f) in a.individuals.iter().zip(sexes.iter()) {
                 text.row([draw.as_str(), ind.id.as_str(), if f { "F" } else { "M" }]);
             }
         }

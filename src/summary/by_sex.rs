@@ -1,6 +1,7 @@
 //! Age at death by sex over joint draws of everyone's sex, and the condition columns read
 //! for prevalence by sex (see `prevalence`).
 
+use crate::assemblage::draws::SexRow;
 use crate::assemblage::Category;
 use crate::data::{AgeAtDeath, Assemblage, InputError, Problem, ProblemKind};
 use rand::{RngExt, SeedableRng};
@@ -176,7 +177,7 @@ pub struct AgeClassRow {
 /// the sexes come from the joint draw. `female[d][i]` is individual i's sex in draw d.
 pub fn age_by_sex(
     ages: &[Option<(f64, f64)>],
-    female: &[Vec<bool>],
+    female: &[impl SexRow],
     classes: &super::AgeClasses,
     seed: u64,
 ) -> AgeBySex {
@@ -187,7 +188,10 @@ pub fn age_by_sex(
     let mut counted = 0usize;
     let mut class_counts: Vec<(Vec<f64>, Vec<f64>)> =
         bounds.iter().map(|_| (Vec::new(), Vec::new())).collect();
-    for sexes in female {
+    let mut row = Vec::new();
+    for draw in female {
+        draw.unpack_into(&mut row);
+        let sexes = &row[..];
         let (mut sf, mut nf, mut sm, mut nm) = (0.0, 0usize, 0.0, 0usize);
         let mut cf = vec![0.0; bounds.len()];
         let mut cm = vec![0.0; bounds.len()];

@@ -20,6 +20,7 @@
 //! (H_F(r₁) − H_F(r₀)) / (H_M(r₁) − H_M(r₀)), and the probability that it exceeds 1 answer
 //! "did women die faster than men in these years?".
 
+use crate::assemblage::draws::SexRow;
 use rand::{RngExt, SeedableRng};
 use rand_chacha::ChaCha8Rng;
 use serde::Serialize;
@@ -454,9 +455,9 @@ fn grouped(ages: &[Option<RecordedAge>], sexes: &[bool], female: bool, start: f6
 /// Mortality by sex over the draws (module docs). `ages[i]` is individual i's age as recorded
 /// (`None`: none, or not in the tables by sex); `female[d][i]` its sex in draw d; the Makeham
 /// term is tried in the first `makeham_draws` draws ([`MAKEHAM_DRAWS`] in an analysis).
-pub fn hazards_by_sex(
+pub fn hazards_by_sex<S: SexRow>(
     ages: &[Option<RecordedAge>],
-    female: &[Vec<bool>],
+    female: &[S],
     start: f64,
     range: (f64, f64),
     makeham_draws: usize,
@@ -464,7 +465,7 @@ pub fn hazards_by_sex(
 ) -> HazardsBySex {
     let mut rng = ChaCha8Rng::seed_from_u64(seed ^ 0x6a2e_d0f1);
     let step = female.len().div_ceil(MAX_HAZARD_DRAWS).max(1);
-    let used: Vec<&Vec<bool>> = female.iter().step_by(step).collect();
+    let used: Vec<&S> = female.iter().step_by(step).collect();
     let (r0, r1) = ((range.0 - start).max(0.0), (range.1 - start).max(0.0));
     let ages_to = (80.0 - start).max(1.0) as usize;
     let mut params = [Vec::new(), Vec::new(), Vec::new(), Vec::new()];
@@ -474,7 +475,10 @@ pub fn hazards_by_sex(
     let mut lambdas_tried = [0usize; 2];
     let mut statistics = [Vec::new(), Vec::new()];
     let (distinct, of) = intervals(ages, start);
-    for sexes in &used {
+    let mut row = Vec::new();
+    for draw in &used {
+        draw.unpack_into(&mut row);
+        let sexes = &row[..];
         let data = [true, false].map(|f| counted(&distinct, &of, sexes, f));
         let fits = [fit(&data[0]), fit(&data[1])];
         let [Some(ff), Some(fm)] = fits else {

@@ -35,6 +35,7 @@
 //! (tests beside).
 
 use super::by_sex::{spread, OPEN_CLASS_END};
+use crate::assemblage::draws::SexRow;
 use rand::{RngExt, SeedableRng};
 use rand_chacha::ChaCha8Rng;
 use serde::Serialize;
@@ -294,7 +295,7 @@ pub struct LifeTables {
 /// (`None`: no age, or not in the tables by sex); `female[d][i]` its sex in draw d.
 pub fn life_tables(
     ages: &[Option<(f64, f64)>],
-    female: &[Vec<bool>],
+    female: &[impl SexRow],
     classes: &AgeClasses,
     seed: u64,
 ) -> LifeTables {
@@ -310,7 +311,10 @@ pub fn life_tables(
     let mut own: [Vec<Vec<LifeTableRow>>; 3] = [Vec::new(), Vec::new(), Vec::new()];
     let mut population: [Vec<Vec<LifeTableRow>>; 3] = [Vec::new(), Vec::new(), Vec::new()];
     let mut below = 0usize;
-    for sexes in female {
+    let mut row = Vec::new();
+    for draw in female {
+        draw.unpack_into(&mut row);
+        let sexes = &row[..];
         let mut deaths = [vec![0.0; k], vec![0.0; k], vec![0.0; k]];
         let mut weighted = [vec![0.0; k], vec![0.0; k], vec![0.0; k]];
         // Exp(1) by inversion: the Bayesian bootstrap's weight of each individual, drawn

@@ -38,3 +38,19 @@ fn draws_under_a_fixed_prior_follow_the_poisson_binomial() {
     let again = Draws::sample(&post, None, &l, 10, 3);
     assert_eq!(again.female[..], d.female[..10]);
 }
+
+#[test]
+fn a_packed_draw_reads_back_every_sex() {
+    // Lengths around the 64-bit word boundary.
+    for n in [0usize, 1, 63, 64, 65, 130] {
+        let sexes: Vec<bool> = (0..n).map(|i| (i * 7 + i / 3) % 5 < 2).collect();
+        let d: SexDraw = sexes.iter().copied().collect();
+        assert_eq!(d.len(), n);
+        assert_eq!(d.iter().collect::<Vec<_>>(), sexes);
+        assert_eq!(d.n_female(), sexes.iter().filter(|&&f| f).count());
+        assert!(!d.is_female(n));
+        let mut out = vec![true; 3];
+        d.unpack_into(&mut out);
+        assert_eq!(out, sexes);
+    }
+}
