@@ -42,7 +42,6 @@ fn person(
         }),
         known_sex: None,
         observations: observations.into(),
-        sides: vec![None; catalogue_len],
         carried: Vec::new(),
     }
 }

@@ -203,7 +203,7 @@ pub fn case_report(
             .map(|(t, k)| TraitLine {
                 id: t.clone(),
                 name: cat.traits()[k].name.clone(),
-                side: side_word(ind.sides[k]).into(),
+                side: side_word(ind.observations.side(k)).into(),
                 recorded: ind.observations[k]
                     .as_ref()
                     .map(recorded_text)

@@ -128,7 +128,7 @@ impl Completeness {
                 if let Some(o) = &ind.observations[t] {
                     c.recorded += 1;
                     c.as_range += usize::from(o.is_range());
-                    match ind.sides[t] {
+                    match ind.observations.side(t) {
                         Some(SideUsed::Left) => c.left += 1,
                         Some(SideUsed::Right) => c.right += 1,
                         Some(SideUsed::Both) => c.both += 1,

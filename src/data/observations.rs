@@ -3,7 +3,7 @@
 //! nothing for the traits a table does not hold. Read by catalogue position like a dense list
 //! (`ind.observations[k]` is `None` where nothing is recorded).
 
-use super::Observation;
+use super::{Observation, SideUsed};
 use serde::{Serialize, Serializer};
 use std::ops::{Index, IndexMut};
 
@@ -15,8 +15,9 @@ static NOT_RECORDED: Option<Observation> = None;
 pub struct Observations {
     /// The catalogue's size: positions run from 0 below it.
     len: usize,
-    /// (position, observation), sorted by position, each position at most once.
-    entries: Vec<(u32, Option<Observation>)>,
+    /// (position, side it came from, observation), sorted by position, each position at most
+    /// once (the side fits in the padding: 24 bytes an entry either way).
+    entries: Vec<(u32, Option<SideUsed>, Option<Observation>)>,
 }
 
 impl Observations {
@@ -52,12 +53,33 @@ impl Observations {
     pub fn recorded(&self) -> impl Iterator<Item = (usize, Observation)> + '_ {
         self.entries
             .iter()
-            .filter_map(|(k, o)| o.map(|o| (*k as usize, o)))
+            .filter_map(|(k, _, o)| o.map(|o| (*k as usize, o)))
     }
 
     /// How many positions hold an observation.
     pub fn n_recorded(&self) -> usize {
-        self.entries.iter().filter(|(_, o)| o.is_some()).count()
+        self.entries.iter().filter(|(_, _, o)| o.is_some()).count()
+    }
+
+    /// The side the observation at `position` came from (`None`: unsided, or nothing there).
+    pub fn side(&self, position: usize) -> Option<SideUsed> {
+        self.find(position).ok().and_then(|i| self.entries[i].1)
+    }
+
+    /// Record the side of the observation at `position` (nothing where none is recorded).
+    pub fn set_side(&mut self, position: usize, side: Option<SideUsed>) {
+        if let Ok(i) = self.find(position) {
+            self.entries[i].1 = side;
+        }
+    }
+
+    /// Observations and their sides, dense lists of one length.
+    pub fn with_sides(dense: Vec<Option<Observation>>, sides: Vec<Option<SideUsed>>) -> Self {
+        let mut o = Observations::from(dense);
+        for e in &mut o.entries {
+            e.1 = sides.get(e.0 as usize).copied().flatten();
+        }
+        o
     }
 
     /// The dense list (one entry per catalogue position).
@@ -67,7 +89,7 @@ impl Observations {
 
     fn find(&self, position: usize) -> Result<usize, usize> {
         self.entries
-            .binary_search_by_key(&position, |(k, _)| *k as usize)
+            .binary_search_by_key(&position, |(k, _, _)| *k as usize)
     }
 }
 
@@ -80,15 +102,20 @@ impl PartialEq for Observations {
 }
 
 impl From<Vec<Option<Observation>>> for Observations {
+    /// The recorded positions of a dense list, without sides; the entries are allocated to
+    /// their exact number (a million individuals' spare capacity was 60 MB).
     fn from(dense: Vec<Option<Observation>>) -> Observations {
-        Observations {
-            len: dense.len(),
-            entries: dense
-                .into_iter()
+        let mut entries = Vec::with_capacity(dense.iter().filter(|o| o.is_some()).count());
+        entries.extend(
+            dense
+                .iter()
                 .enumerate()
                 .filter(|(_, o)| o.is_some())
-                .map(|(k, o)| (k as u32, o))
-                .collect(),
+                .map(|(k, o)| (k as u32, None, *o)),
+        );
+        Observations {
+            len: dense.len(),
+            entries,
         }
     }
 }
@@ -100,7 +127,7 @@ impl Index<usize> for Observations {
     /// catalogue.
     fn index(&self, position: usize) -> &Option<Observation> {
         match self.find(position) {
-            Ok(i) => &self.entries[i].1,
+            Ok(i) => &self.entries[i].2,
             Err(_) => &NOT_RECORDED,
         }
     }
@@ -113,11 +140,11 @@ impl IndexMut<usize> for Observations {
         let i = match self.find(position) {
             Ok(i) => i,
             Err(i) => {
-                self.entries.insert(i, (position as u32, None));
+                self.entries.insert(i, (position as u32, None, None));
                 i
             }
         };
-        &mut self.entries[i].1
+        &mut self.entries[i].2
     }
 }
 

@@ -44,10 +44,9 @@ pub struct Individual {
     pub age: Option<AgeAtDeath>,
     /// Documented sex of a reference individual.
     pub known_sex: Option<Sex>,
-    /// One entry per catalogue trait, in catalogue order; `None` where not observed.
+    /// One entry per catalogue trait, in catalogue order; `None` where not observed. Each
+    /// holds the side it came from ([`super::Observations::side`]).
     pub observations: super::Observations,
-    /// The side each observation came from, aligned with `observations`.
-    pub sides: Vec<Option<SideUsed>>,
     /// The cells of the carried columns, unchanged, aligned with
     /// [`Assemblage::carried_columns`].
     pub carried: Vec<String>,
@@ -497,8 +496,7 @@ impl RowReader<'_> {
             group: fields.group,
             age: fields.age,
             known_sex: fields.known_sex,
-            observations: observations.into(),
-            sides,
+            observations: super::Observations::with_sides(observations, sides),
             carried: self
                 .carried
                 .iter()

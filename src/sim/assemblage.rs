@@ -99,7 +99,6 @@ pub fn simulate(
                 },
                 _ => draw_age(subadult, &mut rng),
             };
-            let n = obs.len();
             out.individuals.push(Individual {
                 id: format!("S-{k:05}"),
                 row: k + 1,
@@ -107,7 +106,6 @@ pub fn simulate(
                 age: Some(age),
                 known_sex: None,
                 observations: obs.into(),
-                sides: vec![None; n],
                 carried: Vec::new(),
             });
             out.true_sex.push(sex);

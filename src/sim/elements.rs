@@ -174,7 +174,6 @@ pub fn simulate_elements(
                         age: None,
                         known_sex: None,
                         observations: own.into(),
-                        sides: vec![None; cat.len()],
                         carried: Vec::new(),
                     },
                     element: p.element.to_string(),

@@ -141,7 +141,6 @@ pub fn draw_observations_at(
 /// A synthetic adult individual (no age recorded is treated as adult) with the given
 /// observations.
 pub fn individual(id: String, observations: Vec<Option<Observation>>) -> Individual {
-    let n = observations.len();
     Individual {
         id,
         row: 0,
@@ -149,7 +148,6 @@ pub fn individual(id: String, observations: Vec<Option<Observation>>) -> Individ
         age: None,
         known_sex: None,
         observations: observations.into(),
-        sides: vec![None; n],
         carried: Vec::new(),
     }
 }

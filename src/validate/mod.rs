@@ -121,12 +121,9 @@ fn masked(
     let mut copy = ind.clone();
     let mut dense = copy.observations.to_dense();
     crate::sim::preserve(catalogue, missing, &mut dense, &mut rng);
-    copy.observations = dense.into();
-    for (o, side) in copy.observations.iter().zip(copy.sides.iter_mut()) {
-        if o.is_none() {
-            *side = None;
-        }
-    }
+    // The traits kept keep their sides.
+    let sides = (0..dense.len()).map(|k| ind.observations.side(k)).collect();
+    copy.observations = crate::data::Observations::with_sides(dense, sides);
     copy
 }
 

@@ -26,7 +26,9 @@ fn a_good_file_reads_with_carried_columns() {
         Some(Observation::Grade { low: 2, high: 2 })
     );
     assert_eq!(
-        a.individuals[0].sides[a.catalogue.position("mastoid").unwrap()],
+        a.individuals[0]
+            .observations
+            .side(a.catalogue.position("mastoid").unwrap()),
         Some(SideUsed::Left)
     );
     assert_eq!(
