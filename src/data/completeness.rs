@@ -98,65 +98,93 @@ impl Completeness {
                 _ => unknown += 1,
             }
         }
-        // Groups in file order (phases are usually chronological), as every other screen.
+        // Groups in file order (phases are usually chronological), as every other screen;
+        // looked up by name, not by a scan of the list per individual.
         let mut groups: Vec<(String, usize)> = Vec::new();
         if a.individuals.iter().any(|i| i.group.is_some()) {
+            let mut place: std::collections::HashMap<&str, usize> =
+                std::collections::HashMap::new();
             for ind in &a.individuals {
-                let g = ind.group.clone().unwrap_or_else(|| "(none)".into());
-                match groups.iter_mut().find(|(name, _)| *name == g) {
-                    Some((_, n)) => *n += 1,
-                    None => groups.push((g, 1)),
-                }
-            }
-        }
-        let mut traits = Vec::new();
-        for (t, def) in a.catalogue.traits().iter().enumerate() {
-            if !a.trait_columns[t] {
-                continue;
-            }
-            let mut c = TraitCompleteness {
-                trait_id: def.id.clone(),
-                region: def.region,
-                recorded: 0,
-                share: 0.0,
-                as_range: 0,
-                left: 0,
-                right: 0,
-                both: 0,
-            };
-            for ind in &a.individuals {
-                if let Some(o) = &ind.observations[t] {
-                    c.recorded += 1;
-                    c.as_range += usize::from(o.is_range());
-                    match ind.observations.side(t) {
-                        Some(SideUsed::Left) => c.left += 1,
-                        Some(SideUsed::Right) => c.right += 1,
-                        Some(SideUsed::Both) => c.both += 1,
-                        _ => {}
+                let g = ind.group.as_deref().unwrap_or("(none)");
+                match place.get(g) {
+                    Some(&k) => groups[k].1 += 1,
+                    None => {
+                        place.insert(g, groups.len());
+                        groups.push((g.to_string(), 1));
                     }
                 }
             }
+        }
+        // One pass over each individual's recorded traits (not one pass over everybody per
+        // trait of the catalogue).
+        let columns: Vec<usize> = (0..a.catalogue.len())
+            .filter(|&t| a.trait_columns[t])
+            .collect();
+        let mut slot = vec![usize::MAX; a.catalogue.len()];
+        for (k, &t) in columns.iter().enumerate() {
+            slot[t] = k;
+        }
+        let mut traits: Vec<TraitCompleteness> = columns
+            .iter()
+            .map(|&t| {
+                let def = &a.catalogue.traits()[t];
+                TraitCompleteness {
+                    trait_id: def.id.clone(),
+                    region: def.region,
+                    recorded: 0,
+                    share: 0.0,
+                    as_range: 0,
+                    left: 0,
+                    right: 0,
+                    both: 0,
+                }
+            })
+            .collect();
+        let region_of = |t: usize| {
+            Region::ALL
+                .iter()
+                .position(|r| *r == a.catalogue.traits()[t].region)
+                .unwrap_or(0)
+        };
+        let mut with_region = vec![0usize; Region::ALL.len()];
+        for ind in &a.individuals {
+            let mut seen = [false; 16];
+            for (t, o) in ind.observations.recorded() {
+                let Some(c) = traits.get_mut(slot[t]) else {
+                    continue;
+                };
+                c.recorded += 1;
+                c.as_range += usize::from(o.is_range());
+                match ind.observations.side(t) {
+                    Some(SideUsed::Left) => c.left += 1,
+                    Some(SideUsed::Right) => c.right += 1,
+                    Some(SideUsed::Both) => c.both += 1,
+                    _ => {}
+                }
+                let r = region_of(t);
+                if !seen[r] {
+                    seen[r] = true;
+                    with_region[r] += 1;
+                }
+            }
+        }
+        for c in &mut traits {
             c.share = share(c.recorded);
-            traits.push(c);
         }
         let mut regions = Vec::new();
-        for region in Region::ALL {
-            let idx: Vec<usize> = (0..a.catalogue.len())
-                .filter(|&t| a.trait_columns[t] && a.catalogue.traits()[t].region == region)
-                .collect();
-            if idx.is_empty() {
+        for (r, region) in Region::ALL.into_iter().enumerate() {
+            let traits_in_file = columns
+                .iter()
+                .filter(|&&t| a.catalogue.traits()[t].region == region)
+                .count();
+            if traits_in_file == 0 {
                 continue;
             }
-            let k = a
-                .individuals
-                .iter()
-                .filter(|ind| idx.iter().any(|&t| ind.observations[t].is_some()))
-                .count();
             regions.push(RegionCompleteness {
                 region,
-                traits_in_file: idx.len(),
-                individuals: k,
-                share: share(k),
+                traits_in_file,
+                individuals: with_region[r],
+                share: share(with_region[r]),
             });
         }
         Completeness {

@@ -73,6 +73,23 @@ impl Observations {
         }
     }
 
+    /// Observations of a catalogue of `len` traits from (position, side, observation) in
+    /// increasing position order; entries without an observation are left out.
+    pub fn from_recorded(
+        len: usize,
+        recorded: Vec<(usize, Option<SideUsed>, Option<Observation>)>,
+    ) -> Self {
+        let mut entries = Vec::with_capacity(recorded.iter().filter(|e| e.2.is_some()).count());
+        entries.extend(
+            recorded
+                .into_iter()
+                .filter(|e| e.2.is_some())
+                .map(|(k, side, o)| (k as u32, side, o)),
+        );
+        debug_assert!(entries.windows(2).all(|w| w[0].0 < w[1].0));
+        Observations { len, entries }
+    }
+
     /// Observations and their sides, dense lists of one length.
     pub fn with_sides(dense: Vec<Option<Observation>>, sides: Vec<Option<SideUsed>>) -> Self {
         let mut o = Observations::from(dense);

@@ -290,10 +290,27 @@ fn build(
             trait_columns[*index] = true;
         }
     }
+    // The catalogue traits that have a column, and where each sits among them: a row's work
+    // is for the traits the table holds, not for the whole catalogue.
+    let mut present: Vec<usize> = roles
+        .iter()
+        .filter_map(|r| match r {
+            ColumnRole::Trait { index, .. } => Some(*index),
+            _ => None,
+        })
+        .collect();
+    present.sort_unstable();
+    present.dedup();
+    let mut slots = vec![usize::MAX; catalogue.len()];
+    for (k, &index) in present.iter().enumerate() {
+        slots[index] = k;
+    }
     let reader = RowReader {
         name,
         header: &table.header,
         roles: &roles,
+        present: &present,
+        slots: &slots,
         catalogue,
         settings,
         carried: &carried,
@@ -422,6 +439,10 @@ struct RowReader<'a> {
     name: &'a str,
     header: &'a [String],
     roles: &'a [ColumnRole],
+    /// Catalogue positions of the traits with a column, in order.
+    present: &'a [usize],
+    /// For each catalogue position, its place in `present` (`usize::MAX`: no column).
+    slots: &'a [usize],
     catalogue: &'a Catalogue,
     settings: &'a ReadSettings,
     /// Columns carried through unchanged.
@@ -468,7 +489,7 @@ impl RowReader<'_> {
     fn read(&self, raw: &RawRow<'_>, found: &mut Findings) -> Individual {
         let n = self.catalogue.len();
         let mut written = vec![false; n];
-        let mut cells: Vec<SidedCells> = (0..n)
+        let mut cells: Vec<SidedCells> = (0..self.present.len())
             .map(|_| SidedCells {
                 unsided: None,
                 left: None,
@@ -476,9 +497,9 @@ impl RowReader<'_> {
             })
             .collect();
         let fields = self.read_cells(raw, &mut cells, &mut written, found);
-        let (observations, sides) = self.combine(raw.row, cells, found);
+        let observations = self.combine(raw.row, cells, found);
         self.check_reads_pair(raw.row, &written, found);
-        if !fields.id.is_empty() && observations.iter().all(Option::is_none) {
+        if !fields.id.is_empty() && observations.n_recorded() == 0 {
             found.warnings.push(Warning {
                 file: self.name.to_string(),
                 row: Some(raw.row),
@@ -496,7 +517,7 @@ impl RowReader<'_> {
             group: fields.group,
             age: fields.age,
             known_sex: fields.known_sex,
-            observations: super::Observations::with_sides(observations, sides),
+            observations,
             carried: self
                 .carried
                 .iter()
@@ -580,7 +601,7 @@ impl RowReader<'_> {
                     written[index] = true;
                     match self.parse_trait(index, cell, &mut found.comma_cells) {
                         Ok(o) => {
-                            let slot = &mut cells[index];
+                            let slot = &mut cells[self.slots[index]];
                             match side {
                                 Side::Unsided => slot.unsided = Some(o),
                                 Side::Left => slot.left = Some(o),
@@ -627,11 +648,11 @@ impl RowReader<'_> {
         row: usize,
         cells: Vec<SidedCells>,
         found: &mut Findings,
-    ) -> (Vec<Option<Observation>>, Vec<Option<SideUsed>>) {
+    ) -> super::Observations {
         let settings = self.settings;
-        let mut observations = Vec::with_capacity(cells.len());
-        let mut sides = Vec::with_capacity(cells.len());
-        for (index, sc) in cells.into_iter().enumerate() {
+        let mut entries = Vec::with_capacity(cells.len());
+        for (slot, sc) in cells.into_iter().enumerate() {
+            let index = self.present[slot];
             let def = &self.catalogue.traits()[index];
             let (obs, side) = combine_sides(sc, settings.side_policy);
             if let (Some(l), Some(r)) = (obs.1, obs.2) {
@@ -648,10 +669,11 @@ impl RowReader<'_> {
                     });
                 }
             }
-            observations.push(obs.0);
-            sides.push(side);
+            if obs.0.is_some() {
+                entries.push((index, side, obs.0));
+            }
         }
-        (observations, sides)
+        super::Observations::from_recorded(self.catalogue.len(), entries)
     }
 
     /// Read counts come in pairs: a Y or an autosomal count needs the X count it is compared

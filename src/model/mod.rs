@@ -409,14 +409,20 @@ impl Model {
         let used: std::collections::HashSet<String> =
             self.blocks.iter().flat_map(Block::trait_ids).collect();
         let traits = self.catalogue.traits();
+        // One pass over each individual's recorded traits (not one over everybody per trait of
+        // the catalogue: most catalogue traits have no column).
+        let mut recorded = vec![0usize; traits.len()];
+        for ind in &a.individuals {
+            for (k, _) in ind.observations.recorded() {
+                if let Some(n) = recorded.get_mut(k) {
+                    *n += 1;
+                }
+            }
+        }
         (0..traits.len())
             .filter(|&k| !used.contains(&traits[k].id))
             .filter_map(|k| {
-                let n = a
-                    .individuals
-                    .iter()
-                    .filter(|ind| ind.observations.get(k).is_some_and(Option::is_some))
-                    .count();
+                let n = recorded[k];
                 (n > 0).then(|| {
                     format!(
                         "`{}` is recorded for {n} individual{} but the model `{}` has no block that uses it: that evidence is left out (use a model with a block for it{})",
