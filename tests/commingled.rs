@@ -170,6 +170,15 @@ fn every_bad_element_record_is_named() {
     ] {
         assert!(e.contains(needle), "{needle}: {e}");
     }
+    // Elements without any trait the model uses: said plainly, naming the file.
+    std::fs::write(&path, "id,element,side\nB1,femur,left\nB2,cranium,\n").unwrap();
+    let o = tessera(&["elements", path.to_str().unwrap()]);
+    assert!(!o.status.success());
+    assert!(
+        stderr(&o).contains("bad.csv") && stderr(&o).contains("no element carries evidence"),
+        "{}",
+        stderr(&o)
+    );
     // Without an element column: one clear problem.
     std::fs::write(&path, "id,glabella\nB1,2\n").unwrap();
     let o = tessera(&["elements", path.to_str().unwrap()]);

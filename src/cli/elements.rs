@@ -4,7 +4,7 @@
 use super::input::InputArgs;
 use super::settings_error;
 use crate::assemblage::Thresholds;
-use crate::commingled::{analyse_elements, read_elements, ElementOptions};
+use crate::commingled::{analyse_elements, read_elements, ElementError, ElementOptions};
 use crate::output::write_folder;
 use crate::report::commingled::{element_files, element_summary};
 use crate::Error;
@@ -52,8 +52,13 @@ pub fn run(args: Args) -> Result<i32, Error> {
         prior,
         thresholds: Thresholds::default(),
     };
-    let result = analyse_elements(&table, &model, &opts)
-        .map_err(|e| settings_error("--draws", e.to_string()))?;
+    let result = analyse_elements(&table, &model, &opts).map_err(|e| match e {
+        ElementError::Draws(_) => settings_error("--draws", e.to_string()),
+        ElementError::NoEvidence => Error::Settings {
+            file: args.table.display().to_string(),
+            message: e.to_string(),
+        },
+    })?;
     print!("{}", element_summary(&table, &result));
     if let Some(out) = &args.out {
         let mut protected: Vec<&Path> = vec![args.table.as_path()];
