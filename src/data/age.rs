@@ -210,6 +210,16 @@ pub enum Sex {
     Male,
 }
 
+impl Sex {
+    /// The letter written in tables: `F` or `M` (as the `known_sex` column reads it).
+    pub fn letter(self) -> &'static str {
+        match self {
+            Sex::Female => "F",
+            Sex::Male => "M",
+        }
+    }
+}
+
 /// Read a known-sex cell: `F`, `M`, `female`, `male` (any case).
 pub(crate) fn parse_known_sex(cell: &str) -> Option<Sex> {
     match cell.trim().to_ascii_lowercase().as_str() {

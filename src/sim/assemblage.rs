@@ -29,6 +29,21 @@ pub enum SimError {
     NothingToSimulate,
 }
 
+/// A simulated observation as a table cell: a grade, a range `3-4`, a measurement to the
+/// step it was recorded at (0.01 below 20 units, else 0.1), a count; empty where none.
+pub(crate) fn observation_cell(o: Option<Observation>, kind: &TraitKind) -> String {
+    match o {
+        None => String::new(),
+        Some(Observation::Grade { low, high }) if low == high => low.to_string(),
+        Some(Observation::Grade { low, high }) => format!("{low}-{high}"),
+        Some(Observation::Measurement { value }) => match kind {
+            TraitKind::Metric { high, .. } if *high < 20.0 => format!("{value:.2}"),
+            _ => format!("{value:.1}"),
+        },
+        Some(Observation::Count { value }) => value.to_string(),
+    }
+}
+
 /// Round a measurement as it would be recorded: 0.01 for small dimensions (teeth), 0.1 mm
 /// otherwise (common practice).
 fn recorded(value: f64, high: f64) -> f64 {
@@ -264,30 +279,11 @@ impl Simulated {
             if grouped {
                 r.push(ind.group.clone().unwrap_or_default());
             }
-            r.push(match ind.age {
-                Some(AgeAtDeath::Years { low, high: Some(h) }) if h == low => format!("{low}"),
-                Some(AgeAtDeath::Years { low, high: Some(h) }) => format!("{low}-{h}"),
-                Some(AgeAtDeath::Years { low, high: None }) => format!("{low}+"),
-                Some(AgeAtDeath::Adult) => "adult".into(),
-                Some(AgeAtDeath::Subadult) => "subadult".into(),
-                None => String::new(),
-            });
+            r.push(ind.age.map(crate::report::analysis::age_text).unwrap_or_default());
             for &t in &self.trait_columns {
-                r.push(match ind.observations[t] {
-                    None => String::new(),
-                    Some(Observation::Grade { low, high }) if low == high => low.to_string(),
-                    Some(Observation::Grade { low, high }) => format!("{low}-{high}"),
-                    Some(Observation::Measurement { value }) => match &cat.traits()[t].kind {
-                        TraitKind::Metric { high, .. } if *high < 20.0 => format!("{value:.2}"),
-                        _ => format!("{value:.1}"),
-                    },
-                    Some(Observation::Count { value }) => value.to_string(),
-                });
+                r.push(observation_cell(ind.observations[t], &cat.traits()[t].kind));
             }
-            r.push(match sex {
-                Sex::Female => "F".into(),
-                Sex::Male => "M".into(),
-            });
+            r.push(sex.letter().into());
             w.row(&r);
         }
         w.finish()

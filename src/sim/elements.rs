@@ -6,7 +6,7 @@
 //! Every number here (survival of each element, trait loss, how often associations are
 //! recorded and with what probability) is a choice of ours for demo data and tests.
 
-use super::assemblage::within_plausible_range;
+use super::assemblage::{observation_cell, within_plausible_range};
 use super::{draw_observations, draw_sex, SimError};
 use crate::commingled::ElementSide;
 use crate::data::{Individual, Observation, Sex};
@@ -262,19 +262,13 @@ impl SimulatedElements {
                 p,
             ];
             for &t in &self.trait_columns {
-                r.push(match e.row.observations[t] {
-                    None => String::new(),
-                    Some(Observation::Grade { low, high }) if low == high => low.to_string(),
-                    Some(Observation::Grade { low, high }) => format!("{low}-{high}"),
-                    Some(Observation::Measurement { value }) => format!("{value}"),
-                    Some(Observation::Count { value }) => value.to_string(),
-                });
+                r.push(observation_cell(
+                    e.row.observations[t],
+                    &cat.traits()[t].kind,
+                ));
             }
             r.push(format!("P-{:04}", e.true_individual + 1));
-            r.push(match e.true_sex {
-                Sex::Female => "F".to_string(),
-                Sex::Male => "M".to_string(),
-            });
+            r.push(e.true_sex.letter().to_string());
             rows.push(r);
         }
         crate::report::csv_bytes(rows)
