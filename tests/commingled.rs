@@ -220,6 +220,13 @@ fn the_command_writes_its_files() {
     ] {
         assert!(out.join(f).exists(), "{f}");
     }
+    let o = tessera(&["elements", table.to_str().unwrap(), "--draws", "0"]);
+    assert!(!o.status.success());
+    assert!(
+        stderr(&o).contains("--draws: give from 1") && !stderr(&o).contains("--draws: --draws"),
+        "{}",
+        stderr(&o)
+    );
     let report = std::fs::read_to_string(out.join("report.md")).unwrap();
     assert!(report.contains("not identifications") && report.contains("not gender"));
 }

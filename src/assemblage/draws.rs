@@ -212,12 +212,20 @@ pub fn count_summary(counts: &[usize]) -> (f64, usize, usize) {
     }
     let mut v = counts.to_vec();
     v.sort_unstable();
-    let q = |p: f64| v[((p * (v.len() - 1) as f64).round() as usize).min(v.len() - 1)];
     (
         counts.iter().sum::<usize>() as f64 / counts.len() as f64,
-        q(0.025),
-        q(0.975),
+        order_statistic(&v, 0.025),
+        order_statistic(&v, 0.975),
     )
+}
+
+/// The p-quantile of sorted counts as the order statistic at the rounded position
+/// p·(n − 1), the rule of [`count_summary`]; 0 for no counts.
+pub fn order_statistic(sorted: &[usize], p: f64) -> usize {
+    match sorted.len() {
+        0 => 0,
+        n => sorted[((p * (n - 1) as f64).round() as usize).min(n - 1)],
+    }
 }
 
 /// The Poisson-binomial distribution of the number of successes among independent trials

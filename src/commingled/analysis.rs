@@ -24,6 +24,7 @@
 //! Monte Carlo error √(p(1 − p)/draws).
 
 use super::read::{ElementSide, ElementTable};
+use crate::assemblage::draws::{count_summary, order_statistic};
 use crate::assemblage::posterior::{p_female_given, PiPosterior, PiSummary};
 use crate::assemblage::{Category, Thresholds};
 use crate::model::evidence::Context;
@@ -61,6 +62,8 @@ pub struct CountSummary {
 }
 
 impl CountSummary {
+    /// Mean and 95% interval by [`count_summary`], the median by the same order-statistic
+    /// rule; all 0 for no draws.
     fn of(mut v: Vec<usize>) -> CountSummary {
         if v.is_empty() {
             return CountSummary {
@@ -70,13 +73,13 @@ impl CountSummary {
                 hi: 0.0,
             };
         }
+        let (mean, lo, hi) = count_summary(&v);
         v.sort_unstable();
-        let q = |p: f64| v[((p * (v.len() - 1) as f64).round() as usize).min(v.len() - 1)] as f64;
         CountSummary {
-            mean: v.iter().sum::<usize>() as f64 / v.len() as f64,
-            median: q(0.5),
-            lo: q(0.025),
-            hi: q(0.975),
+            mean,
+            median: order_statistic(&v, 0.5) as f64,
+            lo: lo as f64,
+            hi: hi as f64,
         }
     }
 }
@@ -166,7 +169,7 @@ pub enum ElementError {
     #[error("no element carries evidence of sex that the model uses: the table needs trait scores or measurements of the model's blocks")]
     NoEvidence,
     /// Draws outside 1..=1 000 000.
-    #[error("--draws: give from 1 up to 1000000 draws, found {0}")]
+    #[error("give from 1 up to 1000000 draws, found {0}")]
     Draws(usize),
 }
 
@@ -193,7 +196,7 @@ pub fn analyse_elements(
         .iter()
         .map(|e| if e.estimable { e.ln_lr } else { 0.0 })
         .collect();
-    // Units in name order.
+    // Units in name order, and each element's unit.
     let mut by_unit: BTreeMap<(String, ElementSide), Vec<usize>> = BTreeMap::new();
     for (i, e) in table.elements.iter().enumerate() {
         by_unit
@@ -202,42 +205,42 @@ pub fn analyse_elements(
             .push(i);
     }
     let keys: Vec<(String, ElementSide)> = by_unit.keys().cloned().collect();
-    let mut posts: Vec<Option<PiPosterior>> = Vec::with_capacity(keys.len());
-    for members in by_unit.values() {
-        let lrs: Vec<f64> = members
-            .iter()
-            .filter(|&&i| evidence[i].estimable)
-            .map(|&i| ln_lr[i])
-            .collect();
-        posts.push((!lrs.is_empty()).then(|| PiPosterior::compute(&lrs, &opts.prior)));
+    let members: Vec<Vec<usize>> = by_unit.into_values().collect();
+    let mut unit_of = vec![0usize; table.elements.len()];
+    for (k, m) in members.iter().enumerate() {
+        for &i in m {
+            unit_of[i] = k;
+        }
     }
-    let n_evidence = |k: usize| {
-        by_unit[&keys[k]]
-            .iter()
-            .filter(|&&i| evidence[i].estimable)
-            .count()
-    };
+    // The ln LRs of each unit's elements with evidence.
+    let unit_lrs: Vec<Vec<f64>> = members
+        .iter()
+        .map(|m| {
+            m.iter()
+                .filter(|&&i| evidence[i].estimable)
+                .map(|&i| ln_lr[i])
+                .collect()
+        })
+        .collect();
+    let posts: Vec<Option<PiPosterior>> = unit_lrs
+        .iter()
+        .map(|lrs| (!lrs.is_empty()).then(|| PiPosterior::compute(lrs, &opts.prior)))
+        .collect();
     // The unit whose elements carry most information about π: the Fisher information at
     // π = 1/2, Σ 4 ((Lᵢ − 1)/(Lᵢ + 1))² = Σ 4 tanh²(ln Lᵢ / 2), which is the same for an
     // element and its mirror image (L and 1/L), so the choice does not favour units that
     // happen to hold more women or more men (choosing the narrowest interval would: a Beta
     // posterior narrows towards 0 and 1).
-    let information: Vec<f64> = by_unit
-        .values()
-        .map(|members| {
-            members
-                .iter()
-                .filter(|&&i| evidence[i].estimable)
-                .map(|&i| 4.0 * (0.5 * ln_lr[i]).tanh().powi(2))
-                .sum()
-        })
+    let information: Vec<f64> = unit_lrs
+        .iter()
+        .map(|lrs| lrs.iter().map(|l| 4.0 * (0.5 * l).tanh().powi(2)).sum())
         .collect();
     let chosen = (0..keys.len())
         .filter(|&k| posts[k].is_some())
         .max_by(|&a, &b| {
             information[a]
                 .total_cmp(&information[b])
-                .then(n_evidence(a).cmp(&n_evidence(b)))
+                .then(unit_lrs[a].len().cmp(&unit_lrs[b].len()))
                 .then(b.cmp(&a))
         })
         .ok_or(ElementError::NoEvidence)?;
@@ -267,18 +270,10 @@ pub fn analyse_elements(
         .iter()
         .map(|k| types.iter().position(|t| *t == k.0).unwrap_or(0))
         .collect();
-    let unit_of: Vec<usize> = table
-        .elements
-        .iter()
-        .map(|e| {
-            keys.iter()
-                .position(|k| k.0 == e.element && k.1 == e.side)
-                .unwrap_or(0)
-        })
-        .collect();
+    let mut done = vec![false; n];
     for _ in 0..opts.draws {
         let pi = post.quantile(rng.random::<f64>()).clamp(1e-12, 1.0 - 1e-12);
-        let mut done = vec![false; n];
+        done.fill(false);
         for members in groups.values() {
             let joined: Vec<usize> = members
                 .iter()
@@ -348,8 +343,8 @@ pub fn analyse_elements(
             UnitResult {
                 element: element.clone(),
                 side: *side,
-                n_elements: by_unit[&keys[k]].len(),
-                n_with_evidence: n_evidence(k),
+                n_elements: members[k].len(),
+                n_with_evidence: unit_lrs[k].len(),
                 information: information[k],
                 pi: posts[k].as_ref().map(PiPosterior::summary),
                 females: CountSummary::of(f),

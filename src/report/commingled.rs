@@ -3,6 +3,7 @@
 
 use super::number::{cell, probability};
 use super::{csv_bytes, header, RenderError};
+use crate::assemblage::PiSummary;
 use crate::commingled::{CommingledResult, CountSummary, ElementTable};
 use crate::output::OutputSet;
 use std::fmt::Write;
@@ -20,6 +21,17 @@ fn count_cells(c: &CountSummary) -> [String; 4] {
 /// "12 (9 to 15)": median and 95% interval.
 fn count_words(c: &CountSummary) -> String {
     format!("{} ({} to {})", c.median, c.lo, c.hi)
+}
+
+/// "0.474 (0.330 to 0.618)", or with `label` "95% interval ": a proportion female's mean and
+/// 95% interval.
+fn pi_words(p: &PiSummary, label: &str) -> String {
+    format!(
+        "{} ({label}{} to {})",
+        cell(p.mean, 3),
+        cell(p.lo, 3),
+        cell(p.hi, 3)
+    )
 }
 
 /// The cautions every element report carries.
@@ -168,10 +180,8 @@ pub fn element_report(t: &ElementTable, r: &CommingledResult) -> String {
     }
     let _ = writeln!(
         s,
-        "**Proportion female:** {} (95% interval {} to {}), from the {} — the element type and side whose elements carry most information about it (Fisher information at one half); each element of one type and side is a different person.\n",
-        cell(r.pi.mean, 3),
-        cell(r.pi.lo, 3),
-        cell(r.pi.hi, 3),
+        "**Proportion female:** {}, from the {} — the element type and side whose elements carry most information about it (Fisher information at one half); each element of one type and side is a different person.\n",
+        pi_words(&r.pi, "95% interval "),
         chosen_words(r)
     );
     let _ = writeln!(s, "| element | side | elements | with evidence | female elements | male elements | proportion female (this type and side alone) |\n|---|---|---|---|---|---|---|");
@@ -185,12 +195,7 @@ pub fn element_report(t: &ElementTable, r: &CommingledResult) -> String {
             u.n_with_evidence,
             count_words(&u.females),
             count_words(&u.males),
-            u.pi.map_or("—".to_string(), |p| format!(
-                "{} ({} to {})",
-                cell(p.mean, 3),
-                cell(p.lo, 3),
-                cell(p.hi, 3)
-            ))
+            u.pi.as_ref().map_or("—".to_string(), |p| pi_words(p, ""))
         );
     }
     if !r.associations.is_empty() {
@@ -237,10 +242,8 @@ pub fn element_summary(t: &ElementTable, r: &CommingledResult) -> String {
     }
     let _ = writeln!(
         s,
-        "\nProportion female {} (95% interval {} to {}), from the {}",
-        cell(r.pi.mean, 3),
-        cell(r.pi.lo, 3),
-        cell(r.pi.hi, 3),
+        "\nProportion female {}, from the {}",
+        pi_words(&r.pi, "95% interval "),
         chosen_words(r)
     );
     let _ = writeln!(

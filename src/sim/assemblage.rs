@@ -279,7 +279,11 @@ impl Simulated {
             if grouped {
                 r.push(ind.group.clone().unwrap_or_default());
             }
-            r.push(ind.age.map(crate::report::analysis::age_text).unwrap_or_default());
+            r.push(
+                ind.age
+                    .map(crate::report::analysis::age_text)
+                    .unwrap_or_default(),
+            );
             for &t in &self.trait_columns {
                 r.push(observation_cell(ind.observations[t], &cat.traits()[t].kind));
             }
