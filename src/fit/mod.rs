@@ -604,7 +604,9 @@ fn fit_margin(
             let k = def.kind.n_grades().unwrap_or(2);
             ordinal_margin(b, t, &place, (lowest, k), &vals, age, log)?
         }
-        TraitKind::Metric { unit, .. } => metric_margin(b, t, &place, unit, &vals, age, log)?,
+        TraitKind::Metric { unit, .. } => {
+            metric_margin(b, t, &place, (unit, n_sex), &vals, age, log)?
+        }
         TraitKind::Count => {
             log.problems.push(FitProblem {
                 place,
@@ -659,19 +661,11 @@ fn ordinal_margin(
     let fitted = match age {
         None => fit_cumulative_probit(&scores, k).map(|f| (f, None)),
         Some(frame) => fit_probit_regression(&age_cases(vals, frame), k).map(|f| {
-            let fit = ordinal::OrdinalFit {
-                thresholds: f.thresholds.clone(),
-                shift: f.coefficients[0],
-                threshold_se: f.threshold_se.clone(),
-                shift_se: f.coefficient_se[0],
-                log_likelihood: f.log_likelihood,
-                iterations: f.iterations,
-            };
             let slopes = [
                 (f.coefficients[1], f.coefficient_se[1]),
                 (f.coefficients[2], f.coefficient_se[2]),
             ];
-            (fit, Some(slopes))
+            (f.sex_fit(), Some(slopes))
         }),
     };
     match fitted {
@@ -745,7 +739,8 @@ fn ordinal_margin(
 
 /// A measurement's margin: per-sex means and maximum-likelihood SDs (per sex or pooled, as
 /// the block says), with their standard errors. Seven arguments, as [`ordinal_margin`]: the
-/// names of the estimates and problems, the unit, and the ages when the block has age slopes
+/// names of the estimates and problems, the unit with the per-sex counts already made, and the
+/// ages when the block has age slopes
 /// (then per sex y = α + β (age − c) + ε by least squares: α the mean at the centre age c, β
 /// the slope, the SD from the residuals; the standard errors of α and β are the usual ones,
 /// σ √(1/n + d̄²/S_dd) and σ/√S_dd with d = age − c).
@@ -753,19 +748,17 @@ fn metric_margin(
     b: &BlockSpec,
     t: &str,
     place: &str,
-    unit: &str,
+    (unit, n_sex): (&str, [usize; 2]),
     vals: &TraitValues,
     age: Option<&AgeFrame>,
     log: &mut FitLog,
 ) -> Option<(Margin, RawLatentTrait)> {
     let n = vals.len();
-    let mut n_sex = [0usize; 2];
     let mut sum = [0.0; 2];
     let mut sum_d = [0.0; 2];
     let offset = |i: usize| age.map_or(0.0, |a| a.offset(i));
     for &(i, s, v) in vals {
         if let Value::Measure(x) = v {
-            n_sex[s] += 1;
             sum[s] += x;
             sum_d[s] += offset(i);
         }

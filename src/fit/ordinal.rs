@@ -102,15 +102,7 @@ pub fn fit_grouped_probit(
             weight: *n,
         })
         .collect();
-    let f = fit_probit_regression(&cases, n_grades)?;
-    Ok(OrdinalFit {
-        thresholds: f.thresholds,
-        shift: f.coefficients[0],
-        threshold_se: f.threshold_se,
-        shift_se: f.coefficient_se[0],
-        log_likelihood: f.log_likelihood,
-        iterations: f.iterations,
-    })
+    Ok(fit_probit_regression(&cases, n_grades)?.sex_fit())
 }
 
 /// One score of a cumulative probit regression: the grade-index interval, the covariates x
@@ -138,13 +130,25 @@ pub struct ProbitRegression {
     pub coefficients: Vec<f64>,
     /// Standard errors of β.
     pub coefficient_se: Vec<f64>,
-    /// The full inverse observed information over (τ, β), for standard errors of
-    /// combinations.
-    pub covariance: DMatrix<f64>,
     /// Maximised log-likelihood.
     pub log_likelihood: f64,
     /// Newton iterations used.
     pub iterations: usize,
+}
+
+impl ProbitRegression {
+    /// The fit as the sexes' model reads it: the thresholds, and the first coefficient (on the
+    /// male indicator) as the male − female shift.
+    pub fn sex_fit(&self) -> OrdinalFit {
+        OrdinalFit {
+            thresholds: self.thresholds.clone(),
+            shift: self.coefficients[0],
+            threshold_se: self.threshold_se.clone(),
+            shift_se: self.coefficient_se[0],
+            log_likelihood: self.log_likelihood,
+            iterations: self.iterations,
+        }
+    }
 }
 
 /// Fit x = covariates·β + ε, ε ~ N(0, 1), grade k seen when τₖ₋₁ < x ≤ τₖ (McCullagh 1980),
@@ -265,7 +269,6 @@ fn finish(
         threshold_se: (0..m).map(se).collect(),
         coefficients: (0..q).map(|j| theta[m + j]).collect(),
         coefficient_se: (0..q).map(|j| se(m + j)).collect(),
-        covariance: cov,
         log_likelihood: ll,
         iterations,
     })
