@@ -66,37 +66,22 @@ impl Observations {
         self.find(position).ok().and_then(|i| self.entries[i].1)
     }
 
-    /// Record the side of the observation at `position` (nothing where none is recorded).
-    pub fn set_side(&mut self, position: usize, side: Option<SideUsed>) {
-        if let Ok(i) = self.find(position) {
-            self.entries[i].1 = side;
-        }
-    }
-
     /// Observations of a catalogue of `len` traits from (position, side, observation) in
-    /// increasing position order; entries without an observation are left out.
+    /// increasing position order; entries without an observation are left out, and the rest
+    /// are held in exactly the memory they need (a million individuals' spare capacity was
+    /// 60 MB).
     pub fn from_recorded(
         len: usize,
-        recorded: Vec<(usize, Option<SideUsed>, Option<Observation>)>,
+        recorded: impl IntoIterator<Item = (usize, Option<SideUsed>, Option<Observation>)>,
     ) -> Self {
-        let mut entries = Vec::with_capacity(recorded.iter().filter(|e| e.2.is_some()).count());
-        entries.extend(
-            recorded
-                .into_iter()
-                .filter(|e| e.2.is_some())
-                .map(|(k, side, o)| (k as u32, side, o)),
-        );
+        let mut entries: Vec<_> = recorded
+            .into_iter()
+            .filter(|e| e.2.is_some())
+            .map(|(k, side, o)| (k as u32, side, o))
+            .collect();
+        entries.shrink_to_fit();
         debug_assert!(entries.windows(2).all(|w| w[0].0 < w[1].0));
         Observations { len, entries }
-    }
-
-    /// Observations and their sides, dense lists of one length.
-    pub fn with_sides(dense: Vec<Option<Observation>>, sides: Vec<Option<SideUsed>>) -> Self {
-        let mut o = Observations::from(dense);
-        for e in &mut o.entries {
-            e.1 = sides.get(e.0 as usize).copied().flatten();
-        }
-        o
     }
 
     /// The dense list (one entry per catalogue position).
@@ -119,21 +104,13 @@ impl PartialEq for Observations {
 }
 
 impl From<Vec<Option<Observation>>> for Observations {
-    /// The recorded positions of a dense list, without sides; the entries are allocated to
-    /// their exact number (a million individuals' spare capacity was 60 MB).
+    /// The recorded positions of a dense list, without sides.
     fn from(dense: Vec<Option<Observation>>) -> Observations {
-        let mut entries = Vec::with_capacity(dense.iter().filter(|o| o.is_some()).count());
-        entries.extend(
-            dense
-                .iter()
-                .enumerate()
-                .filter(|(_, o)| o.is_some())
-                .map(|(k, o)| (k as u32, None, *o)),
-        );
-        Observations {
-            len: dense.len(),
-            entries,
-        }
+        let len = dense.len();
+        Observations::from_recorded(
+            len,
+            dense.into_iter().enumerate().map(|(k, o)| (k, None, o)),
+        )
     }
 }
 

@@ -122,8 +122,13 @@ fn masked(
     let mut dense = copy.observations.to_dense();
     crate::sim::preserve(catalogue, missing, &mut dense, &mut rng);
     // The traits kept keep their sides.
-    let sides = (0..dense.len()).map(|k| ind.observations.side(k)).collect();
-    copy.observations = crate::data::Observations::with_sides(dense, sides);
+    copy.observations = crate::data::Observations::from_recorded(
+        dense.len(),
+        dense
+            .into_iter()
+            .enumerate()
+            .map(|(k, o)| (k, ind.observations.side(k), o)),
+    );
     copy
 }
 
