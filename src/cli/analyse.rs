@@ -138,15 +138,8 @@ pub fn run(args: Args) -> Result<i32, Error> {
     // file goes into the staging folder as soon as it is made (a regional run's long tables
     // are not all held in memory together).
     let mut folder = FolderWriter::begin(&args.out, "analyse", &protected)?;
-    let mut names: Vec<String> = Vec::new();
-    render_each(&r, &mut |name, bytes| {
-        // Consecutive pieces of one long table continue its file.
-        if names.last().is_some_and(|n| n == name) {
-            return folder.append(name, &bytes);
-        }
-        names.push(name.to_string());
-        folder.add(name, &bytes)
-    })?;
+    render_each(&r, &mut |name, bytes| folder.add_piece(name, &bytes))?;
+    let names = folder.written().to_vec();
     folder.commit()?;
     for w in &r.recalibration_notes {
         eprintln!("warning: {w}");

@@ -24,7 +24,7 @@ pub use set::{OutputFile, OutputSet};
 /// memory, or a [`FolderWriter`]'s staging folder.
 ///
 /// A long table may come in pieces: consecutive calls with the same name continue the file
-/// (each sink joins them: [`FolderWriter::append`], [`OutputSet::push_piece`]).
+/// (each sink joins them: [`FolderWriter::add_piece`], [`OutputSet::push_piece`]).
 pub type FileSink<'a> = dyn FnMut(&str, Vec<u8>) -> Result<(), Error> + 'a;
 
 use crate::Error;
@@ -225,6 +225,8 @@ pub struct FolderWriter {
     previous: Previous,
     staging: Option<tempfile::TempDir>,
     manifest: String,
+    /// The files written so far, in order (the last may still be continued).
+    written: Vec<String>,
 }
 
 impl FolderWriter {
@@ -273,15 +275,30 @@ impl FolderWriter {
             previous,
             staging: Some(staging),
             manifest: format!("# written by tessera {command}; one run's files\n"),
+            written: Vec::new(),
         })
     }
 
     /// Write one file of the run (`rel`: a relative path inside the folder; sub-folders such
-    /// as `figures/` are made).
+    /// as `figures/` are made). A name already written is refused, as the file exists.
     ///
     /// # Errors
     /// [`Error::Io`] when the file cannot be written.
     pub fn add(&mut self, rel: &str, bytes: &[u8]) -> Result<(), Error> {
+        self.write(rel, bytes, false)
+    }
+
+    /// Take one piece handed on by a [`FileSink`]: with the name of the file written last it
+    /// continues that file (a long table in pieces), otherwise it is [`add`](Self::add).
+    ///
+    /// # Errors
+    /// [`Error::Io`] when the file cannot be written.
+    pub fn add_piece(&mut self, rel: &str, bytes: &[u8]) -> Result<(), Error> {
+        let continued = self.written.last().is_some_and(|last| last == rel);
+        self.write(rel, bytes, continued)
+    }
+
+    fn write(&mut self, rel: &str, bytes: &[u8], continued: bool) -> Result<(), Error> {
         let Some(staging) = &self.staging else {
             return Err(io_error(
                 &self.dir,
@@ -291,39 +308,29 @@ impl FolderWriter {
         };
         let path = staging.path().join(rel);
         let written = (|| {
-            if let Some(d) = path.parent() {
-                std::fs::create_dir_all(d)?;
-            }
-            let mut f = std::fs::File::create_new(&path)?;
+            let mut f = if continued {
+                std::fs::OpenOptions::new().append(true).open(&path)?
+            } else {
+                if let Some(d) = path.parent() {
+                    std::fs::create_dir_all(d)?;
+                }
+                std::fs::File::create_new(&path)?
+            };
             f.write_all(bytes)?;
             f.sync_all()
         })();
         written.map_err(io(&self.dir))?;
-        self.manifest.push_str(rel);
-        self.manifest.push('\n');
+        if !continued {
+            self.manifest.push_str(rel);
+            self.manifest.push('\n');
+            self.written.push(rel.to_string());
+        }
         Ok(())
     }
 
-    /// Add bytes to the end of a file already written by [`add`](Self::add) (a long table
-    /// handed on in pieces).
-    ///
-    /// # Errors
-    /// [`Error::Io`] when the file cannot be written.
-    pub fn append(&mut self, rel: &str, bytes: &[u8]) -> Result<(), Error> {
-        let Some(staging) = &self.staging else {
-            return Err(io_error(
-                &self.dir,
-                std::io::ErrorKind::Other,
-                "the output folder was already put in place".into(),
-            ));
-        };
-        let path = staging.path().join(rel);
-        let written = (|| {
-            let mut f = std::fs::OpenOptions::new().append(true).open(&path)?;
-            f.write_all(bytes)?;
-            f.sync_all()
-        })();
-        written.map_err(io(&self.dir))
+    /// The files written so far, in order.
+    pub fn written(&self) -> &[String] {
+        &self.written
     }
 
     /// Write the manifest and put the folder in place: renamed into place when the target is
