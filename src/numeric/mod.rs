@@ -1,6 +1,8 @@
 //! Numerical building blocks: the normal distribution in log space, multivariate normal
 //! box probabilities, proportions' intervals and the convergence diagnostics of chains.
 
+pub mod box_rules;
+pub mod log_concave;
 pub mod mcmc;
 pub mod mvn;
 pub mod normal;

@@ -1,6 +1,9 @@
 //! Probability that a multivariate normal vector falls in a box: exact in one and two
-//! dimensions, Genz's separation of variables with randomised quasi-Monte Carlo from three.
+//! dimensions; from three, deterministic one-dimensional rules where they apply
+//! ([`super::box_rules`]: a one-factor covariance in any dimension, any covariance in three),
+//! otherwise Genz's separation of variables with randomised quasi-Monte Carlo.
 
+use super::box_rules::{ln_box_one_factor, ln_box_trivariate, OneFactor};
 use super::normal::{cdf, inverse_cdf_fast, ln_interval, pdf};
 use nalgebra::DMatrix;
 use rand::{RngExt, SeedableRng};
@@ -222,7 +225,11 @@ pub enum MvnError {
 /// ln P(lower < X < upper) for X ~ N(0, cov).
 ///
 /// One dimension: exact through [`ln_interval`]. Two: exact through [`bvn_rectangle`].
-/// Three and more: [`genz_sov`] with the given seed; its error estimate travels with the result.
+/// Three and more: a covariance of one-factor form (every off-diagonal entry λᵢλⱼ, as in an
+/// equicorrelated block) by [`ln_box_one_factor`]; otherwise, in three dimensions, by
+/// [`ln_box_trivariate`]; both deterministic to a relative error of about 1e-10. Where neither
+/// applies (or the three-dimensional rule would lose accuracy): [`genz_sov`] with the given
+/// seed. The error estimate of whichever routine travels with the result.
 ///
 /// # Errors
 /// [`MvnError`] for mismatched sizes or a covariance that is not positive definite.
@@ -277,7 +284,18 @@ pub fn ln_box_probability(
                 error: if p > 0.0 { 1e-14 / p } else { f64::INFINITY },
             })
         }
-        _ => genz_sov(lower, upper, cov, seed, qmc),
+        _ => {
+            if let Some(p) = OneFactor::of(cov).and_then(|f| ln_box_one_factor(lower, upper, &f)) {
+                return Ok(p);
+            }
+            if let Some(p) = (n == 3)
+                .then(|| ln_box_trivariate(lower, upper, cov))
+                .flatten()
+            {
+                return Ok(p);
+            }
+            genz_sov(lower, upper, cov, seed, qmc)
+        }
     }
 }
 

@@ -48,6 +48,10 @@ const FULL_REFERENCES: &[(&str, &str)] = &[
     // From memory.
     ("Genz 1992", "Genz, A. (1992). Numerical computation of multivariate normal probabilities. Journal of Computational and Graphical Statistics, 1, 141–149."),
     // From memory.
+    ("Curnow & Dunnett 1962", "Curnow, R. N., & Dunnett, C. W. (1962). The numerical evaluation of certain multivariate normal integrals. Annals of Mathematical Statistics, 33, 571–579."),
+    // From memory.
+    ("Piessens et al. 1983", "Piessens, R., de Doncker-Kapenga, E., Überhuber, C. W., & Kahaner, D. K. (1983). QUADPACK: A subroutine package for automatic integration. Berlin: Springer."),
+    // From memory.
     ("Genz 2004", "Genz, A. (2004). Numerical computation of rectangular bivariate and trivariate normal and t probabilities. Statistics and Computing, 14, 251–260."),
     // From memory.
     ("McCullagh 1980", "McCullagh, P. (1980). Regression models for ordinal data. Journal of the Royal Statistical Society, Series B, 42, 109–142."),

@@ -589,7 +589,13 @@ pub fn references_used(
 ) -> Vec<String> {
     let mut refs = Vec::new();
     if used_latent {
-        for key in ["Konigsberg & Hens 1998", "Genz 1992", "Genz 2004"] {
+        for key in [
+            "Konigsberg & Hens 1998",
+            "Curnow & Dunnett 1962",
+            "Genz 1992",
+            "Genz 2004",
+            "Piessens et al. 1983",
+        ] {
             refs.push(citations::work(key));
         }
     }
@@ -737,7 +743,7 @@ pub fn methods_md(r: &AnalysisResult) -> String {
     );
     let _ = write!(s, "{}", recording_sentence(model, &used_traits));
     if has_latent {
-        let _ = write!(s, "Ordinal trait scores and measurements were modelled jointly by a multivariate cumulative probit with correlated latent traits (Konigsberg & Hens, 1998), extended to measurements; unobserved traits were integrated out, and probabilities of ordinal score combinations were computed exactly in one and two dimensions (Genz, 2004) and by Genz's separation-of-variables method with randomised quasi-Monte Carlo in three or more (Genz, 1992). ");
+        let _ = write!(s, "Ordinal trait scores and measurements were modelled jointly by a multivariate cumulative probit with correlated latent traits (Konigsberg & Hens, 1998), extended to measurements; unobserved traits were integrated out, and probabilities of ordinal score combinations were computed exactly in one and two dimensions (Genz, 2004); in three or more, as a one-dimensional integral where the within-sex correlations have one-factor form (Curnow & Dunnett, 1962), in three dimensions otherwise as a one-dimensional integral of the bivariate normal probability (Genz, 2004), both by adaptive Gauss–Kronrod quadrature (Piessens et al., 1983) to a relative error of 1e-10, and where neither applies by Genz's separation-of-variables method with randomised quasi-Monte Carlo (Genz, 1992). ");
         let sides = match run.side_policy.as_str() {
             "right-first" => {
                 "the right side was used, and the left only where the right was not recorded"

@@ -42,6 +42,8 @@ guarantees, not from what one machine happened to print:
   statsmodels fit with two more covariates). The metric rows are OLS (a QR solve through
   LAPACK on 200 rows) and ML SDs: relative error ~1e-14, far inside the same tolerances.
 - age_interval_expected.csv, relative 1e-14: pure mpmath at 40 digits, written to 17.
+- mvn_rules.csv, relative 1e-14: pure mpmath at 30 digits from decimal inputs, written to 17
+  (the scipy comparison inside the script is a check that stops it, not a written value).
 - gompertz_expected.csv, absolute 1e-6: scipy's BFGS stops at a gradient below 1e-9, so the
   estimates are within |H^-1 grad| ~ 1e-11 of the optimum; the log-likelihood is a sum of 600
   terms (numpy's expm1 and log, an ulp apart between processors), ~1e-12 relative.
@@ -89,6 +91,7 @@ SCRIPTS = {
     "dna_x.py": ("dna_x_expected.csv", "expected", lambda row: absolute(1e-7), ()),
     "age_probit.py": ("age_probit_expected.csv", "expected", ordered_probit, ()),
     "age_interval.py": ("age_interval_expected.csv", "expected", lambda row: relative(1e-14), ()),
+    "mvn_rules.py": ("mvn_rules.csv", "ln_p", lambda row: relative(1e-14), ()),
 }
 
 # Numeric inputs written by a seeded generator through BLAS may differ in the last bits.
