@@ -17,6 +17,13 @@ use super::quadrature::gauss_kronrod_15;
 /// of its peak.
 pub const CUT: f64 = 32.0;
 
+/// How flat (in natural-log units) the bracket around the peak must be for the search to
+/// stop: the integrand is then within e^0.001 of its peak across the bracket.
+const PEAK_FLAT: f64 = 1e-3;
+
+/// Pieces each side of the peak starts in.
+const SIDE_PIECES: usize = 4;
+
 /// Most bisections of the adaptive quadrature.
 const MAX_SPLITS: usize = 200;
 
@@ -82,9 +89,7 @@ pub fn ln_integral_log_concave(
     };
     let (left, left_tail) = reach(-1.0, lo);
     let (right, right_tail) = reach(1.0, hi);
-    NEVALS.with(|c| c.set(0));
     let mut g = |z: f64| {
-        NEVALS.with(|c| c.set(c.get() + 1));
         let v = ln_f(z) - top;
         if v.is_nan() {
             0.0
@@ -95,10 +100,17 @@ pub fn ln_integral_log_concave(
     // Globally adaptive: the piece with the largest error is halved until the sum of the
     // errors meets the tolerance.
     let mut pieces: Vec<(f64, f64, f64, f64)> = Vec::with_capacity(16);
+    // Each side starts in SIDE_PIECES pieces: a side spans the integrand's fall by e^CUT,
+    // which one 15-point rule does not resolve (bisecting it would waste its evaluations).
     for (a, b) in [(left, peak), (peak, right)] {
         if a < b {
-            let (v, e) = gauss_kronrod_15(&mut g, a, b);
-            pieces.push((a, b, v, e));
+            let w = (b - a) / SIDE_PIECES as f64;
+            for m in 0..SIDE_PIECES {
+                let x0 = a + w * m as f64;
+                let x1 = if m + 1 == SIDE_PIECES { b } else { x0 + w };
+                let (v, e) = gauss_kronrod_15(&mut g, x0, x1);
+                pieces.push((x0, x1, v, e));
+            }
         }
     }
     let tails = left_tail + right_tail;
@@ -107,9 +119,6 @@ pub fn ln_integral_log_concave(
         let error: f64 = pieces.iter().map(|p| p.3).sum();
         if error + tails <= rel_tol * total {
             break;
-        }
-        if std::env::var("LCDEBUG").is_ok() {
-            eprintln!("{:?}", pieces);
         }
         let (k, _) = pieces
             .iter()
@@ -124,13 +133,6 @@ pub fn ln_integral_log_concave(
     }
     let total: f64 = pieces.iter().map(|p| p.2).sum();
     let error: f64 = pieces.iter().map(|p| p.3).sum::<f64>() + tails;
-    eprintln!(
-        "PIECES {} {:e} {:e} {}",
-        pieces.len(),
-        error / total,
-        tails,
-        NEVALS.with(|c| c.get())
-    );
     if !(total > 0.0) {
         return None;
     }
@@ -141,8 +143,10 @@ pub fn ln_integral_log_concave(
 }
 
 /// The point where a concave function is largest on [lo, hi]: a bracket found by steps
-/// doubling from `start`, narrowed by golden-section search to a width of 1e-5 (the peak only splits the
-/// domain and scales the integrand: it need not be found closely).
+/// doubling from `start`, narrowed by golden-section search until the function varies by
+/// less than [`PEAK_FLAT`] across it (or its width is 1e-9 of its place). The peak only
+/// splits the domain and scales the integrand, so its height is needed to within that, not
+/// its place.
 fn find_peak(ln_f: &mut impl FnMut(f64) -> f64, lo: f64, hi: f64, start: f64) -> Option<f64> {
     let f0 = ln_f(start);
     if !f0.is_finite() {
@@ -164,23 +168,25 @@ fn find_peak(ln_f: &mut impl FnMut(f64) -> f64, lo: f64, hi: f64, start: f64) ->
         step *= 2.0;
     };
     let (mut x0, mut x1) = if a < c { (a, c) } else { (c, a) };
+    let (mut f0, mut f1) = (ln_f(x0), ln_f(x1));
     // Golden-section search on [x0, x1].
     const INV_PHI: f64 = 0.618_033_988_749_894_9;
     let mut u = x1 - INV_PHI * (x1 - x0);
     let mut v = x0 + INV_PHI * (x1 - x0);
     let (mut fu, mut fv) = (ln_f(u), ln_f(v));
     for _ in 0..200 {
-        if x1 - x0 <= 1e-5 * (1.0 + x0.abs().max(x1.abs())) {
+        let flat = fu.max(fv) - f0.min(f1) < PEAK_FLAT;
+        if flat || x1 - x0 <= 1e-9 * (1.0 + x0.abs().max(x1.abs())) {
             break;
         }
         if fu < fv {
-            x0 = u;
+            (x0, f0) = (u, fu);
             u = v;
             fu = fv;
             v = x0 + INV_PHI * (x1 - x0);
             fv = ln_f(v);
         } else {
-            x1 = v;
+            (x1, f1) = (v, fv);
             v = u;
             fv = fu;
             u = x1 - INV_PHI * (x1 - x0);
@@ -188,7 +194,7 @@ fn find_peak(ln_f: &mut impl FnMut(f64) -> f64, lo: f64, hi: f64, start: f64) ->
         }
     }
     // The best point seen, so that a peak at an end of the domain is kept.
-    let candidates = [(b, fb), (u, fu), (v, fv), (x0, ln_f(x0)), (x1, ln_f(x1))];
+    let candidates = [(b, fb), (u, fu), (v, fv), (x0, f0), (x1, f1)];
     candidates
         .into_iter()
         .filter(|c| c.1.is_finite())
@@ -255,4 +261,3 @@ mod tests {
         assert!(ln_integral_log_concave(|z| -z * z, 1.0, 1.0, 1.0, 1e-9).is_none());
     }
 }
-thread_local! { static NEVALS: std::cell::Cell<usize> = const { std::cell::Cell::new(0) }; }
