@@ -422,6 +422,9 @@ fn the_same_bytes_with_one_thread_or_several() {
                 "assemblage.csv",
                 "groups.csv",
                 "draws.csv",
+                "by_sex_age.csv",
+                "life_table.csv",
+                "hazards.csv",
             ]
             .map(|f| std::fs::read(out.join(f)).unwrap()),
         );

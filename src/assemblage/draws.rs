@@ -78,6 +78,8 @@ impl FromIterator<bool> for SexDraw {
 pub trait SexRow {
     /// The row as `true` (female) / `false`, into `out` (cleared first).
     fn unpack_into(&self, out: &mut Vec<bool>);
+    /// Whether individual `i` is female in this row.
+    fn is_female(&self, i: usize) -> bool;
 }
 
 impl SexRow for SexDraw {
@@ -85,12 +87,18 @@ impl SexRow for SexDraw {
         out.clear();
         out.extend(self.iter());
     }
+    fn is_female(&self, i: usize) -> bool {
+        SexDraw::is_female(self, i)
+    }
 }
 
 impl SexRow for Vec<bool> {
     fn unpack_into(&self, out: &mut Vec<bool>) {
         out.clear();
         out.extend_from_slice(self);
+    }
+    fn is_female(&self, i: usize) -> bool {
+        self[i]
     }
 }
 

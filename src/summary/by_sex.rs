@@ -1,11 +1,10 @@
 //! Age at death by sex over joint draws of everyone's sex, and the condition columns read
 //! for prevalence by sex (see `prevalence`).
 
+use super::age_draws::{over_draws, AgePlan, Donors};
 use crate::assemblage::draws::SexRow;
 use crate::assemblage::Category;
 use crate::data::{AgeAtDeath, Assemblage, InputError, Problem, ProblemKind};
-use rand::{RngExt, SeedableRng};
-use rand_chacha::ChaCha8Rng;
 use serde::Serialize;
 
 /// Upper end (years) given to open age classes such as `50+` and to `adult`: a stated
@@ -68,67 +67,25 @@ pub fn open_interval(age: Option<AgeAtDeath>, adult_from: f64) -> Option<(f64, f
 }
 
 /// One joint draw's ages at death, each with a value `extra` draws right after it (the life
-/// tables' bootstrap weight; the random stream is then the same as drawing both in turn).
-///
-/// A closed interval gives a uniform age within it (multiple imputation of interval ages;
-/// points stay points). An open one (`50+`, `adult` of unknown age), having no upper bound, is
-/// not closed at an invented age: it takes the age of an individual of the same sex in this
-/// draw whose own closed interval gave an age at or above the open class's start, chosen at
-/// random (hot-deck imputation, the distribution of the known ages above that start within
-/// the draw's sex; Andridge & Little 2010, from memory). Only where no such individual exists
-/// is the class closed at [`OPEN_CLASS_END`] (uniform from its start), as before.
+/// tables' bootstrap weight), indexed by individual: [`AgePlan::draw`] for one draw, whose
+/// docs give the imputation of interval ages and open classes.
 pub fn draw_ages<R: rand::Rng>(
     ages: &[Option<(f64, f64)>],
     female: &[bool],
     rng: &mut R,
     mut extra: impl FnMut(&mut R) -> f64,
 ) -> Vec<Option<(f64, f64)>> {
-    let mut out: Vec<Option<(f64, f64)>> = vec![None; ages.len()];
-    let mut open: Vec<(usize, f64, f64)> = Vec::new();
-    for (i, a) in ages.iter().enumerate() {
-        let Some((lo, hi)) = *a else { continue };
-        let end = if hi.is_infinite() {
-            OPEN_CLASS_END.max(lo)
-        } else {
-            hi
-        };
-        let u = if end > lo { rng.random::<f64>() } else { 0.0 };
-        let x = extra(rng);
-        if hi.is_infinite() && end > lo {
-            open.push((i, lo, u));
-            out[i] = Some((f64::NAN, x));
-        } else {
-            out[i] = Some((lo + u * (end - lo), x));
-        }
-    }
-    let closed: Vec<(usize, f64)> = ages
-        .iter()
-        .enumerate()
-        .filter(|(_, a)| a.is_some_and(|(_, hi)| hi.is_finite()))
-        .filter_map(|(i, _)| out[i].map(|(age, _)| (i, age)))
-        .collect();
-    // The donors of one sex above one start, in row order, made once per (sex, start): open
-    // classes share a few starts (50+, 60+), so this is linear in the individuals per draw.
-    let mut donor_lists: std::collections::HashMap<(bool, u64), Vec<f64>> =
-        std::collections::HashMap::new();
-    for (i, lo, u) in open {
-        let donors = donor_lists
-            .entry((female[i], lo.to_bits()))
-            .or_insert_with(|| {
-                closed
-                    .iter()
-                    .filter(|(j, age)| female[*j] == female[i] && *age >= lo)
-                    .map(|(_, age)| *age)
-                    .collect()
-            });
-        let age = if donors.is_empty() {
-            lo + u * (OPEN_CLASS_END.max(lo) - lo)
-        } else {
-            donors[((u * donors.len() as f64) as usize).min(donors.len() - 1)]
-        };
-        if let Some(slot) = out[i].as_mut() {
-            slot.0 = age;
-        }
+    let mut drawn = Vec::new();
+    AgePlan::new(ages).draw(
+        &|i| female[i],
+        rng,
+        &mut extra,
+        &mut drawn,
+        &mut Donors::default(),
+    );
+    let mut out = vec![None; ages.len()];
+    for (i, age, x) in drawn {
+        out[i] = Some((age, x));
     }
     out
 }
@@ -177,38 +134,44 @@ pub struct AgeClassRow {
 /// the sexes come from the joint draw. `female[d][i]` is individual i's sex in draw d.
 pub fn age_by_sex(
     ages: &[Option<(f64, f64)>],
-    female: &[impl SexRow],
+    female: &[impl SexRow + Sync],
     classes: &super::AgeClasses,
     seed: u64,
 ) -> AgeBySex {
     let bounds = class_bounds(classes);
-    let mut rng = ChaCha8Rng::seed_from_u64(seed ^ 0x5eed_a9e5);
+    let plan = AgePlan::new(ages);
+    // Per draw: the sum and number of ages of each sex, and the deaths of each sex by class.
+    let per_draw = over_draws(
+        female.len(),
+        seed ^ 0x5eed_a9e5,
+        &plan,
+        &|d, i| female[d].is_female(i),
+        |_| 0.0,
+        |d, drawn, _| {
+            let (mut sf, mut nf, mut sm, mut nm) = (0.0, 0usize, 0.0, 0usize);
+            let mut cf = vec![0.0; bounds.len()];
+            let mut cm = vec![0.0; bounds.len()];
+            for &(i, age, _) in drawn {
+                let k = class_index(&bounds, age);
+                if female[d].is_female(i) {
+                    sf += age;
+                    nf += 1;
+                    cf[k] += 1.0;
+                } else {
+                    sm += age;
+                    nm += 1;
+                    cm[k] += 1.0;
+                }
+            }
+            (sf, nf, sm, nm, cf, cm)
+        },
+    );
     let (mut mf, mut mm, mut diff) = (Vec::new(), Vec::new(), Vec::new());
     let mut younger = 0usize;
     let mut counted = 0usize;
     let mut class_counts: Vec<(Vec<f64>, Vec<f64>)> =
         bounds.iter().map(|_| (Vec::new(), Vec::new())).collect();
-    let mut row = Vec::new();
-    for draw in female {
-        draw.unpack_into(&mut row);
-        let sexes = &row[..];
-        let (mut sf, mut nf, mut sm, mut nm) = (0.0, 0usize, 0.0, 0usize);
-        let mut cf = vec![0.0; bounds.len()];
-        let mut cm = vec![0.0; bounds.len()];
-        let drawn = draw_ages(ages, sexes, &mut rng, |_| 0.0);
-        for (a, &f) in drawn.iter().zip(sexes) {
-            let Some((age, _)) = *a else { continue };
-            let k = class_index(&bounds, age);
-            if f {
-                sf += age;
-                nf += 1;
-                cf[k] += 1.0;
-            } else {
-                sm += age;
-                nm += 1;
-                cm[k] += 1.0;
-            }
-        }
+    for (sf, nf, sm, nm, cf, cm) in per_draw {
         for (k, (a, b)) in class_counts.iter_mut().enumerate() {
             a.push(cf[k]);
             b.push(cm[k]);

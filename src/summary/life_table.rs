@@ -34,10 +34,10 @@
 //! the first class equals the mean age at death minus the class's start, Σ dₓ (midₓ − x₀) / 100
 //! (tests beside).
 
+use super::age_draws::{over_draws, AgePlan};
 use super::by_sex::{spread, OPEN_CLASS_END};
 use crate::assemblage::draws::SexRow;
-use rand::{RngExt, SeedableRng};
-use rand_chacha::ChaCha8Rng;
+use rand::RngExt;
 use serde::Serialize;
 
 /// The age classes of the life tables unless the user sets them: the adult classes of the
@@ -295,11 +295,10 @@ pub struct LifeTables {
 /// (`None`: no age, or not in the tables by sex); `female[d][i]` its sex in draw d.
 pub fn life_tables(
     ages: &[Option<(f64, f64)>],
-    female: &[impl SexRow],
+    female: &[impl SexRow + Sync],
     classes: &AgeClasses,
     seed: u64,
 ) -> LifeTables {
-    let mut rng = ChaCha8Rng::seed_from_u64(seed ^ 0x11fe_7ab1);
     let k = classes.0.len();
     let open_end = ages
         .iter()
@@ -307,37 +306,54 @@ pub fn life_tables(
         .map(|&(_, hi)| hi)
         .filter(|hi| hi.is_finite())
         .fold(OPEN_CLASS_END, f64::max);
-    // Per sex (female, male, all): the tables of these dead and of the population.
+    let plan = AgePlan::new(ages);
+    // Per draw and sex (female, male, all): the table of these dead and of the population,
+    // and the deaths below the first class.
+    type Tables = [Option<(Vec<LifeTableRow>, Vec<LifeTableRow>)>; 3];
+    let per_draw: Vec<(Tables, usize)> = over_draws(
+        female.len(),
+        seed ^ 0x11fe_7ab1,
+        &plan,
+        &|d, i| female[d].is_female(i),
+        // Exp(1) by inversion: the Bayesian bootstrap's weight of each individual, drawn
+        // right after its age.
+        |r| -(1.0 - r.random::<f64>()).ln(),
+        |d, drawn, _| {
+            let mut deaths = [vec![0.0; k], vec![0.0; k], vec![0.0; k]];
+            let mut weighted = [vec![0.0; k], vec![0.0; k], vec![0.0; k]];
+            let mut below = 0usize;
+            for &(i, age, w) in drawn {
+                match classes.class_of(age) {
+                    Some(c) => {
+                        for s in [usize::from(!female[d].is_female(i)), 2] {
+                            deaths[s][c] += 1.0;
+                            weighted[s][c] += w;
+                        }
+                    }
+                    None => below += 1,
+                }
+            }
+            // A sex with no death in a draw has no table there (left out of its summary).
+            let tables = [0, 1, 2].map(|s| {
+                (deaths[s].iter().sum::<f64>() > 0.0).then(|| {
+                    (
+                        life_table(&deaths[s], classes, open_end),
+                        life_table(&weighted[s], classes, open_end),
+                    )
+                })
+            });
+            (tables, below)
+        },
+    );
     let mut own: [Vec<Vec<LifeTableRow>>; 3] = [Vec::new(), Vec::new(), Vec::new()];
     let mut population: [Vec<Vec<LifeTableRow>>; 3] = [Vec::new(), Vec::new(), Vec::new()];
     let mut below = 0usize;
-    let mut row = Vec::new();
-    for draw in female {
-        draw.unpack_into(&mut row);
-        let sexes = &row[..];
-        let mut deaths = [vec![0.0; k], vec![0.0; k], vec![0.0; k]];
-        let mut weighted = [vec![0.0; k], vec![0.0; k], vec![0.0; k]];
-        // Exp(1) by inversion: the Bayesian bootstrap's weight of each individual, drawn
-        // right after its age.
-        let drawn =
-            super::by_sex::draw_ages(ages, sexes, &mut rng, |r| -(1.0 - r.random::<f64>()).ln());
-        for (a, &f) in drawn.iter().zip(sexes) {
-            let Some((age, w)) = *a else { continue };
-            match classes.class_of(age) {
-                Some(c) => {
-                    for s in [usize::from(!f), 2] {
-                        deaths[s][c] += 1.0;
-                        weighted[s][c] += w;
-                    }
-                }
-                None => below += 1,
-            }
-        }
-        for s in 0..3 {
-            // A sex with no death in a draw has no table there (left out of its summary).
-            if deaths[s].iter().sum::<f64>() > 0.0 {
-                own[s].push(life_table(&deaths[s], classes, open_end));
-                population[s].push(life_table(&weighted[s], classes, open_end));
+    for (tables, b) in per_draw {
+        below += b;
+        for (s, t) in tables.into_iter().enumerate() {
+            if let Some((o, p)) = t {
+                own[s].push(o);
+                population[s].push(p);
             }
         }
     }

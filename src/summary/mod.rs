@@ -6,6 +6,7 @@
 //! comparison circular (a grave good or a lesion read as "male" would then "show" that males
 //! have it).
 
+pub mod age_draws;
 pub mod by_sex;
 pub mod hazard;
 pub mod life_table;

@@ -1,6 +1,8 @@
 //! Unit tests of `summary/by_sex.rs`.
 
 use super::*;
+use rand::SeedableRng;
+use rand_chacha::ChaCha8Rng;
 
 /// With every sex certain (P(F) 0 or 1) age by sex equals the plain means and counts.
 #[test]

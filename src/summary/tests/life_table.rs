@@ -1,6 +1,8 @@
 //! Unit tests of `summary/life_table.rs`.
 
 use super::*;
+use rand::SeedableRng;
+use rand_chacha::ChaCha8Rng;
 
 fn classes() -> AgeClasses {
     AgeClasses::parse(DEFAULT_LIFE_TABLE_CLASSES).unwrap()
