@@ -176,8 +176,8 @@ fn one(model: &Model, trait_id: &str, obs: Observation, age: Option<AgeAtDeath>)
     ind.age = age;
     let e = model.evaluate(&ind, &Context::new(1));
     [
-        e.blocks[0].ln_l_female.unwrap(),
-        e.blocks[0].ln_l_male.unwrap(),
+        e.blocks[0].ln_l_female().unwrap(),
+        e.blocks[0].ln_l_male().unwrap(),
     ]
 }
 

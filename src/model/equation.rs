@@ -176,8 +176,8 @@ impl EquationBlock {
                 return BlockEvidence {
                     status: BlockStatus::Used,
                     traits_used: e.inputs.clone(),
-                    ln_l_female: None,
-                    ln_l_male: None,
+                    ln_l_female: f64::NAN,
+                    ln_l_male: f64::NAN,
                     ln_lr,
                     error: 0.0,
                     note: format!("equation: {}", e.name).into(),

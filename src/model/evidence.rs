@@ -44,7 +44,7 @@ impl BlockStatus {
 }
 
 /// One block's evidence about one individual.
-#[derive(Debug, Clone, PartialEq, Serialize)]
+#[derive(Debug, Clone, Serialize)]
 pub struct BlockEvidence {
     /// Used or why not.
     pub status: BlockStatus,
@@ -52,10 +52,15 @@ pub struct BlockEvidence {
     /// observation pattern holds the one list of the pattern cache (a million individuals'
     /// own copies took about 300 MB).
     pub traits_used: Arc<[String]>,
-    /// ln P(evidence | female), where the block defines it (not for equations).
-    pub ln_l_female: Option<f64>,
-    /// ln P(evidence | male), where the block defines it.
-    pub ln_l_male: Option<f64>,
+    /// ln P(evidence | female), where the block defines it (not for equations); NaN where
+    /// not (read through [`BlockEvidence::ln_l_female`]). A plain number rather than an
+    /// `Option` keeps a block's evidence 16 bytes smaller: 80 MB over a million individuals'
+    /// five blocks.
+    #[serde(serialize_with = "nan_as_none")]
+    pub(crate) ln_l_female: f64,
+    /// ln P(evidence | male), as `ln_l_female`.
+    #[serde(serialize_with = "nan_as_none")]
+    pub(crate) ln_l_male: f64,
     /// ln LR(F:M) = ln P(evidence | female) − ln P(evidence | male); 0 when not used.
     pub ln_lr: f64,
     /// Estimated absolute numerical error of `ln_lr`.
@@ -65,14 +70,42 @@ pub struct BlockEvidence {
     pub note: Cow<'static, str>,
 }
 
+/// Equal field by field, a likelihood the block does not define (NaN) equal to another such.
+impl PartialEq for BlockEvidence {
+    fn eq(&self, other: &Self) -> bool {
+        self.status == other.status
+            && self.traits_used == other.traits_used
+            && self.ln_l_female() == other.ln_l_female()
+            && self.ln_l_male() == other.ln_l_male()
+            && self.ln_lr == other.ln_lr
+            && self.error == other.error
+            && self.note == other.note
+    }
+}
+
+/// A likelihood held as NaN where the block defines none, written as none.
+fn nan_as_none<S: serde::Serializer>(x: &f64, s: S) -> Result<S::Ok, S::Error> {
+    serde::Serialize::serialize(&(!x.is_nan()).then_some(*x), s)
+}
+
 impl BlockEvidence {
+    /// ln P(evidence | female), where the block defines it (not for equations).
+    pub fn ln_l_female(&self) -> Option<f64> {
+        (!self.ln_l_female.is_nan()).then_some(self.ln_l_female)
+    }
+
+    /// ln P(evidence | male), where the block defines it.
+    pub fn ln_l_male(&self) -> Option<f64> {
+        (!self.ln_l_male.is_nan()).then_some(self.ln_l_male)
+    }
+
     /// A block that contributes nothing (LR = 1).
     pub fn not_used(status: BlockStatus, note: impl Into<Cow<'static, str>>) -> BlockEvidence {
         BlockEvidence {
             status,
             traits_used: Arc::from([]),
-            ln_l_female: None,
-            ln_l_male: None,
+            ln_l_female: f64::NAN,
+            ln_l_male: f64::NAN,
             ln_lr: 0.0,
             error: 0.0,
             note: note.into(),
@@ -100,8 +133,8 @@ impl BlockEvidence {
         BlockEvidence {
             status: BlockStatus::Used,
             traits_used: traits_used.into(),
-            ln_l_female: Some(ln_f),
-            ln_l_male: Some(ln_m),
+            ln_l_female: ln_f,
+            ln_l_male: ln_m,
             ln_lr: ln_f - ln_m,
             error,
             note: Cow::Borrowed(""),
