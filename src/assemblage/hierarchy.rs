@@ -390,12 +390,20 @@ impl Hierarchy {
     /// posterior narrow in μ (a large assemblage) or pushed to one end of κ (a prior far from
     /// the data) is resolved as finely as a broad one.
     pub fn fit_on(data: &GroupData, prior: &Prior) -> Hierarchy {
+        // Shared π: every group's π equals μ, the single-population evidence (computed on its
+        // own adaptive grid, DESIGN §2).
+        let shared = PiPosterior::compute(&data.ln_lrs, prior).ln_evidence;
+        Hierarchy::fit_on_sharing(data, prior, shared)
+    }
+
+    /// As [`Hierarchy::fit_on`], given the evidence of the shared-π alternative (the
+    /// single-population posterior's `ln_evidence` under the same prior, already computed by
+    /// the caller).
+    pub fn fit_on_sharing(data: &GroupData, prior: &Prior, ln_evidence_shared: f64) -> Hierarchy {
         let coarse = Hierarchy::fit_grid(data, HyperGrid::new(prior));
         let fine = coarse.hyper.refined(prior, &coarse.w);
         let mut h = Hierarchy::fit_grid(data, fine);
-        // Shared π: every group's π equals μ, the single-population evidence (computed on its
-        // own adaptive grid, DESIGN §2).
-        h.ln_evidence_shared = PiPosterior::compute(&data.ln_lrs, prior).ln_evidence;
+        h.ln_evidence_shared = ln_evidence_shared;
         h
     }
 

@@ -79,47 +79,80 @@ pub fn under_prior(
     prior: &Prior,
     thresholds: &Thresholds,
 ) -> (PriorResult, PosteriorFit) {
-    under_prior_on(evidence, groups, None, prior, thresholds)
+    under_prior_on(
+        evidence,
+        &Prepared::new(evidence, groups),
+        prior,
+        thresholds,
+    )
 }
 
-/// As [`under_prior`], with the groups already prepared (`prepared`, built from the same
-/// evidence and groups) so that several priors share them.
+/// What the results under every prior share, prepared once: each individual's ln LR, the
+/// data side of the posterior of π ([`posterior::PiData`]) and, with two or more groups,
+/// the groups' likelihood grids ([`hierarchy::GroupData`]).
+#[derive(Debug)]
+pub struct Prepared {
+    /// ln LR per individual (0 without usable evidence).
+    ln_lrs: Vec<f64>,
+    /// The ln LRs of the individuals with usable evidence.
+    informative: Vec<f64>,
+    /// The posterior of π's data terms, from `informative`.
+    pi: posterior::PiData,
+    /// The groups (two or more distinct, one name per individual).
+    groups: Option<hierarchy::GroupData>,
+}
+
+impl Prepared {
+    /// Prepare the evidence and groups (`None`, or fewer than two distinct groups, for one
+    /// population; a list of another length than the evidence is not used).
+    pub fn new(evidence: &[IndividualEvidence], groups: Option<&[String]>) -> Prepared {
+        let ln_lrs: Vec<f64> = evidence
+            .iter()
+            .map(|e| if e.estimable { e.ln_lr } else { 0.0 })
+            .collect();
+        let informative: Vec<f64> = evidence
+            .iter()
+            .filter(|e| e.estimable)
+            .map(|e| e.ln_lr)
+            .collect();
+        let groups = groups
+            .filter(|g| g.len() == evidence.len() && hierarchy::group_index(g).0.len() >= 2)
+            .map(|g| hierarchy::GroupData::new(&ln_lrs, g));
+        Prepared {
+            pi: posterior::PiData::new(&informative),
+            ln_lrs,
+            informative,
+            groups,
+        }
+    }
+}
+
+/// As [`under_prior`], with the evidence and groups already prepared (`prepared`, built from
+/// the same evidence) so that several priors share them.
 ///
 /// About 120 lines: one branch per case of the model (one population, or groups under the
 /// hierarchy), each a short sequence of summaries of the same posterior.
 pub fn under_prior_on(
     evidence: &[IndividualEvidence],
-    groups: Option<&[String]>,
-    prepared: Option<&hierarchy::GroupData>,
+    prepared: &Prepared,
     prior: &Prior,
     thresholds: &Thresholds,
 ) -> (PriorResult, PosteriorFit) {
-    let ln_lrs: Vec<f64> = evidence
-        .iter()
-        .map(|e| if e.estimable { e.ln_lr } else { 0.0 })
-        .collect();
-    let informative: Vec<f64> = evidence
-        .iter()
-        .filter(|e| e.estimable)
-        .map(|e| e.ln_lr)
-        .collect();
-    let post = PiPosterior::compute(&informative, prior);
+    let informative = &prepared.informative;
+    let post = PiPosterior::compute_on(&prepared.pi, prior, true);
     let pi = post.summary();
-    // Groups (two or more distinct): names and membership, from the prepared groups if any.
-    let layout: Option<(Vec<String>, Vec<usize>)> = match (prepared, groups) {
-        (Some(d), _) => Some((d.names.clone(), d.membership.clone())),
-        (None, Some(g)) => Some(hierarchy::group_index(g)),
-        _ => None,
-    }
-    .filter(|(names, m)| names.len() >= 2 && m.len() == evidence.len());
+    // Groups (two or more distinct): names and membership.
+    let layout: Option<(&[String], &[usize])> = prepared
+        .groups
+        .as_ref()
+        .map(|d| (d.names.as_slice(), d.membership.as_slice()));
     // A fixed prior fixes the proportion of every group (the groups are not let to differ
     // around a fixed μ), so a fixed-π row of the sensitivity analysis asks the same question
     // with groups as without: what if the proportion female were exactly this, everywhere?
-    let hier = match (&layout, prior.shape) {
-        (Some(_), crate::prior::PriorShape::Beta { .. }) => Some(match prepared {
-            Some(d) => hierarchy::Hierarchy::fit_on(d, prior),
-            None => hierarchy::Hierarchy::fit(&ln_lrs, groups.unwrap_or_default(), prior),
-        }),
+    let hier = match (&prepared.groups, prior.shape) {
+        (Some(d), crate::prior::PriorShape::Beta { .. }) => Some(
+            hierarchy::Hierarchy::fit_on_sharing(d, prior, post.ln_evidence),
+        ),
         _ => None,
     };
     let p_one: Vec<Option<f64>> = evidence
@@ -195,7 +228,7 @@ pub fn under_prior_on(
         n_estimable: informative.len(),
         expected_females,
         expected_females_one_population,
-        ln_bf_one_sex: post.ln_bf_one_sex(&informative),
+        ln_bf_one_sex: post.ln_bf_one_sex(informative),
         groups: group_summaries,
         hyper,
     };
@@ -204,7 +237,7 @@ pub fn under_prior_on(
         PosteriorFit {
             posterior: post,
             hierarchy: hier,
-            ln_lrs,
+            ln_lrs: prepared.ln_lrs.clone(),
         },
     )
 }
@@ -283,22 +316,17 @@ pub fn analyse(
     set: &[Prior],
     thresholds: &Thresholds,
 ) -> PriorSetResults {
-    // The groups' likelihood grids do not depend on the prior: prepared once for all.
-    let prepared = groups.map(|g| {
-        let ln_lrs: Vec<f64> = evidence
-            .iter()
-            .map(|e| if e.estimable { e.ln_lr } else { 0.0 })
-            .collect();
-        hierarchy::GroupData::new(&ln_lrs, g)
-    });
-    let (main, fitted) = under_prior_on(evidence, groups, prepared.as_ref(), prior, thresholds);
+    // The data terms of π's posterior and the groups' likelihood grids do not depend on the
+    // prior: prepared once for all.
+    let prepared = Prepared::new(evidence, groups);
+    let (main, fitted) = under_prior_on(evidence, &prepared, prior, thresholds);
     // Priors are independent: computed in parallel, collected in the set's order, so the
     // result does not depend on the number of threads.
     let (sensitivity, posteriors): (Vec<PriorResult>, Vec<PiPosterior>) = {
         use rayon::prelude::*;
         set.par_iter()
             .map(|p| {
-                let (r, f) = under_prior_on(evidence, groups, prepared.as_ref(), p, thresholds);
+                let (r, f) = under_prior_on(evidence, &prepared, p, thresholds);
                 (r, f.posterior)
             })
             .unzip()

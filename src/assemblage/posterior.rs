@@ -98,6 +98,13 @@ pub struct PiSummary {
 pub fn locate_region(ln_f: impl Fn(f64) -> f64, cells: usize, cutoff: f64) -> (f64, f64) {
     let w0 = 1.0 / cells as f64;
     let coarse: Vec<f64> = (0..cells).map(|i| ln_f((i as f64 + 0.5) * w0)).collect();
+    region_of(&coarse, cutoff)
+}
+
+/// As [`locate_region`], from the values at the `coarse.len()` midpoints already computed.
+fn region_of(coarse: &[f64], cutoff: f64) -> (f64, f64) {
+    let cells = coarse.len();
+    let w0 = 1.0 / cells as f64;
     let max = coarse.iter().copied().fold(f64::NEG_INFINITY, f64::max);
     let first = coarse.iter().position(|&v| v > max - cutoff).unwrap_or(0);
     let last = coarse
@@ -108,6 +115,41 @@ pub fn locate_region(ln_f: impl Fn(f64) -> f64, cells: usize, cutoff: f64) -> (f
         first.saturating_sub(1) as f64 * w0,
         (last + 2).min(cells) as f64 * w0,
     )
+}
+
+/// What the posterior of π takes from the data, whatever the prior: the individuals' ln LRs,
+/// their [`MixtureSum`], and the data log-likelihood at the coarse pass's midpoints (computed
+/// on first use, once, in parallel). Built once, it serves every prior of a sensitivity set:
+/// only the prior's own terms are then computed per prior.
+#[derive(Debug)]
+pub struct PiData {
+    ln_lrs: Vec<f64>,
+    sum: MixtureSum,
+    coarse: std::sync::OnceLock<Vec<f64>>,
+}
+
+impl PiData {
+    /// From the individuals' ln LR(F:M) (individuals without evidence may be left out or
+    /// given 0: they contribute nothing).
+    pub fn new(ln_lrs: &[f64]) -> PiData {
+        PiData {
+            ln_lrs: ln_lrs.to_vec(),
+            sum: MixtureSum::new(ln_lrs),
+            coarse: std::sync::OnceLock::new(),
+        }
+    }
+
+    /// Σᵢ ln(π e^{lᵢ} + 1 − π) at the midpoints of the coarse pass's cells in t.
+    fn coarse(&self) -> &[f64] {
+        self.coarse.get_or_init(|| {
+            use rayon::prelude::*;
+            let w0 = 1.0 / COARSE_CELLS as f64;
+            (0..COARSE_CELLS)
+                .into_par_iter()
+                .map(|i| self.sum.ln_sum(pi_of((i as f64 + 0.5) * w0)))
+                .collect()
+        })
+    }
 }
 
 /// ln(π e^l + 1 − π) for one individual, stable for any l.
@@ -352,6 +394,13 @@ impl PiPosterior {
     /// As [`PiPosterior::compute`]; with `fast` false, the data log-likelihood is evaluated
     /// directly at every cell and P(female) is integrated on the grid (for checks).
     pub fn compute_with(ln_lrs: &[f64], prior: &Prior, fast: bool) -> PiPosterior {
+        PiPosterior::compute_on(&PiData::new(ln_lrs), prior, fast)
+    }
+
+    /// As [`PiPosterior::compute_with`], on data prepared once ([`PiData`]) for several
+    /// priors. The same numbers as computing from the ln LRs, bit for bit.
+    pub fn compute_on(data: &PiData, prior: &Prior, fast: bool) -> PiPosterior {
+        let ln_lrs = &data.ln_lrs;
         let (a, b) = match prior.shape {
             PriorShape::Fixed { pi } => {
                 let (lp, lq) = (pi.ln(), (1.0 - pi).ln());
@@ -370,14 +419,23 @@ impl PiPosterior {
             }
             PriorShape::Beta { a, b } => (a, b),
         };
-        let data = MixtureSum::new(ln_lrs);
         let ln_b = ln_beta(a, b);
-        let ln_density = |pi: f64| {
-            let (lp, lq) = (pi.ln(), (1.0 - pi).ln());
-            (a - 1.0) * lp + (b - 1.0) * lq - ln_b + data.ln_sum(pi)
-        };
-        let ln_weight = |t: f64| ln_density(pi_of(t)) + ln_jacobian(t);
-        let (lo, hi) = locate_region(ln_weight, COARSE_CELLS, LN_CUTOFF);
+        // The coarse pass: ln p(π) + ℓ(π) + ln dπ/dt at each midpoint, the prior's terms
+        // added to the shared data log-likelihood ℓ.
+        let w0 = 1.0 / COARSE_CELLS as f64;
+        let ln_weight: Vec<f64> = data
+            .coarse()
+            .iter()
+            .enumerate()
+            .map(|(i, &ell)| {
+                let t = (i as f64 + 0.5) * w0;
+                let pi = pi_of(t);
+                let (lp, lq) = (pi.ln(), (1.0 - pi).ln());
+                ((a - 1.0) * lp + (b - 1.0) * lq - ln_b + ell) + ln_jacobian(t)
+            })
+            .collect();
+        let (lo, hi) = region_of(&ln_weight, LN_CUTOFF);
+        let data = &data.sum;
         // Fine pass.
         let width = (hi - lo) / FINE_CELLS as f64;
         let ts: Vec<f64> = (0..FINE_CELLS)

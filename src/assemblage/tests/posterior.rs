@@ -213,3 +213,33 @@ fn mixture_sum_equals_the_term_by_term_sum() {
         );
     }
 }
+
+/// Data prepared once and shared by several priors (its coarse pass computed by the first)
+/// gives each prior the same posterior, bit for bit, as data prepared for that prior alone.
+#[test]
+fn shared_data_gives_each_prior_its_own_posterior() {
+    let l: Vec<f64> = (0..3000)
+        .map(|i| ((i * 37 % 101) as f64 - 45.0) * 0.11)
+        .collect();
+    let priors: Vec<Prior> = ["{a: 2, b: 3}", "{a: 0.5, b: 0.5}", "{a: 40, b: 8}"]
+        .iter()
+        .map(|b| {
+            Prior::from_yaml(
+                "t",
+                &format!("name: t\nprovenance: a prior for a test\nbeta: {b}\n"),
+            )
+            .unwrap()
+        })
+        .collect();
+    let shared = PiData::new(&l);
+    for p in &priors {
+        let alone = PiPosterior::compute_on(&PiData::new(&l), p, true);
+        assert_eq!(PiPosterior::compute_on(&shared, p, true), alone);
+    }
+    // The priors do pull the posterior apart (else the test would not tell).
+    let means: Vec<f64> = priors
+        .iter()
+        .map(|p| PiPosterior::compute_on(&shared, p, true).summary().mean)
+        .collect();
+    assert!((means[2] - means[0]).abs() > 1e-3, "{means:?}");
+}
