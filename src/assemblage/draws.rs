@@ -102,6 +102,10 @@ impl SexRow for Vec<bool> {
     }
 }
 
+/// Mixed into the seed of the generator whose streams draw the sexes (a constant of ours), so
+/// that they differ from the streams keyed by the seed itself elsewhere.
+const SEX_DRAW_SALT: u64 = 0x5e8d_7a11_c3b9_0f27;
+
 /// An index drawn with probability proportional to `mass`.
 pub(crate) fn pick(rng: &mut ChaCha8Rng, mass: &[f64]) -> usize {
     let u: f64 = rng.random::<f64>() * mass.iter().sum::<f64>();
@@ -125,6 +129,10 @@ impl Draws {
     /// is then drawn from their group's π). With a hierarchy, (μ, κ) are drawn from the
     /// hyper-grid, then each πg from its conditional on the group's grid; without one, π from
     /// the single posterior. Sexes are drawn given π: P(F) = π LR / (π LR + 1 − π).
+    ///
+    /// Draw d takes its random numbers from stream d of a ChaCha8 generator keyed by `seed`
+    /// (salted, so that they are not the streams the tables by sex draw ages from), so the
+    /// draws are made in parallel and are the same whatever the number of threads.
     pub fn sample(
         post: &PiPosterior,
         hier: Option<&Hierarchy>,
@@ -132,16 +140,7 @@ impl Draws {
         n: usize,
         seed: u64,
     ) -> Draws {
-        let mut rng = ChaCha8Rng::seed_from_u64(seed);
-        let mut d = Draws {
-            groups: hier
-                .map(|h| h.groups.clone())
-                .unwrap_or_else(|| vec![String::new()]),
-            mu: Vec::with_capacity(n),
-            kappa: Vec::with_capacity(n),
-            pi: Vec::with_capacity(n),
-            female: Vec::with_capacity(n),
-        };
+        use rayon::prelude::*;
         let flat_w: Vec<f64> = hier
             .map(|h| h.w.iter().flatten().copied().collect())
             .unwrap_or_default();
@@ -150,7 +149,9 @@ impl Draws {
             .iter()
             .map(|&l| (l.abs() <= 40.0).then(|| l.exp()))
             .collect();
-        for _ in 0..n {
+        let one = |draw: usize| {
+            let mut rng = ChaCha8Rng::seed_from_u64(seed ^ SEX_DRAW_SALT);
+            rng.set_stream(draw as u64);
             let (mu, kappa, pis) = match hier {
                 None => {
                     let k = pick(&mut rng, &post.mass);
@@ -166,7 +167,7 @@ impl Draws {
                     let c = pick(&mut rng, &flat_w);
                     let (i, j) = (c / nk, c % nk);
                     let (mu, kappa) = (h.hyper.mu[i], h.hyper.kappa[j]);
-                    let pis = h
+                    let pis: Vec<f64> = h
                         .grids
                         .iter()
                         .map(|g| {
@@ -182,7 +183,7 @@ impl Draws {
                     (mu, Some(kappa), pis)
                 }
             };
-            let sexes = ln_lrs
+            let sexes: SexDraw = ln_lrs
                 .iter()
                 .zip(&lr)
                 .enumerate()
@@ -199,6 +200,20 @@ impl Draws {
                     rng.random::<f64>() < p
                 })
                 .collect();
+            (mu, kappa, pis, sexes)
+        };
+        let rows: Vec<(f64, Option<f64>, Vec<f64>, SexDraw)> =
+            (0..n).into_par_iter().map(one).collect();
+        let mut d = Draws {
+            groups: hier
+                .map(|h| h.groups.clone())
+                .unwrap_or_else(|| vec![String::new()]),
+            mu: Vec::with_capacity(n),
+            kappa: Vec::with_capacity(n),
+            pi: Vec::with_capacity(n),
+            female: Vec::with_capacity(n),
+        };
+        for (mu, kappa, pis, sexes) in rows {
             d.mu.push(mu);
             d.kappa.push(kappa);
             d.pi.push(pis);
