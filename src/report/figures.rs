@@ -216,12 +216,12 @@ fn thinned(n: usize) -> (Vec<usize>, usize) {
 /// Each individual's P(female) under the chosen prior (dots) with its range across the
 /// sensitivity set (bars), sorted; dashed lines at the category thresholds.
 pub fn p_female_figure(
-    points: &[(f64, f64, f64)],
+    points: Vec<(f64, f64, f64)>,
     thresholds: [f64; 4],
 ) -> Result<String, FigureError> {
     register_font();
     let name = "p_female";
-    let mut v: Vec<(f64, f64, f64)> = points.to_vec();
+    let mut v = points;
     v.sort_by(|a, b| a.0.total_cmp(&b.0));
     let n = v.len().max(1);
     let (shown, every) = thinned(v.len());
@@ -365,18 +365,26 @@ const LR_MAX_HEIGHT: usize = 4000;
 /// (the order is that of the total LR, as individuals.csv gives it).
 pub const LR_FIGURE_MAX_LABELLED: usize = (LR_MAX_HEIGHT - LR_FRAME_HEIGHT) / LR_ROW_HEIGHT;
 
+/// One row of the LR figure: the individual's name and each block's log10 LR (`None` where
+/// the block was not used).
+pub type LrRow = (String, Vec<Option<f64>>);
+
 /// log10 LR of each body region for each individual (one marker per region, [`region_look`]):
 /// every individual named on the left when there are at most [`LR_FIGURE_MAX_LABELLED`], none
-/// otherwise.
+/// otherwise. `n_rows` individuals in the order of their total LR; `row(i)` gives the i-th's
+/// name and per-block log10 LR, asked for only of the rows drawn (a regional run's million
+/// rows are never built).
 pub fn lr_by_region_figure(
     blocks: &[String],
-    rows: &[(String, Vec<Option<f64>>)],
+    n_rows: usize,
+    row: &dyn Fn(usize) -> LrRow,
 ) -> Result<String, FigureError> {
     register_font();
     let name = "lr_by_region";
-    let n = rows.len().max(1);
-    let label_all = rows.len() <= LR_FIGURE_MAX_LABELLED;
-    let (shown, every) = thinned(rows.len());
+    let n = n_rows.max(1);
+    let label_all = n_rows <= LR_FIGURE_MAX_LABELLED;
+    let (shown, every) = thinned(n_rows);
+    let rows: Vec<LrRow> = shown.iter().map(|&i| row(i)).collect();
     let y_desc = match (label_all, every) {
         (true, _) => "individual (by total likelihood ratio)".to_string(),
         (false, 1) => {
@@ -384,8 +392,7 @@ pub fn lr_by_region_figure(
                 .to_string()
         }
         (false, k) => format!(
-            "individuals, by total likelihood ratio (every {k}th of {} drawn; see individuals.csv)",
-            rows.len()
+            "individuals, by total likelihood ratio (every {k}th of {n_rows} drawn; see individuals.csv)"
         ),
     };
     let height = (LR_FRAME_HEIGHT + LR_ROW_HEIGHT * n).clamp(300, LR_MAX_HEIGHT) as u32;
@@ -410,7 +417,6 @@ pub fn lr_by_region_figure(
             .y_label_area_size(if label_all { 90 } else { 30 })
             .build_cartesian_2d(-max..max, 0i32..(n as i32 + 1))
             .map_err(fail(name))?;
-        let labels: Vec<String> = rows.iter().map(|r| r.0.clone()).collect();
         c.configure_mesh()
             .light_line_style(TRANSPARENT)
             .bold_line_style(RGBColor(215, 215, 215))
@@ -425,7 +431,8 @@ pub fn lr_by_region_figure(
                 usize::try_from(y)
                     .ok()
                     .filter(|&i| label_all && i >= 1)
-                    .and_then(|i| labels.get(i - 1).cloned())
+                    // Every row is drawn when all are named: row i − 1 is the (i − 1)-th.
+                    .and_then(|i| rows.get(i - 1).map(|r| r.0.clone()))
                     .unwrap_or_default()
             })
             .draw()
@@ -443,7 +450,8 @@ pub fn lr_by_region_figure(
             };
             let series: Vec<DynElement<'static, SVGBackend, (f64, i32)>> = shown
                 .iter()
-                .map(|&i| (i, &rows[i]))
+                .zip(&rows)
+                .map(|(&i, r)| (i, r))
                 .filter_map(|(i, r)| {
                     r.1.get(b)
                         .copied()

@@ -415,7 +415,7 @@ pub fn figures_svg(r: &AnalysisResult) -> Result<OutputSet, RenderError> {
     let t = analysis.thresholds;
     out.push(
         "figures/p_female.svg",
-        figures::p_female_figure(&pts, [t.male, t.probable_male, t.probable_female, t.female])?,
+        figures::p_female_figure(pts, [t.male, t.probable_male, t.probable_female, t.female])?,
     );
     let mut curves = Vec::new();
     // Posteriors already computed by the analysis: the chosen prior's, then the set's.
@@ -447,28 +447,29 @@ pub fn figures_svg(r: &AnalysisResult) -> Result<OutputSet, RenderError> {
         figures::pi_posterior_figure(&curves)?,
     );
     let blocks: Vec<String> = model.blocks.iter().map(|b| b.id().to_string()).collect();
-    let mut rows: Vec<(f64, String, Vec<Option<f64>>)> = a
-        .individuals
+    // Individuals with usable evidence in the order of their total LR (ties in table order);
+    // the figure builds the rows it draws.
+    let mut order: Vec<(f64, usize)> = evidence
         .iter()
-        .zip(evidence)
+        .enumerate()
         .filter(|(_, e)| e.estimable)
-        .map(|(ind, e)| {
-            (
-                e.ln_lr,
-                ind.id.clone(),
-                e.blocks
-                    .iter()
-                    .map(|b| (b.status == BlockStatus::Used).then_some(b.ln_lr / LN_10))
-                    .collect(),
-            )
-        })
+        .map(|(i, e)| (e.ln_lr, i))
         .collect();
-    rows.sort_by(|x, y| x.0.total_cmp(&y.0));
-    let rows: Vec<(String, Vec<Option<f64>>)> =
-        rows.into_iter().map(|(_, id, v)| (id, v)).collect();
+    order.sort_by(|x, y| x.0.total_cmp(&y.0));
+    let row = |k: usize| -> figures::LrRow {
+        let i = order[k].1;
+        (
+            a.individuals[i].id.clone(),
+            evidence[i]
+                .blocks
+                .iter()
+                .map(|b| (b.status == BlockStatus::Used).then_some(b.ln_lr / LN_10))
+                .collect(),
+        )
+    };
     out.push(
         "figures/lr_by_region.svg",
-        figures::lr_by_region_figure(&blocks, &rows)?,
+        figures::lr_by_region_figure(&blocks, order.len(), &row)?,
     );
     if let Some(age) = &by_sex.age {
         out.push("figures/age_at_death.svg", figures::age_figure(age)?);
