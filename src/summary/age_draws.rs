@@ -37,8 +37,21 @@ enum Kind {
     OpenAtEnd,
 }
 
-/// One draw's ages: (individual, age, the value `extra` drew right after it), in row order.
-pub type DrawnAges = Vec<(usize, f64, f64)>;
+/// One individual's age in one draw.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct Drawn {
+    /// The individual (row index).
+    pub i: usize,
+    /// Age at death drawn, years.
+    pub age: f64,
+    /// The value `extra` drew right after the age.
+    pub extra: f64,
+    /// The individual's sex in the draw (`true`: female), read once for the draw.
+    pub female: bool,
+}
+
+/// One draw's ages, in row order.
+pub type DrawnAges = Vec<Drawn>;
 
 impl AgePlan {
     /// The plan of `ages[i]` = (from, to) years, `to` infinite for an open class, `None`
@@ -76,6 +89,23 @@ impl AgePlan {
         self.entries.len()
     }
 
+    /// For each entry, in the order of the drawn ages, the lowest and highest age a draw can
+    /// give it (`None` for an open class, whose age comes from a donor): a summary can find
+    /// once the class of an individual whose every possible age falls in one class.
+    pub fn ranges(&self) -> Vec<Option<(f64, f64)>> {
+        // The largest uniform number drawn: (2⁵³ − 1)/2⁵³ (53 random bits); the age is
+        // monotone in it, so this gives the highest age the draw can compute.
+        const LARGEST_UNIFORM: f64 = 1.0 - f64::EPSILON / 2.0;
+        self.entries
+            .iter()
+            .map(|&(_, lo, end, kind)| match kind {
+                Kind::Open(_) => None,
+                _ if end > lo => Some((lo, uniform_in(lo, end, LARGEST_UNIFORM))),
+                _ => Some((lo, lo)),
+            })
+            .collect()
+    }
+
     /// Whether no individual has an age.
     pub fn is_empty(&self) -> bool {
         self.entries.is_empty()
@@ -96,13 +126,19 @@ impl AgePlan {
         donors.open.clear();
         for (k, &(i, lo, end, kind)) in self.entries.iter().enumerate() {
             let u = if end > lo { rng.random::<f64>() } else { 0.0 };
-            let x = extra(rng);
-            if let Kind::Open(_) = kind {
+            let extra = extra(rng);
+            let age = if let Kind::Open(_) = kind {
                 donors.open.push((k, u));
-                out.push((i, f64::NAN, x));
+                f64::NAN
             } else {
-                out.push((i, lo + u * (end - lo), x));
-            }
+                uniform_in(lo, end, u)
+            };
+            out.push(Drawn {
+                i,
+                age,
+                extra,
+                female: female(i),
+            });
         }
         if donors.open.is_empty() {
             return;
@@ -113,27 +149,49 @@ impl AgePlan {
         for l in &mut donors.lists {
             l.clear();
         }
-        for (&(i, _, _, kind), &(_, age, _)) in self.entries.iter().zip(out.iter()) {
+        for (&(_, _, _, kind), d) in self.entries.iter().zip(out.iter()) {
             if kind != Kind::Closed {
                 continue;
             }
-            let sex = usize::from(female(i));
+            let sex = usize::from(d.female);
             for (s, &start) in self.starts.iter().enumerate() {
-                if age >= start {
-                    donors.lists[2 * s + sex].push(age);
+                if d.age >= start {
+                    donors.lists[2 * s + sex].push(d.age);
                 }
             }
         }
         for &(k, u) in &donors.open {
-            let (i, lo, end, kind) = self.entries[k];
+            let (_, lo, end, kind) = self.entries[k];
             let Kind::Open(s) = kind else { continue };
-            let list = &donors.lists[2 * s + usize::from(female(i))];
-            out[k].1 = if list.is_empty() {
-                lo + u * (end - lo)
+            let list = &donors.lists[2 * s + usize::from(out[k].female)];
+            out[k].age = if list.is_empty() {
+                uniform_in(lo, end, u)
             } else {
                 list[((u * list.len() as f64) as usize).min(list.len() - 1)]
             };
         }
+    }
+}
+
+/// The age at uniform number `u` ∈ [0, 1) of the interval [lo, end): lo + u (end − lo), kept
+/// below `end` (rounding would otherwise give `end` itself, an age of the next class, for
+/// the few largest u), so that an interval recorded as 35–50 stays in the class 35–50 as
+/// the classes' half-open bounds have it; a point (`end` = `lo`) is `lo`.
+fn uniform_in(lo: f64, end: f64, u: f64) -> f64 {
+    if end > lo {
+        (lo + u * (end - lo)).min(next_below(end))
+    } else {
+        lo
+    }
+}
+
+/// The largest double below a positive finite `x` (ages are not negative; `x` itself
+/// otherwise).
+fn next_below(x: f64) -> f64 {
+    if x > 0.0 && x.is_finite() {
+        f64::from_bits(x.to_bits() - 1)
+    } else {
+        x
     }
 }
 

@@ -32,6 +32,9 @@ pub fn class_bounds(classes: &super::AgeClasses) -> Vec<(String, f64, f64)> {
         .collect()
 }
 
+/// A class not known before the age is drawn.
+const UNFIXED: usize = usize::MAX;
+
 /// The index of the class holding `age` (the first class below its start, the last above).
 fn class_index(bounds: &[(String, f64, f64)], age: f64) -> usize {
     bounds
@@ -84,8 +87,8 @@ pub fn draw_ages<R: rand::Rng>(
         &mut Donors::default(),
     );
     let mut out = vec![None; ages.len()];
-    for (i, age, x) in drawn {
-        out[i] = Some((age, x));
+    for d in drawn {
+        out[d.i] = Some((d.age, d.extra));
     }
     out
 }
@@ -140,30 +143,43 @@ pub fn age_by_sex(
 ) -> AgeBySex {
     let bounds = class_bounds(classes);
     let plan = AgePlan::new(ages);
-    // Per draw: the sum and number of ages of each sex, and the deaths of each sex by class.
+    // The class of each individual whose every possible age lies in one class, found once.
+    let fixed: Vec<usize> = plan
+        .ranges()
+        .iter()
+        .map(|r| match r {
+            Some((lo, hi)) if class_index(&bounds, *lo) == class_index(&bounds, *hi) => {
+                class_index(&bounds, *lo)
+            }
+            _ => UNFIXED,
+        })
+        .collect();
+    // Per draw: the sum and number of ages of each sex, and the deaths of each sex by class
+    // (indexed by sex, female first, rather than branching on it: the sexes of a draw are
+    // random, a branch on them mispredicted half the time).
     let per_draw = over_draws(
         female.len(),
         seed ^ 0x5eed_a9e5,
         &plan,
         &|d, i| female[d].is_female(i),
         |_| 0.0,
-        |d, drawn, _| {
-            let (mut sf, mut nf, mut sm, mut nm) = (0.0, 0usize, 0.0, 0usize);
-            let mut cf = vec![0.0; bounds.len()];
-            let mut cm = vec![0.0; bounds.len()];
-            for &(i, age, _) in drawn {
-                let k = class_index(&bounds, age);
-                if female[d].is_female(i) {
-                    sf += age;
-                    nf += 1;
-                    cf[k] += 1.0;
+        |_, drawn, _| {
+            let mut sum = [0.0; 2];
+            let mut n = [0usize; 2];
+            let mut counts = [vec![0.0; bounds.len()], vec![0.0; bounds.len()]];
+            for (a, &k) in drawn.iter().zip(&fixed) {
+                let k = if k == UNFIXED {
+                    class_index(&bounds, a.age)
                 } else {
-                    sm += age;
-                    nm += 1;
-                    cm[k] += 1.0;
-                }
+                    k
+                };
+                let s = usize::from(!a.female);
+                sum[s] += a.age;
+                n[s] += 1;
+                counts[s][k] += 1.0;
             }
-            (sf, nf, sm, nm, cf, cm)
+            let [cf, cm] = counts;
+            (sum[0], n[0], sum[1], n[1], cf, cm)
         },
     );
     let (mut mf, mut mm, mut diff) = (Vec::new(), Vec::new(), Vec::new());

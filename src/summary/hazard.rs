@@ -455,7 +455,7 @@ fn grouped(ages: &[Option<RecordedAge>], sexes: &[bool], female: bool, start: f6
 /// Mortality by sex over the draws (module docs). `ages[i]` is individual i's age as recorded
 /// (`None`: none, or not in the tables by sex); `female[d][i]` its sex in draw d; the Makeham
 /// term is tried in the first `makeham_draws` draws ([`MAKEHAM_DRAWS`] in an analysis).
-pub fn hazards_by_sex<S: SexRow>(
+pub fn hazards_by_sex<S: SexRow + Sync>(
     ages: &[Option<RecordedAge>],
     female: &[S],
     start: f64,
@@ -475,29 +475,59 @@ pub fn hazards_by_sex<S: SexRow>(
     let mut lambdas_tried = [0usize; 2];
     let mut statistics = [Vec::new(), Vec::new()];
     let (distinct, of) = intervals(ages, start);
-    let mut row = Vec::new();
-    for draw in &used {
-        draw.unpack_into(&mut row);
-        let sexes = &row[..];
-        let data = [true, false].map(|f| counted(&distinct, &of, sexes, f));
-        let fits = [fit(&data[0]), fit(&data[1])];
-        let [Some(ff), Some(fm)] = fits else {
-            failed += 1;
-            continue;
-        };
-        // The Makeham term on the first `makeham_draws` draws only.
-        let makeham_draws = makeham_draws.min(used.len());
-        for (k, f) in [&ff, &fm].into_iter().enumerate() {
-            if lambdas_tried[k] >= makeham_draws {
-                continue;
-            }
-            lambdas_tried[k] += 1;
-            if let Some((lambda, lr)) = makeham(&data[k], f) {
+    // Each draw's data and Gompertz fits depend on that draw alone: made in parallel. The
+    // Makeham term is tried on the first `makeham_draws` draws whose fits succeeded (in
+    // parallel too); the draws near each fit take the one seeded stream in draw order, so the
+    // result is the same with any number of threads.
+    use rayon::prelude::*;
+    type Fitted = ([Vec<(f64, Option<f64>, f64)>; 2], Option<(Fit, Fit)>);
+    let fitted_draws: Vec<Fitted> = used
+        .par_iter()
+        .map_init(Vec::new, |row, draw| {
+            draw.unpack_into(row);
+            let data = [true, false].map(|f| counted(&distinct, &of, row, f));
+            let fits = match (fit(&data[0]), fit(&data[1])) {
+                (Some(ff), Some(fm)) => Some((ff, fm)),
+                _ => None,
+            };
+            (data, fits)
+        })
+        .collect();
+    let makeham_draws = makeham_draws.min(used.len());
+    let tried: Vec<usize> = fitted_draws
+        .iter()
+        .enumerate()
+        .filter(|(_, (_, fits))| fits.is_some())
+        .map(|(d, _)| d)
+        .take(makeham_draws)
+        .collect();
+    let makeham_fits: Vec<[Option<(f64, f64)>; 2]> = tried
+        .par_iter()
+        .map(|&d| {
+            let (data, fits) = &fitted_draws[d];
+            let (ff, fm) = fits.as_ref().map(|(f, m)| (f, m)).unzip();
+            [
+                ff.and_then(|f| makeham(&data[0], f)),
+                fm.and_then(|m| makeham(&data[1], m)),
+            ]
+        })
+        .collect();
+    for [female_term, male_term] in makeham_fits {
+        lambdas_tried[0] += 1;
+        lambdas_tried[1] += 1;
+        for (k, term) in [female_term, male_term].into_iter().enumerate() {
+            if let Some((lambda, lr)) = term {
                 lambdas[k].push(lambda);
                 statistics[k].push(lr);
             }
         }
-        let (gf, gm) = (draw_near(&ff, &mut rng), draw_near(&fm, &mut rng));
+    }
+    for (_, fits) in &fitted_draws {
+        let Some((ff, fm)) = fits else {
+            failed += 1;
+            continue;
+        };
+        let (gf, gm) = (draw_near(ff, &mut rng), draw_near(fm, &mut rng));
         params[0].push(gf.ln_alpha.exp());
         params[1].push(gf.beta);
         params[2].push(gm.ln_alpha.exp());

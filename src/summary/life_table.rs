@@ -307,6 +307,17 @@ pub fn life_tables(
         .filter(|hi| hi.is_finite())
         .fold(OPEN_CLASS_END, f64::max);
     let plan = AgePlan::new(ages);
+    // The class of each individual whose every possible age gives one answer (a class, or
+    // below the first), found once; `None` where the drawn age decides.
+    let fixed: Vec<Option<Option<usize>>> = plan
+        .ranges()
+        .iter()
+        .map(|r| {
+            let (lo, hi) = (*r)?;
+            let c = classes.class_of(lo);
+            (c == classes.class_of(hi)).then_some(c)
+        })
+        .collect();
     // Per draw and sex (female, male, all): the table of these dead and of the population,
     // and the deaths below the first class.
     type Tables = [Option<(Vec<LifeTableRow>, Vec<LifeTableRow>)>; 3];
@@ -318,16 +329,16 @@ pub fn life_tables(
         // Exp(1) by inversion: the Bayesian bootstrap's weight of each individual, drawn
         // right after its age.
         |r| -(1.0 - r.random::<f64>()).ln(),
-        |d, drawn, _| {
+        |_, drawn, _| {
             let mut deaths = [vec![0.0; k], vec![0.0; k], vec![0.0; k]];
             let mut weighted = [vec![0.0; k], vec![0.0; k], vec![0.0; k]];
             let mut below = 0usize;
-            for &(i, age, w) in drawn {
-                match classes.class_of(age) {
+            for (a, known) in drawn.iter().zip(&fixed) {
+                match known.unwrap_or_else(|| classes.class_of(a.age)) {
                     Some(c) => {
-                        for s in [usize::from(!female[d].is_female(i)), 2] {
+                        for s in [usize::from(!a.female), 2] {
                             deaths[s][c] += 1.0;
-                            weighted[s][c] += w;
+                            weighted[s][c] += a.extra;
                         }
                     }
                     None => below += 1,

@@ -91,3 +91,44 @@ fn open_classes_take_known_older_ages_of_the_same_sex() {
     assert!((100..170).contains(&from_donors[0]), "{from_donors:?}");
     assert_eq!(from_donors[1], 400);
 }
+
+/// The ranges a plan gives hold every age its draws give, reach the top of a closed interval
+/// to within rounding without passing it, and leave open classes to their donors; an age
+/// interval inside one class keeps its class whatever the draw.
+#[test]
+fn the_plan_bounds_every_drawn_age() {
+    use super::super::age_draws::{AgePlan, Donors};
+    let ages = [
+        Some((35.0, 50.0)),
+        Some((40.0, 40.0)),
+        Some((50.0, f64::INFINITY)),
+        None,
+        Some((18.0, 25.0)),
+    ];
+    let plan = AgePlan::new(&ages);
+    let ranges = plan.ranges();
+    assert_eq!(ranges.len(), 4);
+    let (lo, hi) = ranges[0].unwrap();
+    assert!(lo == 35.0 && hi < 50.0 && hi > 50.0 - 1e-13, "{hi}");
+    assert_eq!(ranges[1], Some((40.0, 40.0)));
+    assert_eq!(ranges[2], None);
+    let classes = super::super::AgeClasses::parse(DEFAULT_AGE_CLASSES).unwrap();
+    let bounds = class_bounds(&classes);
+    assert_eq!(class_index(&bounds, lo), class_index(&bounds, hi));
+    let mut rng = ChaCha8Rng::seed_from_u64(5);
+    let (mut out, mut donors) = (Vec::new(), Donors::default());
+    for _ in 0..2000 {
+        plan.draw(
+            &|i| i % 2 == 0,
+            &mut rng,
+            &mut |_| 0.0,
+            &mut out,
+            &mut donors,
+        );
+        for (d, r) in out.iter().zip(&ranges) {
+            if let Some((lo, hi)) = r {
+                assert!(d.age >= *lo && d.age <= *hi, "{} outside {lo}..{hi}", d.age);
+            }
+        }
+    }
+}
