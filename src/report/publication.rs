@@ -491,10 +491,12 @@ pub fn figures_svg(r: &AnalysisResult) -> Result<OutputSet, RenderError> {
             figures::sex_ratio_figure(&by_sex.sex_ratio)?,
         );
     }
-    // A PNG beside every SVG, for word processors and journals that take raster images.
+    // A PNG beside every SVG, for word processors and journals that take raster images
+    // (drawn in parallel, collected in the figures' order).
+    use rayon::prelude::*;
     let pngs: Vec<(String, Vec<u8>)> = out
         .files
-        .iter()
+        .par_iter()
         .filter_map(|f| {
             let stem = f.name.strip_suffix(".svg")?;
             Some(figures::png_of(&f.name, &f.bytes).map(|png| (format!("{stem}.png"), png)))
