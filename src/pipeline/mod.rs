@@ -36,8 +36,8 @@ use crate::progress::Progress;
 use crate::results::{AnalysisResult, BySex, LeftOut, RunInfo};
 use crate::summary::by_sex::{age_interval, OutcomeColumn, OutcomeValues};
 use crate::summary::{
-    age_by_sex, numeric_by_sex, outcome_column, prevalence_by_sex, ChainLength, PrevalenceBySex,
-    SexEvidence, SexRatioPrior,
+    age_and_life_tables, numeric_by_sex, outcome_column, prevalence_by_sex, ChainLength,
+    PrevalenceBySex, SexEvidence, SexRatioPrior,
 };
 use crate::Error;
 use std::path::Path;
@@ -320,8 +320,21 @@ impl ValidatedOptions {
             &self.prior,
             self.options.reference_ratio,
         );
+        // Age by sex and the life tables from the same draws of ages.
+        let (age, life_tables) = if with_ages {
+            let (a, l) = age_and_life_tables(
+                &table_ages,
+                &draws.female,
+                &self.age_classes,
+                &self.life_table_classes,
+                seed,
+            );
+            (Some(a), Some(l))
+        } else {
+            (None, None)
+        };
         BySex {
-            age: with_ages.then(|| age_by_sex(&table_ages, &draws.female, &self.age_classes, seed)),
+            age,
             hazards: with_ages.then(|| {
                 let recorded: Vec<Option<crate::summary::hazard::RecordedAge>> = a
                     .individuals
@@ -341,14 +354,7 @@ impl ValidatedOptions {
                     seed,
                 )
             }),
-            life_tables: with_ages.then(|| {
-                crate::summary::life_tables(
-                    &table_ages,
-                    &draws.female,
-                    &self.life_table_classes,
-                    seed,
-                )
-            }),
+            life_tables,
             sex_ratio,
             prevalence,
             numeric,

@@ -1,7 +1,7 @@
 //! Age at death by sex over joint draws of everyone's sex, and the condition columns read
 //! for prevalence by sex (see `prevalence`).
 
-use super::age_draws::{over_draws, AgePlan, Donors};
+use super::age_draws::{over_draws, AgePlan, Donors, DrawnAges};
 use crate::assemblage::draws::SexRow;
 use crate::assemblage::Category;
 use crate::data::{AgeAtDeath, Assemblage, InputError, Problem, ProblemKind};
@@ -141,85 +141,143 @@ pub fn age_by_sex(
     classes: &super::AgeClasses,
     seed: u64,
 ) -> AgeBySex {
-    let bounds = class_bounds(classes);
     let plan = AgePlan::new(ages);
-    // The class of each individual whose every possible age lies in one class, found once.
-    let fixed: Vec<usize> = plan
-        .ranges()
-        .iter()
-        .map(|r| match r {
-            Some((lo, hi)) if class_index(&bounds, *lo) == class_index(&bounds, *hi) => {
-                class_index(&bounds, *lo)
-            }
-            _ => UNFIXED,
-        })
-        .collect();
-    // Per draw: the sum and number of ages of each sex, and the deaths of each sex by class
-    // (indexed by sex, female first, rather than branching on it: the sexes of a draw are
-    // random, a branch on them mispredicted half the time).
+    let tally = AgeTally::new(ages, classes, &plan);
     let per_draw = over_draws(
         female.len(),
         seed ^ 0x5eed_a9e5,
         &plan,
         &|d, i| female[d].is_female(i),
         |_| 0.0,
-        |_, drawn, _| {
-            let mut sum = [0.0; 2];
-            let mut n = [0usize; 2];
-            let mut counts = [vec![0.0; bounds.len()], vec![0.0; bounds.len()]];
-            for (a, &k) in drawn.iter().zip(&fixed) {
-                let k = if k == UNFIXED {
-                    class_index(&bounds, a.age)
-                } else {
-                    k
-                };
-                let s = usize::from(!a.female);
-                sum[s] += a.age;
-                n[s] += 1;
-                counts[s][k] += 1.0;
-            }
-            let [cf, cm] = counts;
-            (sum[0], n[0], sum[1], n[1], cf, cm)
-        },
+        |_, drawn, _| tally.part(drawn),
     );
-    let (mut mf, mut mm, mut diff) = (Vec::new(), Vec::new(), Vec::new());
-    let mut younger = 0usize;
-    let mut counted = 0usize;
-    let mut class_counts: Vec<(Vec<f64>, Vec<f64>)> =
-        bounds.iter().map(|_| (Vec::new(), Vec::new())).collect();
-    for (sf, nf, sm, nm, cf, cm) in per_draw {
-        for (k, (a, b)) in class_counts.iter_mut().enumerate() {
-            a.push(cf[k]);
-            b.push(cm[k]);
-        }
-        if nf > 0 && nm > 0 {
-            let (x, y) = (sf / nf as f64, sm / nm as f64);
-            mf.push(x);
-            mm.push(y);
-            diff.push(x - y);
-            counted += 1;
-            younger += usize::from(x < y);
+    tally.finish(per_draw)
+}
+
+/// Age at death by sex and the life tables from the same draws of ages (the life tables'
+/// stream and bootstrap weights): the two tables then describe the same imputed ages, and
+/// the ages are drawn once instead of twice. As [`age_by_sex`] and
+/// [`super::life_tables`] otherwise.
+pub fn age_and_life_tables(
+    ages: &[Option<(f64, f64)>],
+    female: &[impl SexRow + Sync],
+    age_classes: &super::AgeClasses,
+    life_classes: &super::AgeClasses,
+    seed: u64,
+) -> (AgeBySex, super::LifeTables) {
+    use super::life_table::{bootstrap_weight, LifeTally, LIFE_TABLE_SALT};
+    let plan = AgePlan::new(ages);
+    let age = AgeTally::new(ages, age_classes, &plan);
+    let life = LifeTally::new(ages, life_classes, &plan);
+    let per_draw = over_draws(
+        female.len(),
+        seed ^ LIFE_TABLE_SALT,
+        &plan,
+        &|d, i| female[d].is_female(i),
+        bootstrap_weight,
+        |_, drawn, _| (age.part(drawn), life.part(drawn)),
+    );
+    let (age_parts, life_parts): (Vec<_>, Vec<_>) = per_draw.into_iter().unzip();
+    (age.finish(age_parts), life.finish(life_parts))
+}
+
+/// One draw's ages by sex: the sum and number of ages of females, then of males, and the
+/// deaths of each sex by class.
+type AgeDraw = (f64, usize, f64, usize, Vec<f64>, Vec<f64>);
+
+/// Age by sex's work on the draws: prepared once, a part per draw, the parts summarised.
+struct AgeTally {
+    bounds: Vec<(String, f64, f64)>,
+    n_with_age: usize,
+    /// Per plan entry: its class where every possible age lies in one class, else
+    /// [`UNFIXED`].
+    fixed: Vec<usize>,
+}
+
+impl AgeTally {
+    fn new(ages: &[Option<(f64, f64)>], classes: &super::AgeClasses, plan: &AgePlan) -> AgeTally {
+        let bounds = class_bounds(classes);
+        let fixed = plan
+            .ranges()
+            .iter()
+            .map(|r| match r {
+                Some((lo, hi)) if class_index(&bounds, *lo) == class_index(&bounds, *hi) => {
+                    class_index(&bounds, *lo)
+                }
+                _ => UNFIXED,
+            })
+            .collect();
+        AgeTally {
+            bounds,
+            n_with_age: ages.iter().filter(|a| a.is_some()).count(),
+            fixed,
         }
     }
-    AgeBySex {
-        n_with_age: ages.iter().filter(|a| a.is_some()).count(),
-        mean_female: spread(&mf),
-        mean_male: spread(&mm),
-        difference: spread(&diff),
-        p_females_die_younger: if counted > 0 {
-            younger as f64 / counted as f64
-        } else {
-            f64::NAN
-        },
-        classes: bounds
-            .iter()
-            .zip(&class_counts)
-            .map(|((label, _, _), (a, b))| AgeClassRow {
-                class: label.to_string(),
-                female: spread(a),
-                male: spread(b),
-            })
-            .collect(),
+
+    /// One draw's sums and counts (indexed by sex, female first, rather than branching on
+    /// it: the sexes of a draw are random, a branch on them mispredicted half the time).
+    fn part(&self, drawn: &DrawnAges) -> AgeDraw {
+        let bounds = &self.bounds;
+        let mut sum = [0.0; 2];
+        let mut n = [0usize; 2];
+        let mut counts = [vec![0.0; bounds.len()], vec![0.0; bounds.len()]];
+        for (a, &k) in drawn.iter().zip(&self.fixed) {
+            let k = if k == UNFIXED {
+                class_index(bounds, a.age)
+            } else {
+                k
+            };
+            let s = usize::from(!a.female);
+            sum[s] += a.age;
+            n[s] += 1;
+            counts[s][k] += 1.0;
+        }
+        let [cf, cm] = counts;
+        (sum[0], n[0], sum[1], n[1], cf, cm)
+    }
+
+    /// The table summarised over the draws' parts (in draw order).
+    fn finish(&self, per_draw: Vec<AgeDraw>) -> AgeBySex {
+        let bounds = &self.bounds;
+        let (mut mf, mut mm, mut diff) = (Vec::new(), Vec::new(), Vec::new());
+        let mut younger = 0usize;
+        let mut counted = 0usize;
+        let mut class_counts: Vec<(Vec<f64>, Vec<f64>)> =
+            bounds.iter().map(|_| (Vec::new(), Vec::new())).collect();
+        for (sf, nf, sm, nm, cf, cm) in per_draw {
+            for (k, (a, b)) in class_counts.iter_mut().enumerate() {
+                a.push(cf[k]);
+                b.push(cm[k]);
+            }
+            if nf > 0 && nm > 0 {
+                let (x, y) = (sf / nf as f64, sm / nm as f64);
+                mf.push(x);
+                mm.push(y);
+                diff.push(x - y);
+                counted += 1;
+                younger += usize::from(x < y);
+            }
+        }
+        AgeBySex {
+            n_with_age: self.n_with_age,
+            mean_female: spread(&mf),
+            mean_male: spread(&mm),
+            difference: spread(&diff),
+            p_females_die_younger: if counted > 0 {
+                younger as f64 / counted as f64
+            } else {
+                f64::NAN
+            },
+            classes: bounds
+                .iter()
+                .zip(&class_counts)
+                .map(|((label, _, _), (a, b))| AgeClassRow {
+                    class: label.to_string(),
+                    female: spread(a),
+                    male: spread(b),
+                })
+                .collect(),
+        }
     }
 }
 

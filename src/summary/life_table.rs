@@ -34,7 +34,7 @@
 //! the first class equals the mean age at death minus the class's start, Σ dₓ (midₓ − x₀) / 100
 //! (tests beside).
 
-use super::age_draws::{over_draws, AgePlan};
+use super::age_draws::{over_draws, AgePlan, DrawnAges};
 use super::by_sex::{spread, OPEN_CLASS_END};
 use crate::assemblage::draws::SexRow;
 use rand::RngExt;
@@ -299,117 +299,160 @@ pub fn life_tables(
     classes: &AgeClasses,
     seed: u64,
 ) -> LifeTables {
-    let k = classes.0.len();
-    let open_end = ages
-        .iter()
-        .flatten()
-        .map(|&(_, hi)| hi)
-        .filter(|hi| hi.is_finite())
-        .fold(OPEN_CLASS_END, f64::max);
     let plan = AgePlan::new(ages);
-    // The class of each individual whose every possible age gives one answer (a class, or
-    // below the first), found once; `None` where the drawn age decides.
-    let fixed: Vec<Option<Option<usize>>> = plan
-        .ranges()
-        .iter()
-        .map(|r| {
-            let (lo, hi) = (*r)?;
-            let c = classes.class_of(lo);
-            (c == classes.class_of(hi)).then_some(c)
-        })
-        .collect();
-    // Per draw and sex (female, male, all): the table of these dead and of the population,
-    // and the deaths below the first class.
-    type Tables = [Option<(Vec<LifeTableRow>, Vec<LifeTableRow>)>; 3];
-    let per_draw: Vec<(Tables, usize)> = over_draws(
+    let tally = LifeTally::new(ages, classes, &plan);
+    let per_draw = over_draws(
         female.len(),
-        seed ^ 0x11fe_7ab1,
+        seed ^ LIFE_TABLE_SALT,
         &plan,
         &|d, i| female[d].is_female(i),
-        // Exp(1) by inversion: the Bayesian bootstrap's weight of each individual, drawn
-        // right after its age.
-        |r| -(1.0 - r.random::<f64>()).ln(),
-        |_, drawn, _| {
-            let mut deaths = [vec![0.0; k], vec![0.0; k], vec![0.0; k]];
-            let mut weighted = [vec![0.0; k], vec![0.0; k], vec![0.0; k]];
-            let mut below = 0usize;
-            for (a, known) in drawn.iter().zip(&fixed) {
-                match known.unwrap_or_else(|| classes.class_of(a.age)) {
-                    Some(c) => {
-                        for s in [usize::from(!a.female), 2] {
-                            deaths[s][c] += 1.0;
-                            weighted[s][c] += a.extra;
-                        }
-                    }
-                    None => below += 1,
-                }
-            }
-            // A sex with no death in a draw has no table there (left out of its summary).
-            let tables = [0, 1, 2].map(|s| {
-                (deaths[s].iter().sum::<f64>() > 0.0).then(|| {
-                    (
-                        life_table(&deaths[s], classes, open_end),
-                        life_table(&weighted[s], classes, open_end),
-                    )
-                })
-            });
-            (tables, below)
-        },
+        bootstrap_weight,
+        |_, drawn, _| tally.part(drawn),
     );
-    let mut own: [Vec<Vec<LifeTableRow>>; 3] = [Vec::new(), Vec::new(), Vec::new()];
-    let mut population: [Vec<Vec<LifeTableRow>>; 3] = [Vec::new(), Vec::new(), Vec::new()];
-    let mut below = 0usize;
-    for (tables, b) in per_draw {
-        below += b;
-        for (s, t) in tables.into_iter().enumerate() {
-            if let Some((o, p)) = t {
-                own[s].push(o);
-                population[s].push(p);
-            }
+    tally.finish(per_draw)
+}
+
+/// Mixed into the seed of the life tables' draws (a constant of ours).
+pub(crate) const LIFE_TABLE_SALT: u64 = 0x11fe_7ab1;
+
+/// Exp(1) by inversion: the Bayesian bootstrap's weight of each individual, drawn right
+/// after its age.
+pub(crate) fn bootstrap_weight(r: &mut rand_chacha::ChaCha8Rng) -> f64 {
+    -(1.0 - r.random::<f64>()).ln()
+}
+
+/// One draw's life tables: per sex (female, male, all) the table of these dead and of the
+/// population (`None` for a sex with no death in the draw), and the deaths below the first
+/// class.
+pub(crate) type LifeDraw = ([Option<(Vec<LifeTableRow>, Vec<LifeTableRow>)>; 3], usize);
+
+/// The life tables' work on the draws: prepared once, a part per draw, the parts summarised.
+pub(crate) struct LifeTally<'a> {
+    classes: &'a AgeClasses,
+    open_end: f64,
+    n_with_age: usize,
+    /// Per plan entry: its class (or `None`, below the first) where every possible age
+    /// gives the same answer; `None` where the drawn age decides.
+    fixed: Vec<Option<Option<usize>>>,
+}
+
+impl<'a> LifeTally<'a> {
+    pub(crate) fn new(
+        ages: &[Option<(f64, f64)>],
+        classes: &'a AgeClasses,
+        plan: &AgePlan,
+    ) -> LifeTally<'a> {
+        let open_end = ages
+            .iter()
+            .flatten()
+            .map(|&(_, hi)| hi)
+            .filter(|hi| hi.is_finite())
+            .fold(OPEN_CLASS_END, f64::max);
+        let fixed = plan
+            .ranges()
+            .iter()
+            .map(|r| {
+                let (lo, hi) = (*r)?;
+                let c = classes.class_of(lo);
+                (c == classes.class_of(hi)).then_some(c)
+            })
+            .collect();
+        LifeTally {
+            classes,
+            open_end,
+            n_with_age: ages.iter().filter(|a| a.is_some()).count(),
+            fixed,
         }
     }
-    let summarise = |s: usize| -> Vec<LifeTableClass> {
-        (0..k)
-            .map(|c| {
-                let values = |tables: &[Vec<LifeTableRow>], q: fn(&LifeTableRow) -> f64| {
-                    tables.iter().map(|t| q(&t[c])).collect::<Vec<_>>()
-                };
-                let of = |q: fn(&LifeTableRow) -> f64| {
-                    let (estimate, lo, hi) = spread(&values(&own[s], q));
-                    let (_, population_lo, population_hi) = spread(&values(&population[s], q));
-                    Quantity {
-                        estimate,
-                        lo,
-                        hi,
-                        population_lo,
-                        population_hi,
+
+    /// One draw's tables (its ages drawn with [`bootstrap_weight`] as the extra value).
+    pub(crate) fn part(&self, drawn: &DrawnAges) -> LifeDraw {
+        let (classes, k) = (self.classes, self.classes.0.len());
+        let mut deaths = [vec![0.0; k], vec![0.0; k], vec![0.0; k]];
+        let mut weighted = [vec![0.0; k], vec![0.0; k], vec![0.0; k]];
+        let mut below = 0usize;
+        for (a, known) in drawn.iter().zip(&self.fixed) {
+            match known.unwrap_or_else(|| classes.class_of(a.age)) {
+                Some(c) => {
+                    for s in [usize::from(!a.female), 2] {
+                        deaths[s][c] += 1.0;
+                        weighted[s][c] += a.extra;
                     }
-                };
-                LifeTableClass {
-                    class: classes.0[c].clone(),
-                    deaths: spread(&values(&own[s], |r| r.deaths)),
-                    dx: of(|r| r.dx),
-                    lx: of(|r| r.lx),
-                    qx: of(|r| r.qx),
-                    big_lx: of(|r| r.big_lx),
-                    tx: of(|r| r.tx),
-                    ex: of(|r| r.ex),
                 }
+                None => below += 1,
+            }
+        }
+        // A sex with no death in a draw has no table there (left out of its summary).
+        let tables = [0, 1, 2].map(|s| {
+            (deaths[s].iter().sum::<f64>() > 0.0).then(|| {
+                (
+                    life_table(&deaths[s], classes, self.open_end),
+                    life_table(&weighted[s], classes, self.open_end),
+                )
             })
-            .collect()
-    };
-    LifeTables {
-        classes: classes.clone(),
-        open_end,
-        n_with_age: ages.iter().filter(|a| a.is_some()).count(),
-        below_first_class: if female.is_empty() {
-            0.0
-        } else {
-            below as f64 / female.len() as f64
-        },
-        female: summarise(0),
-        male: summarise(1),
-        all: summarise(2),
+        });
+        (tables, below)
+    }
+
+    /// The tables summarised over the draws' parts (in draw order).
+    pub(crate) fn finish(&self, per_draw: Vec<LifeDraw>) -> LifeTables {
+        let (classes, k) = (self.classes, self.classes.0.len());
+        let n_draws = per_draw.len();
+        let mut own: [Vec<Vec<LifeTableRow>>; 3] = [Vec::new(), Vec::new(), Vec::new()];
+        let mut population: [Vec<Vec<LifeTableRow>>; 3] = [Vec::new(), Vec::new(), Vec::new()];
+        let mut below = 0usize;
+        for (tables, b) in per_draw {
+            below += b;
+            for (s, t) in tables.into_iter().enumerate() {
+                if let Some((o, p)) = t {
+                    own[s].push(o);
+                    population[s].push(p);
+                }
+            }
+        }
+        let summarise = |s: usize| -> Vec<LifeTableClass> {
+            (0..k)
+                .map(|c| {
+                    let values = |tables: &[Vec<LifeTableRow>], q: fn(&LifeTableRow) -> f64| {
+                        tables.iter().map(|t| q(&t[c])).collect::<Vec<_>>()
+                    };
+                    let of = |q: fn(&LifeTableRow) -> f64| {
+                        let (estimate, lo, hi) = spread(&values(&own[s], q));
+                        let (_, population_lo, population_hi) = spread(&values(&population[s], q));
+                        Quantity {
+                            estimate,
+                            lo,
+                            hi,
+                            population_lo,
+                            population_hi,
+                        }
+                    };
+                    LifeTableClass {
+                        class: classes.0[c].clone(),
+                        deaths: spread(&values(&own[s], |r| r.deaths)),
+                        dx: of(|r| r.dx),
+                        lx: of(|r| r.lx),
+                        qx: of(|r| r.qx),
+                        big_lx: of(|r| r.big_lx),
+                        tx: of(|r| r.tx),
+                        ex: of(|r| r.ex),
+                    }
+                })
+                .collect()
+        };
+        LifeTables {
+            classes: classes.clone(),
+            open_end: self.open_end,
+            n_with_age: self.n_with_age,
+            below_first_class: if n_draws == 0 {
+                0.0
+            } else {
+                below as f64 / n_draws as f64
+            },
+            female: summarise(0),
+            male: summarise(1),
+            all: summarise(2),
+        }
     }
 }
 

@@ -15,8 +15,8 @@ pub mod prevalence;
 pub mod sex_ratio;
 
 pub use by_sex::{
-    age_by_sex, category_by_age, outcome_column, AgeBySex, AgeClassRow, OutcomeColumn,
-    OutcomeValues, DEFAULT_AGE_CLASSES, OPEN_CLASS_END,
+    age_and_life_tables, age_by_sex, category_by_age, outcome_column, AgeBySex, AgeClassRow,
+    OutcomeColumn, OutcomeValues, DEFAULT_AGE_CLASSES, OPEN_CLASS_END,
 };
 pub use hazard::{hazards_by_sex, HazardsBySex, DEFAULT_HAZARD_AGES};
 pub use life_table::{life_tables, AgeClasses, LifeTables, DEFAULT_LIFE_TABLE_CLASSES};
