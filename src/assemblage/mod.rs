@@ -94,9 +94,8 @@ pub fn under_prior(
 pub struct Prepared {
     /// ln LR per individual (0 without usable evidence).
     ln_lrs: Vec<f64>,
-    /// The ln LRs of the individuals with usable evidence.
-    informative: Vec<f64>,
-    /// The posterior of π's data terms, from `informative`.
+    /// The posterior of π's data terms, from the ln LRs of the individuals with usable
+    /// evidence.
     pi: posterior::PiData,
     /// The groups (two or more distinct, one name per individual).
     groups: Option<hierarchy::GroupData>,
@@ -121,7 +120,6 @@ impl Prepared {
         Prepared {
             pi: posterior::PiData::new(&informative),
             ln_lrs,
-            informative,
             groups,
         }
     }
@@ -138,7 +136,7 @@ pub fn under_prior_on(
     prior: &Prior,
     thresholds: &Thresholds,
 ) -> (PriorResult, PosteriorFit) {
-    let informative = &prepared.informative;
+    let informative = prepared.pi.ln_lrs();
     let post = PiPosterior::compute_on(&prepared.pi, prior, true);
     let pi = post.summary();
     // Groups (two or more distinct): names and membership.

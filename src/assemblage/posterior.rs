@@ -139,6 +139,11 @@ impl PiData {
         }
     }
 
+    /// The ln LRs it was made from.
+    pub fn ln_lrs(&self) -> &[f64] {
+        &self.ln_lrs
+    }
+
     /// Σᵢ ln(π e^{lᵢ} + 1 − π) at the midpoints of the coarse pass's cells in t.
     fn coarse(&self) -> &[f64] {
         self.coarse.get_or_init(|| {

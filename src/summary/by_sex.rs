@@ -93,6 +93,15 @@ pub fn draw_ages<R: rand::Rng>(
     out
 }
 
+/// The share `k / n` of the draws where something held; NaN when no draw counted.
+pub(super) fn share(k: usize, n: usize) -> f64 {
+    if n > 0 {
+        k as f64 / n as f64
+    } else {
+        f64::NAN
+    }
+}
+
 /// Mean, 2.5% and 97.5% quantiles of a sample (its finite values).
 pub(super) fn spread(v: &[f64]) -> (f64, f64, f64) {
     let mut s: Vec<f64> = v.iter().copied().filter(|x| x.is_finite()).collect();
@@ -263,11 +272,7 @@ impl AgeTally {
             mean_female: spread(&mf),
             mean_male: spread(&mm),
             difference: spread(&diff),
-            p_females_die_younger: if counted > 0 {
-                younger as f64 / counted as f64
-            } else {
-                f64::NAN
-            },
+            p_females_die_younger: share(younger, counted),
             classes: bounds
                 .iter()
                 .zip(&class_counts)

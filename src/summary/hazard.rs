@@ -472,7 +472,6 @@ pub fn hazards_by_sex<S: SexRow + Sync>(
     let (mut ratio, mut higher, mut failed) = (Vec::new(), 0usize, 0usize);
     let mut curves = vec![(Vec::new(), Vec::new()); ages_to + 1];
     let mut lambdas = [Vec::new(), Vec::new()];
-    let mut lambdas_tried = [0usize; 2];
     let mut statistics = [Vec::new(), Vec::new()];
     let (distinct, of) = intervals(ages, start);
     // Each draw's data and Gompertz fits depend on that draw alone: made in parallel. The
@@ -503,18 +502,13 @@ pub fn hazards_by_sex<S: SexRow + Sync>(
         .collect();
     let makeham_fits: Vec<[Option<(f64, f64)>; 2]> = tried
         .par_iter()
-        .map(|&d| {
-            let (data, fits) = &fitted_draws[d];
-            let (ff, fm) = fits.as_ref().map(|(f, m)| (f, m)).unzip();
-            [
-                ff.and_then(|f| makeham(&data[0], f)),
-                fm.and_then(|m| makeham(&data[1], m)),
-            ]
+        .map(|&d| match &fitted_draws[d] {
+            (data, Some((ff, fm))) => [makeham(&data[0], ff), makeham(&data[1], fm)],
+            (_, None) => [None, None],
         })
         .collect();
+    let lambdas_tried = [tried.len(); 2];
     for [female_term, male_term] in makeham_fits {
-        lambdas_tried[0] += 1;
-        lambdas_tried[1] += 1;
         for (k, term) in [female_term, male_term].into_iter().enumerate() {
             if let Some((lambda, lr)) = term {
                 lambdas[k].push(lambda);
@@ -553,11 +547,7 @@ pub fn hazards_by_sex<S: SexRow + Sync>(
         alpha_male: median_interval(&params[2]),
         beta_male: median_interval(&params[3]),
         hazard_ratio: median_interval(&ratio),
-        p_female_higher: if fitted > 0 {
-            higher as f64 / fitted as f64
-        } else {
-            f64::NAN
-        },
+        p_female_higher: super::by_sex::share(higher, fitted),
         curve: curves
             .iter()
             .enumerate()
