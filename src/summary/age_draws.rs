@@ -16,173 +16,166 @@ use rand::{Rng, RngExt, SeedableRng};
 use rand_chacha::ChaCha8Rng;
 use rayon::prelude::*;
 
-/// The individuals with an age, in row order, prepared for drawing.
+/// The individuals with an age, in row order, prepared for drawing: one entry each, kept as
+/// columns so that a draw runs through them without a branch per entry.
 #[derive(Debug, Clone)]
 pub struct AgePlan {
-    /// (individual, start, end of the uniform draw, kind).
-    entries: Vec<(usize, f64, f64, Kind)>,
+    /// Each entry's individual (row index).
+    individual: Vec<usize>,
+    /// Start of the uniform draw, years.
+    lo: Vec<f64>,
+    /// Its width (0 for a point).
+    width: Vec<f64>,
+    /// The highest age the draw may give: just below the end of a closed interval, the
+    /// point itself for a point. lo + u (end − lo) is kept below `end` because rounding
+    /// would otherwise give `end` itself, an age of the next class, for the few largest u:
+    /// an interval recorded as 35–50 stays in the class 35–50 as the classes' half-open
+    /// bounds have it.
+    top: Vec<f64>,
+    /// Whether the entry may give its age to an open class: a point or a closed interval.
+    donor: Vec<bool>,
+    /// The open classes: (entry, index of its start in `starts`).
+    open: Vec<(usize, usize)>,
     /// The distinct starts of the open classes.
     starts: Vec<f64>,
 }
 
-/// How an entry's age is drawn.
-#[derive(Debug, Clone, Copy, PartialEq, Eq)]
-enum Kind {
-    /// A point or closed interval: uniform within it, and a donor for open classes.
-    Closed,
-    /// An open class (the index of its start in [`AgePlan::starts`]): from a donor of the
-    /// same sex at or above its start.
-    Open(usize),
-    /// An open class starting at or above [`OPEN_CLASS_END`]: its start (no donor).
-    OpenAtEnd,
-}
-
-/// One individual's age in one draw.
-#[derive(Debug, Clone, Copy, PartialEq)]
-pub struct Drawn {
-    /// The individual (row index).
-    pub i: usize,
+/// One draw's ages, in the plan's entry order (row order): each entry's age at death and
+/// its sex in the draw.
+#[derive(Debug, Clone, Default)]
+pub struct DrawnAges {
     /// Age at death drawn, years.
-    pub age: f64,
-    /// The value `extra` drew right after the age.
-    pub extra: f64,
-    /// The individual's sex in the draw (`true`: female), read once for the draw.
-    pub female: bool,
+    pub age: Vec<f64>,
+    /// Sex in the draw (`true`: female), read once for the draw.
+    pub female: Vec<bool>,
 }
 
-/// One draw's ages, in row order.
-pub type DrawnAges = Vec<Drawn>;
+impl DrawnAges {
+    /// (age, female) of every entry, in order.
+    pub fn iter(&self) -> impl Iterator<Item = (f64, bool)> + '_ {
+        self.age.iter().copied().zip(self.female.iter().copied())
+    }
+}
 
 impl AgePlan {
     /// The plan of `ages[i]` = (from, to) years, `to` infinite for an open class, `None`
     /// for no age (or not in the tables).
     pub fn new(ages: &[Option<(f64, f64)>]) -> AgePlan {
-        let mut starts: Vec<f64> = Vec::new();
-        let entries = ages
-            .iter()
-            .enumerate()
-            .filter_map(|(i, a)| {
-                let (lo, hi) = (*a)?;
-                if hi.is_finite() {
-                    return Some((i, lo, hi, Kind::Closed));
-                }
-                let end = OPEN_CLASS_END.max(lo);
-                if end <= lo {
-                    // An open class starting at or above the closing age: a point there.
-                    return Some((i, lo, end, Kind::OpenAtEnd));
-                }
-                let k = match starts.iter().position(|s| s.to_bits() == lo.to_bits()) {
+        let mut plan = AgePlan {
+            individual: Vec::new(),
+            lo: Vec::new(),
+            width: Vec::new(),
+            top: Vec::new(),
+            donor: Vec::new(),
+            open: Vec::new(),
+            starts: Vec::new(),
+        };
+        for (i, a) in ages.iter().enumerate() {
+            let Some((lo, hi)) = *a else { continue };
+            // An open class is drawn (when no donor exists) up to the closing age; one
+            // starting at or above it is a point there.
+            let end = if hi.is_finite() {
+                hi
+            } else {
+                OPEN_CLASS_END.max(lo)
+            };
+            if !hi.is_finite() && end > lo {
+                let k = match plan.starts.iter().position(|s| s.to_bits() == lo.to_bits()) {
                     Some(k) => k,
                     None => {
-                        starts.push(lo);
-                        starts.len() - 1
+                        plan.starts.push(lo);
+                        plan.starts.len() - 1
                     }
                 };
-                Some((i, lo, end, Kind::Open(k)))
-            })
-            .collect();
-        AgePlan { entries, starts }
+                plan.open.push((plan.individual.len(), k));
+            }
+            plan.individual.push(i);
+            plan.lo.push(lo);
+            plan.width.push(if end > lo { end - lo } else { 0.0 });
+            plan.top.push(if end > lo { next_below(end) } else { lo });
+            plan.donor.push(hi.is_finite());
+        }
+        plan
     }
 
     /// Individuals with an age.
     pub fn len(&self) -> usize {
-        self.entries.len()
-    }
-
-    /// For each entry, in the order of the drawn ages, the lowest and highest age a draw can
-    /// give it (`None` for an open class, whose age comes from a donor): a summary can find
-    /// once the class of an individual whose every possible age falls in one class.
-    pub fn ranges(&self) -> Vec<Option<(f64, f64)>> {
-        // The largest uniform number drawn: (2⁵³ − 1)/2⁵³ (53 random bits); the age is
-        // monotone in it, so this gives the highest age the draw can compute.
-        const LARGEST_UNIFORM: f64 = 1.0 - f64::EPSILON / 2.0;
-        self.entries
-            .iter()
-            .map(|&(_, lo, end, kind)| match kind {
-                Kind::Open(_) => None,
-                _ if end > lo => Some((lo, uniform_in(lo, end, LARGEST_UNIFORM))),
-                _ => Some((lo, lo)),
-            })
-            .collect()
+        self.individual.len()
     }
 
     /// Whether no individual has an age.
     pub fn is_empty(&self) -> bool {
-        self.entries.is_empty()
+        self.individual.is_empty()
     }
 
-    /// One draw's ages into `out` (cleared first): per individual in row order a uniform
-    /// number for its age, then `extra`; open classes then take their hot-deck donor's age
-    /// (module docs). `female(i)` is individual i's sex in the draw.
+    /// Each entry's individual (row index), in entry order.
+    pub fn individuals(&self) -> &[usize] {
+        &self.individual
+    }
+
+    /// One draw's ages into `out`: per entry in row order one uniform number u (a point
+    /// draws one too and keeps its age), the age lo + u·width kept below the interval's end;
+    /// open classes then take their hot-deck donor's age, chosen with their own u (module
+    /// docs). `female(i)` is individual i's sex in the draw.
     pub fn draw<R: Rng>(
         &self,
         female: &impl Fn(usize) -> bool,
         rng: &mut R,
-        extra: &mut impl FnMut(&mut R) -> f64,
         out: &mut DrawnAges,
         donors: &mut Donors,
     ) {
-        out.clear();
-        donors.open.clear();
-        for (k, &(i, lo, end, kind)) in self.entries.iter().enumerate() {
-            let u = if end > lo { rng.random::<f64>() } else { 0.0 };
-            let extra = extra(rng);
-            let age = if let Kind::Open(_) = kind {
-                donors.open.push((k, u));
-                f64::NAN
-            } else {
-                uniform_in(lo, end, u)
-            };
-            out.push(Drawn {
-                i,
-                age,
-                extra,
-                female: female(i),
-            });
+        out.age.clear();
+        out.female.clear();
+        donors.u.clear();
+        for ((&lo, &width), &top) in self.lo.iter().zip(&self.width).zip(&self.top) {
+            let u = rng.random::<f64>();
+            // A point: lo + u·0 = lo, and top = lo. No branch: points and intervals mix.
+            out.age.push((lo + u * width).min(top));
+            if !self.open.is_empty() {
+                donors.u.push(u);
+            }
         }
-        if donors.open.is_empty() {
+        out.female
+            .extend(self.individual.iter().map(|&i| female(i)));
+        if self.open.is_empty() {
             return;
         }
         // The donors of each (start, sex) in row order, made in one pass: open classes share
         // a few starts (50+, adult from 18), so the draw stays linear in the individuals.
+        let n = self.len();
         donors.lists.resize_with(2 * self.starts.len(), Vec::new);
         for l in &mut donors.lists {
             l.clear();
+            l.resize(n, 0.0);
         }
-        for (&(_, _, _, kind), d) in self.entries.iter().zip(out.iter()) {
-            if kind != Kind::Closed {
-                continue;
-            }
-            let sex = usize::from(d.female);
+        let mut lens = vec![0usize; donors.lists.len()];
+        for ((&age, &f), &donor) in out.age.iter().zip(&out.female).zip(&self.donor) {
+            let sex = usize::from(f);
             for (s, &start) in self.starts.iter().enumerate() {
-                if d.age >= start {
-                    donors.lists[2 * s + sex].push(d.age);
-                }
+                // Written in any case, counted only for a donor at or above the start: no
+                // branch on the drawn age.
+                let k = 2 * s + sex;
+                donors.lists[k][lens[k]] = age;
+                lens[k] += usize::from(donor & (age >= start));
             }
         }
-        for &(k, u) in &donors.open {
-            let (_, lo, end, kind) = self.entries[k];
-            let Kind::Open(s) = kind else { continue };
-            let list = &donors.lists[2 * s + usize::from(out[k].female)];
-            out[k].age = if list.is_empty() {
-                uniform_in(lo, end, u)
-            } else {
-                list[((u * list.len() as f64) as usize).min(list.len() - 1)]
-            };
+        // An open class without a donor keeps its uniform age up to the closing age.
+        for &(e, s) in &self.open {
+            let k = 2 * s + usize::from(out.female[e]);
+            if lens[k] > 0 {
+                let u = donors.u[e];
+                out.age[e] = donors.lists[k][((u * lens[k] as f64) as usize).min(lens[k] - 1)];
+            }
         }
     }
 }
 
-/// The age at uniform number `u` ∈ [0, 1) of the interval [lo, end): lo + u (end − lo), kept
-/// below `end` (rounding would otherwise give `end` itself, an age of the next class, for
-/// the few largest u), so that an interval recorded as 35–50 stays in the class 35–50 as
-/// the classes' half-open bounds have it; a point (`end` = `lo`) is `lo`.
-fn uniform_in(lo: f64, end: f64, u: f64) -> f64 {
-    if end > lo {
-        (lo + u * (end - lo)).min(next_below(end))
-    } else {
-        lo
-    }
+/// How many of `starts` (ascending) are at or below `age`, counted without a branch: with
+/// contiguous classes (each starting where the one before ends, as [`super::AgeClasses`]
+/// parses them) the starts after the first give an age's class, and all the starts give
+/// the class counted from 1 with 0 below the first.
+pub fn starts_reached(starts: &[f64], age: f64) -> usize {
+    starts.iter().map(|&s| usize::from(age >= s)).sum()
 }
 
 /// The largest double below a positive finite `x` (ages are not negative; `x` itself
@@ -195,35 +188,33 @@ fn next_below(x: f64) -> f64 {
     }
 }
 
-/// Working memory of [`AgePlan::draw`], kept from draw to draw: the open classes of the draw
-/// with their uniform numbers, and the donors' ages by (start, sex).
+/// Working memory of [`AgePlan::draw`], kept from draw to draw: every entry's uniform number
+/// (when some class is open) and the donors' ages by (start, sex).
 #[derive(Debug, Default)]
 pub struct Donors {
-    open: Vec<(usize, f64)>,
+    u: Vec<f64>,
     lists: Vec<Vec<f64>>,
 }
 
 /// `summarise(d, ages, rng)` for every joint draw d, in order, spread over threads: draw d's
 /// random stream is stream d of a ChaCha8 generator seeded with `seed` (the same numbers
-/// whatever the threads). `ages` holds draw d's ages (with `extra` after each) when a plan is
-/// given.
+/// whatever the threads), `ages` holding draw d's ages and the stream left where the ages
+/// ended.
 pub fn over_draws<T: Send>(
     n_draws: usize,
     seed: u64,
     plan: &AgePlan,
     female: &(impl Fn(usize, usize) -> bool + Sync),
-    extra: impl Fn(&mut ChaCha8Rng) -> f64 + Sync,
     summarise: impl Fn(usize, &DrawnAges, &mut ChaCha8Rng) -> T + Sync,
 ) -> Vec<T> {
     (0..n_draws)
         .into_par_iter()
         .map_init(
-            || (DrawnAges::with_capacity(plan.len()), Donors::default()),
+            || (DrawnAges::default(), Donors::default()),
             |(ages, donors), d| {
                 let mut rng = ChaCha8Rng::seed_from_u64(seed);
                 rng.set_stream(d as u64);
-                let mut extra = |r: &mut ChaCha8Rng| extra(r);
-                plan.draw(&|i| female(d, i), &mut rng, &mut extra, ages, donors);
+                plan.draw(&|i| female(d, i), &mut rng, ages, donors);
                 summarise(d, ages, &mut rng)
             },
         )

@@ -1,7 +1,7 @@
 //! Age at death by sex over joint draws of everyone's sex, and the condition columns read
 //! for prevalence by sex (see `prevalence`).
 
-use super::age_draws::{over_draws, AgePlan, Donors, DrawnAges};
+use super::age_draws::{over_draws, starts_reached, AgePlan, Donors, DrawnAges};
 use crate::assemblage::draws::SexRow;
 use crate::assemblage::Category;
 use crate::data::{AgeAtDeath, Assemblage, InputError, Problem, ProblemKind};
@@ -31,9 +31,6 @@ pub fn class_bounds(classes: &super::AgeClasses) -> Vec<(String, f64, f64)> {
         })
         .collect()
 }
-
-/// A class not known before the age is drawn.
-const UNFIXED: usize = usize::MAX;
 
 /// The index of the class holding `age` (the first class below its start, the last above).
 fn class_index(bounds: &[(String, f64, f64)], age: f64) -> usize {
@@ -69,26 +66,19 @@ pub fn open_interval(age: Option<AgeAtDeath>, adult_from: f64) -> Option<(f64, f
     recorded_age(age, adult_from).map(|(low, high)| (low, high.unwrap_or(f64::INFINITY)))
 }
 
-/// One joint draw's ages at death, each with a value `extra` draws right after it (the life
-/// tables' bootstrap weight), indexed by individual: [`AgePlan::draw`] for one draw, whose
-/// docs give the imputation of interval ages and open classes.
+/// One joint draw's ages at death, indexed by individual: [`AgePlan::draw`] for one draw,
+/// whose docs give the imputation of interval ages and open classes.
 pub fn draw_ages<R: rand::Rng>(
     ages: &[Option<(f64, f64)>],
     female: &[bool],
     rng: &mut R,
-    mut extra: impl FnMut(&mut R) -> f64,
-) -> Vec<Option<(f64, f64)>> {
-    let mut drawn = Vec::new();
-    AgePlan::new(ages).draw(
-        &|i| female[i],
-        rng,
-        &mut extra,
-        &mut drawn,
-        &mut Donors::default(),
-    );
+) -> Vec<Option<f64>> {
+    let plan = AgePlan::new(ages);
+    let mut drawn = DrawnAges::default();
+    plan.draw(&|i| female[i], rng, &mut drawn, &mut Donors::default());
     let mut out = vec![None; ages.len()];
-    for d in drawn {
-        out[d.i] = Some((d.age, d.extra));
+    for (&i, &age) in plan.individuals().iter().zip(&drawn.age) {
+        out[i] = Some(age);
     }
     out
 }
@@ -151,13 +141,12 @@ pub fn age_by_sex(
     seed: u64,
 ) -> AgeBySex {
     let plan = AgePlan::new(ages);
-    let tally = AgeTally::new(ages, classes, &plan);
+    let tally = AgeTally::new(ages, classes);
     let per_draw = over_draws(
         female.len(),
         seed ^ 0x5eed_a9e5,
         &plan,
         &|d, i| female[d].is_female(i),
-        |_| 0.0,
         |_, drawn, _| tally.part(drawn),
     );
     tally.finish(per_draw)
@@ -174,17 +163,16 @@ pub fn age_and_life_tables(
     life_classes: &super::AgeClasses,
     seed: u64,
 ) -> (AgeBySex, super::LifeTables) {
-    use super::life_table::{bootstrap_weight, LifeTally, LIFE_TABLE_SALT};
+    use super::life_table::{LifeTally, LIFE_TABLE_SALT};
     let plan = AgePlan::new(ages);
-    let age = AgeTally::new(ages, age_classes, &plan);
-    let life = LifeTally::new(ages, life_classes, &plan);
+    let age = AgeTally::new(ages, age_classes);
+    let life = LifeTally::new(ages, life_classes);
     let per_draw = over_draws(
         female.len(),
         seed ^ LIFE_TABLE_SALT,
         &plan,
         &|d, i| female[d].is_female(i),
-        bootstrap_weight,
-        |_, drawn, _| (age.part(drawn), life.part(drawn)),
+        |_, drawn, rng| (age.part(drawn), life.part(drawn, rng)),
     );
     let (age_parts, life_parts): (Vec<_>, Vec<_>) = per_draw.into_iter().unzip();
     (age.finish(age_parts), life.finish(life_parts))
@@ -197,52 +185,42 @@ type AgeDraw = (f64, usize, f64, usize, Vec<f64>, Vec<f64>);
 /// Age by sex's work on the draws: prepared once, a part per draw, the parts summarised.
 struct AgeTally {
     bounds: Vec<(String, f64, f64)>,
+    /// The starts of the classes after the first: an age's class is how many of them it
+    /// has reached ([`starts_reached`]).
+    later_starts: Vec<f64>,
     n_with_age: usize,
-    /// Per plan entry: its class where every possible age lies in one class, else
-    /// [`UNFIXED`].
-    fixed: Vec<usize>,
 }
 
 impl AgeTally {
-    fn new(ages: &[Option<(f64, f64)>], classes: &super::AgeClasses, plan: &AgePlan) -> AgeTally {
+    fn new(ages: &[Option<(f64, f64)>], classes: &super::AgeClasses) -> AgeTally {
         let bounds = class_bounds(classes);
-        let fixed = plan
-            .ranges()
-            .iter()
-            .map(|r| match r {
-                Some((lo, hi)) if class_index(&bounds, *lo) == class_index(&bounds, *hi) => {
-                    class_index(&bounds, *lo)
-                }
-                _ => UNFIXED,
-            })
-            .collect();
         AgeTally {
+            later_starts: bounds.iter().skip(1).map(|b| b.1).collect(),
             bounds,
             n_with_age: ages.iter().filter(|a| a.is_some()).count(),
-            fixed,
         }
     }
 
-    /// One draw's sums and counts (indexed by sex, female first, rather than branching on
-    /// it: the sexes of a draw are random, a branch on them mispredicted half the time).
+    /// One draw's sums and counts (indexed by sex, female first, and the class found by
+    /// counting, rather than branching: the sexes and ages of a draw are random, a branch
+    /// on them mispredicted often).
     fn part(&self, drawn: &DrawnAges) -> AgeDraw {
-        let bounds = &self.bounds;
+        let k = self.bounds.len();
         let mut sum = [0.0; 2];
-        let mut n = [0usize; 2];
-        let mut counts = [vec![0.0; bounds.len()], vec![0.0; bounds.len()]];
-        for (a, &k) in drawn.iter().zip(&self.fixed) {
-            let k = if k == UNFIXED {
-                class_index(bounds, a.age)
-            } else {
-                k
-            };
-            let s = usize::from(!a.female);
-            sum[s] += a.age;
-            n[s] += 1;
-            counts[s][k] += 1.0;
+        let mut counts = vec![0u32; 2 * k];
+        for (age, female) in drawn.iter() {
+            let s = usize::from(!female);
+            sum[s] += age;
+            counts[s * k + starts_reached(&self.later_starts, age)] += 1;
         }
-        let [cf, cm] = counts;
-        (sum[0], n[0], sum[1], n[1], cf, cm)
+        let n = |s: usize| counts[s * k..(s + 1) * k].iter().map(|&c| c as usize).sum();
+        let of = |s: usize| {
+            counts[s * k..(s + 1) * k]
+                .iter()
+                .map(|&c| f64::from(c))
+                .collect()
+        };
+        (sum[0], n(0), sum[1], n(1), of(0), of(1))
     }
 
     /// The table summarised over the draws' parts (in draw order).

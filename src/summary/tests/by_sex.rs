@@ -79,8 +79,8 @@ fn open_classes_take_known_older_ages_of_the_same_sex() {
     let mut rng = ChaCha8Rng::seed_from_u64(9);
     let mut from_donors = [0usize; 2];
     for _ in 0..400 {
-        let d = draw_ages(&ages, &female, &mut rng, |_| 0.0);
-        let a = |i: usize| d[i].unwrap().0;
+        let d = draw_ages(&ages, &female, &mut rng);
+        let a = |i: usize| d[i].unwrap();
         assert!(a(3) == 60.0 || a(3) == 70.0, "{}", a(3));
         assert!([60.0, 70.0, 30.0].contains(&a(4)), "{}", a(4));
         assert!((50.0..=80.0).contains(&a(5)));
@@ -92,12 +92,12 @@ fn open_classes_take_known_older_ages_of_the_same_sex() {
     assert_eq!(from_donors[1], 400);
 }
 
-/// The ranges a plan gives hold every age its draws give, reach the top of a closed interval
-/// to within rounding without passing it, and leave open classes to their donors; an age
+/// A drawn age stays within its recorded interval and below the interval's end (to within
+/// rounding of it), a point stays a point, open classes take their donors' ages, and an
 /// interval inside one class keeps its class whatever the draw.
 #[test]
 fn the_plan_bounds_every_drawn_age() {
-    use super::super::age_draws::{AgePlan, Donors};
+    use super::super::age_draws::{AgePlan, Donors, DrawnAges};
     let ages = [
         Some((35.0, 50.0)),
         Some((40.0, 40.0)),
@@ -106,29 +106,52 @@ fn the_plan_bounds_every_drawn_age() {
         Some((18.0, 25.0)),
     ];
     let plan = AgePlan::new(&ages);
-    let ranges = plan.ranges();
-    assert_eq!(ranges.len(), 4);
-    let (lo, hi) = ranges[0].unwrap();
-    assert!(lo == 35.0 && hi < 50.0 && hi > 50.0 - 1e-13, "{hi}");
-    assert_eq!(ranges[1], Some((40.0, 40.0)));
-    assert_eq!(ranges[2], None);
+    assert_eq!(plan.individuals(), &[0, 1, 2, 4]);
     let classes = super::super::AgeClasses::parse(DEFAULT_AGE_CLASSES).unwrap();
     let bounds = class_bounds(&classes);
-    assert_eq!(class_index(&bounds, lo), class_index(&bounds, hi));
     let mut rng = ChaCha8Rng::seed_from_u64(5);
-    let (mut out, mut donors) = (Vec::new(), Donors::default());
+    let (mut out, mut donors) = (DrawnAges::default(), Donors::default());
+    let mut highest: f64 = 0.0;
     for _ in 0..2000 {
-        plan.draw(
-            &|i| i % 2 == 0,
-            &mut rng,
-            &mut |_| 0.0,
-            &mut out,
-            &mut donors,
-        );
-        for (d, r) in out.iter().zip(&ranges) {
-            if let Some((lo, hi)) = r {
-                assert!(d.age >= *lo && d.age <= *hi, "{} outside {lo}..{hi}", d.age);
-            }
-        }
+        plan.draw(&|i| i % 2 == 0, &mut rng, &mut out, &mut donors);
+        let a = &out.age;
+        assert!((35.0..50.0).contains(&a[0]), "{}", a[0]);
+        assert_eq!(class_index(&bounds, a[0]), 3);
+        assert_eq!(a[1], 40.0);
+        // The only female donor at or above 50 is none: entry 0 (35-50) is below; so the
+        // open class keeps its own uniform age from 50 to the closing age.
+        assert!((50.0..OPEN_CLASS_END).contains(&a[2]), "{}", a[2]);
+        assert!((18.0..25.0).contains(&a[3]));
+        highest = highest.max(a[0]);
+    }
+    assert!(highest > 49.9, "{highest}");
+    // The largest uniform number a generator can give: 35 + u·15 rounds to 50 itself, an
+    // age of the next class; the draw keeps it below.
+    let u = (1.0 - f64::EPSILON / 2.0) * 15.0_f64;
+    assert_eq!(35.0 + u, 50.0, "the case the bound is for");
+    plan.draw(&|_| true, &mut Largest, &mut out, &mut donors);
+    assert!(
+        out.age[0] < 50.0 && out.age[0] > 50.0 - 1e-13,
+        "{}",
+        out.age[0]
+    );
+    assert_eq!(class_index(&bounds, out.age[0]), 3);
+    assert!(out.age[3] < 25.0);
+}
+
+/// A generator giving only its largest numbers (every bit set).
+struct Largest;
+
+impl rand::TryRng for Largest {
+    type Error = std::convert::Infallible;
+    fn try_next_u32(&mut self) -> Result<u32, Self::Error> {
+        Ok(u32::MAX)
+    }
+    fn try_next_u64(&mut self) -> Result<u64, Self::Error> {
+        Ok(u64::MAX)
+    }
+    fn try_fill_bytes(&mut self, dst: &mut [u8]) -> Result<(), Self::Error> {
+        dst.fill(u8::MAX);
+        Ok(())
     }
 }

@@ -1,7 +1,7 @@
 //! Unit tests of `summary/life_table.rs`.
 
 use super::*;
-use rand::SeedableRng;
+use rand::{RngExt, SeedableRng};
 use rand_chacha::ChaCha8Rng;
 
 fn classes() -> AgeClasses {
@@ -224,5 +224,40 @@ fn population_intervals_cover_the_generating_table_in_2000_cemeteries() {
     eprintln!("coverage of e18, q25-35, e35-50 (females): {cov:?}");
     for c in cov {
         assert!((0.90..=0.99).contains(&c), "coverage {cov:?}");
+    }
+}
+
+#[test]
+fn a_cells_bootstrap_weight_is_the_sum_of_its_deaths_exponential_weights() {
+    // Closed form: a sum of n independent Exp(1) is Gamma(n, 1). The cell's weight is drawn
+    // as that Gamma; its empirical distribution is checked against the Gamma CDF (statrs)
+    // and against sums of n exponentials drawn one by one, at a few points, each within 4.5
+    // standard errors of a proportion over 20000 draws.
+    use statrs::distribution::{ContinuousCDF, Gamma};
+    let mut rng = ChaCha8Rng::seed_from_u64(11);
+    assert_eq!(bootstrap_deaths(0.0, &mut rng), 0.0);
+    let draws = 20_000;
+    for n in [1.0, 3.0, 40.0] {
+        let cells: Vec<f64> = (0..draws).map(|_| bootstrap_deaths(n, &mut rng)).collect();
+        let sums: Vec<f64> = (0..draws)
+            .map(|_| {
+                (0..n as usize)
+                    .map(|_| -(1.0 - rng.random::<f64>()).ln())
+                    .sum()
+            })
+            .collect();
+        let gamma = Gamma::new(n, 1.0).unwrap();
+        for q in [0.1, 0.5, 0.9] {
+            let x = gamma.inverse_cdf(q);
+            let share = |v: &[f64]| v.iter().filter(|&&w| w <= x).count() as f64 / draws as f64;
+            let se = (q * (1.0 - q) / draws as f64).sqrt();
+            for v in [&cells, &sums] {
+                assert!(
+                    (share(v) - q).abs() < 4.5 * se,
+                    "n {n}, quantile {q}: {} against {q}",
+                    share(v)
+                );
+            }
+        }
     }
 }
