@@ -57,6 +57,14 @@ impl SexDraw {
     }
 }
 
+impl SexDraw {
+    /// A draw from its words: individual i is bit i % 64 of word i / 64 (bits past `len`
+    /// clear).
+    fn from_words(bits: Vec<u64>, len: usize) -> SexDraw {
+        SexDraw { bits, len }
+    }
+}
+
 impl FromIterator<bool> for SexDraw {
     fn from_iter<I: IntoIterator<Item = bool>>(it: I) -> SexDraw {
         let mut d = SexDraw::default();
@@ -144,11 +152,14 @@ impl Draws {
         let flat_w: Vec<f64> = hier
             .map(|h| h.w.iter().flatten().copied().collect())
             .unwrap_or_default();
-        // LR of each individual where it is moderate (|ln LR| ≤ 40); the logistic form beyond.
-        let lr: Vec<Option<f64>> = ln_lrs
+        // LR of each individual where it is moderate (|ln LR| ≤ 40); NaN marks the logistic
+        // form beyond.
+        let lr: Vec<f64> = ln_lrs
             .iter()
-            .map(|&l| (l.abs() <= 40.0).then(|| l.exp()))
+            .map(|&l| if l.abs() <= 40.0 { l.exp() } else { f64::NAN })
             .collect();
+        let no_groups = vec![0usize; if hier.is_some() { 0 } else { ln_lrs.len() }];
+        let membership: &[usize] = hier.map_or(&no_groups, |h| &h.membership);
         let one = |draw: usize| {
             let mut rng = ChaCha8Rng::seed_from_u64(seed ^ SEX_DRAW_SALT);
             rng.set_stream(draw as u64);
@@ -183,23 +194,29 @@ impl Draws {
                     (mu, Some(kappa), pis)
                 }
             };
-            let sexes: SexDraw = ln_lrs
-                .iter()
-                .zip(&lr)
-                .enumerate()
-                .map(|(i, (&l, &e))| {
-                    let g = hier.map(|h| h.membership[i]).unwrap_or(0);
-                    let p = match e {
-                        // π LR / (π LR + 1 − π), both terms positive: no logarithm per draw.
-                        Some(e) => {
-                            let f = pis[g] * e;
-                            f / (f + (1.0 - pis[g]))
-                        }
-                        None => p_female_given(pis[g], l),
+            // π LR < u (π LR + 1 − π), both terms positive: P(F) = π LR / (π LR + 1 − π)
+            // with no logarithm and no division per individual; 64 sexes to a word.
+            let not_pi: Vec<f64> = pis.iter().map(|p| 1.0 - p).collect();
+            let mut words = vec![0u64; ln_lrs.len().div_ceil(64)];
+            for (c, word) in words.iter_mut().enumerate() {
+                let at = c * 64..(c * 64 + 64).min(ln_lrs.len());
+                for (j, ((&l, &e), &g)) in ln_lrs[at.clone()]
+                    .iter()
+                    .zip(&lr[at.clone()])
+                    .zip(&membership[at])
+                    .enumerate()
+                {
+                    let u = rng.random::<f64>();
+                    let female = if e.is_nan() {
+                        u < p_female_given(pis[g], l)
+                    } else {
+                        let f = pis[g] * e;
+                        u * (f + not_pi[g]) < f
                     };
-                    rng.random::<f64>() < p
-                })
-                .collect();
+                    *word |= u64::from(female) << j;
+                }
+            }
+            let sexes = SexDraw::from_words(words, ln_lrs.len());
             (mu, kappa, pis, sexes)
         };
         let rows: Vec<(f64, Option<f64>, Vec<f64>, SexDraw)> =
