@@ -154,40 +154,41 @@ pub fn render_files(
 /// Rows of a long table per piece handed on (a choice of ours: a few MB of text).
 const ROWS_PER_PIECE: usize = 50_000;
 
-/// A long table's text, handed to `emit` in pieces of [`ROWS_PER_PIECE`] rows: the pieces
-/// joined are the bytes [`CsvText`] would give for the whole table.
-struct Pieces<'a> {
-    text: CsvText,
-    rows: usize,
-    emit: &'a mut dyn FnMut(Vec<u8>) -> Result<(), crate::Error>,
-}
-
-impl<'a> Pieces<'a> {
-    fn new(emit: &'a mut dyn FnMut(Vec<u8>) -> Result<(), crate::Error>) -> Self {
-        Pieces {
-            text: CsvText::default(),
-            rows: 0,
-            emit,
+/// A long table's text: the header, then `rows_of(i, text)` for every unit i in order (an
+/// individual, giving `rows_per_unit` rows), handed to `emit` in pieces of about
+/// [`ROWS_PER_PIECE`] rows. The pieces are made in parallel, as many at a time as there are
+/// threads, and handed on in order: the pieces joined are the bytes one [`CsvText`] would
+/// give for the whole table, and no more than a batch of pieces is held at once.
+fn long_table(
+    head: &[String],
+    units: usize,
+    rows_per_unit: usize,
+    rows_of: &(dyn Fn(usize, &mut CsvText) + Sync),
+    emit: &mut dyn FnMut(Vec<u8>) -> Result<(), crate::Error>,
+) -> Result<(), crate::Error> {
+    use rayon::prelude::*;
+    let per_piece = (ROWS_PER_PIECE / rows_per_unit.max(1)).max(1);
+    let pieces: Vec<std::ops::Range<usize>> = (0..units.div_ceil(per_piece).max(1))
+        .map(|k| k * per_piece..((k + 1) * per_piece).min(units))
+        .collect();
+    let piece = |range: &std::ops::Range<usize>| {
+        // Row numbers in an error count from the table's first row.
+        let mut text = CsvText::from_row(1 + range.start * rows_per_unit);
+        if range.start == 0 {
+            text.row(head);
+        }
+        for i in range.clone() {
+            rows_of(i, &mut text);
+        }
+        text.finish()
+    };
+    for batch in pieces.chunks(rayon::current_num_threads().max(1)) {
+        let made: Vec<Result<Vec<u8>, RenderError>> = batch.par_iter().map(piece).collect();
+        for bytes in made {
+            emit(bytes?)?;
         }
     }
-
-    fn row<I, T>(&mut self, cells: I) -> Result<(), crate::Error>
-    where
-        I: IntoIterator<Item = T>,
-        T: AsRef<[u8]>,
-    {
-        self.text.row(cells);
-        self.rows += 1;
-        if self.rows >= ROWS_PER_PIECE {
-            self.rows = 0;
-            (self.emit)(std::mem::take(&mut self.text).finish()?)?;
-        }
-        Ok(())
-    }
-
-    fn finish(self) -> Result<(), crate::Error> {
-        (self.emit)(self.text.finish()?)
-    }
+    Ok(())
 }
 
 /// `individuals.csv`: one row per individual (the columns are listed in the module's doc),
@@ -237,14 +238,13 @@ fn individuals_csv(
         .filter_map(|w| w.row)
         .collect();
     // Written row by row: a million individuals' rows held as strings took 1.4 GB.
-    let mut text = Pieces::new(emit);
-    text.row(&head)?;
     let digits = super::number::probability_decimals;
     let main_digits = digits(main.hyper.is_some());
     let any_digits = digits(analysis.results().any(|r| r.hyper.is_some()));
     let prob = |p: f64| super::number::probability_to(p, main_digits);
     let prob_any = |p: f64| super::number::probability_to(p, any_digits);
-    for (i, (ind, ev)) in a.individuals.iter().zip(evidence).enumerate() {
+    let row = |i: usize, text: &mut CsvText| {
+        let (ind, ev) = (&a.individuals[i], &evidence[i]);
         let s = &analysis.individual_sensitivity[i];
         let est = ev.estimable;
         let equal = est.then(|| p_female_given(0.5, ev.ln_lr));
@@ -324,9 +324,9 @@ fn individuals_csv(
             });
         }
         r.extend(ind.carried.iter().cloned());
-        text.row(&r)?;
-    }
-    text.finish()
+        text.row(&r);
+    };
+    long_table(&head, a.individuals.len(), 1, &row, emit)
 }
 
 /// `assemblage.csv`: one row per prior and model, the chosen prior first. Every row
@@ -448,9 +448,8 @@ fn sensitivity_csv(
     emit: &mut dyn FnMut(Vec<u8>) -> Result<(), crate::Error>,
 ) -> Result<(), crate::Error> {
     let all: Vec<&PriorResult> = r.results.results().collect();
-    let mut text = Pieces::new(emit);
-    text.row(["id", "prior", "p_female", "category"])?;
-    for (i, ind) in r.assemblage.individuals.iter().enumerate() {
+    let individuals = &r.assemblage.individuals;
+    let row = |i: usize, text: &mut CsvText| {
         for x in &all {
             let p = x.p_female[i]
                 .map(|p| {
@@ -461,14 +460,15 @@ fn sensitivity_csv(
                 })
                 .unwrap_or_default();
             text.row([
-                ind.id.as_str(),
+                individuals[i].id.as_str(),
                 x.prior.name.as_str(),
                 p.as_str(),
                 x.categories[i].as_str(),
-            ])?;
+            ]);
         }
-    }
-    text.finish()
+    };
+    let head = header(&["id", "prior", "p_female", "category"]);
+    long_table(&head, individuals.len(), all.len(), &row, emit)
 }
 
 /// `run.json`: the run's provenance, priors and cut-offs (no clock time).

@@ -77,6 +77,15 @@ impl Default for CsvText {
 }
 
 impl CsvText {
+    /// A piece of a longer table whose first row here is the table's row `first` (counted
+    /// from 1): row numbers in an error count from there.
+    pub fn from_row(first: usize) -> Self {
+        CsvText {
+            rows: first.saturating_sub(1),
+            ..CsvText::default()
+        }
+    }
+
     /// Append one row (every row must have the header's width).
     pub fn row<I, T>(&mut self, cells: I)
     where
