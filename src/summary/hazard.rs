@@ -424,24 +424,34 @@ fn intervals(ages: &[Option<RecordedAge>], start: f64) -> (Vec<RecordedAge>, Vec
     (distinct, of)
 }
 
-/// The ages of one sex in one draw, grouped: each distinct interval with its count.
+/// The ages of each sex in one draw (female first), grouped: each distinct interval with its
+/// count. `with_age` lists (individual, its interval among `distinct`) for those with one;
+/// `female(i)` is individual i's sex in the draw. One pass, counted by sex without a branch.
 fn counted(
     distinct: &[RecordedAge],
-    of: &[Option<usize>],
-    sexes: &[bool],
-    female: bool,
-) -> Grouped {
-    let mut n = vec![0.0; distinct.len()];
-    for (k, &s) in of.iter().zip(sexes) {
-        if let (Some(k), true) = (k, s == female) {
-            n[*k] += 1.0;
-        }
+    with_age: &[(usize, usize)],
+    female: impl Fn(usize) -> bool,
+) -> [Grouped; 2] {
+    let mut n = [vec![0u32; distinct.len()], vec![0u32; distinct.len()]];
+    for &(i, k) in with_age {
+        n[usize::from(!female(i))][k] += 1;
     }
-    distinct
-        .iter()
-        .zip(n)
-        .filter(|(_, n)| *n > 0.0)
-        .map(|(&(a, b), n)| (a, b, n))
+    n.map(|n| {
+        distinct
+            .iter()
+            .zip(n)
+            .filter(|(_, n)| *n > 0)
+            .map(|(&(a, b), n)| (a, b, f64::from(n)))
+            .collect()
+    })
+}
+
+/// (individual, its interval) for every individual whose age is among the distinct
+/// intervals, in row order.
+fn with_age(of: &[Option<usize>]) -> Vec<(usize, usize)> {
+    of.iter()
+        .enumerate()
+        .filter_map(|(i, k)| Some((i, (*k)?)))
         .collect()
 }
 
@@ -449,7 +459,12 @@ fn counted(
 #[cfg(test)]
 fn grouped(ages: &[Option<RecordedAge>], sexes: &[bool], female: bool, start: f64) -> Grouped {
     let (distinct, of) = intervals(ages, start);
-    counted(&distinct, &of, sexes, female)
+    let [f, m] = counted(&distinct, &with_age(&of), |i| sexes[i]);
+    if female {
+        f
+    } else {
+        m
+    }
 }
 
 /// Mortality by sex over the draws (module docs). `ages[i]` is individual i's age as recorded
@@ -474,6 +489,7 @@ pub fn hazards_by_sex<S: SexRow + Sync>(
     let mut lambdas = [Vec::new(), Vec::new()];
     let mut statistics = [Vec::new(), Vec::new()];
     let (distinct, of) = intervals(ages, start);
+    let listed = with_age(&of);
     // Each draw's data and Gompertz fits depend on that draw alone: made in parallel. The
     // Makeham term is tried on the first `makeham_draws` draws whose fits succeeded (in
     // parallel too); the draws near each fit take the one seeded stream in draw order, so the
@@ -482,9 +498,8 @@ pub fn hazards_by_sex<S: SexRow + Sync>(
     type Fitted = ([Vec<(f64, Option<f64>, f64)>; 2], Option<(Fit, Fit)>);
     let fitted_draws: Vec<Fitted> = used
         .par_iter()
-        .map_init(Vec::new, |row, draw| {
-            draw.unpack_into(row);
-            let data = [true, false].map(|f| counted(&distinct, &of, row, f));
+        .map(|draw| {
+            let data = counted(&distinct, &listed, |i| draw.is_female(i));
             let fits = match (fit(&data[0]), fit(&data[1])) {
                 (Some(ff), Some(fm)) => Some((ff, fm)),
                 _ => None,
