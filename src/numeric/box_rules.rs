@@ -15,6 +15,8 @@
 //! Both integrands are log-concave (Prékopa 1973: a log-concave density integrated over a
 //! convex set, as a function of a shift), which the integration relies on.
 
+pub mod fixed_nodes;
+
 use super::log_concave::ln_integral_log_concave;
 use super::mvn::{bvn_rectangle, LnProbability};
 use super::normal::{ln_interval, LN_SQRT_2PI};
@@ -25,7 +27,7 @@ pub const REL_TOL: f64 = 1e-10;
 
 /// Largest departure of a correlation from λᵢλⱼ for a covariance to count as one-factor (the
 /// decimals of a model file, such as 0.35, reproduce themselves to about 1e-16).
-const ONE_FACTOR_TOL: f64 = 1e-12;
+pub(crate) const ONE_FACTOR_TOL: f64 = 1e-12;
 
 /// Absolute accuracy of [`bvn_rectangle`] (four terms of about 1e-15 each, Genz 2004), taken
 /// with a margin.

@@ -3,6 +3,7 @@
 //! ([`super::box_rules`]: a one-factor covariance in any dimension, any covariance in three),
 //! otherwise Genz's separation of variables with randomised quasi-Monte Carlo.
 
+use super::box_rules::fixed_nodes::ln_box_one_factor_on_nodes;
 use super::box_rules::{ln_box_one_factor, ln_box_trivariate, OneFactor};
 use super::normal::{cdf, inverse_cdf_fast, ln_interval, pdf};
 use nalgebra::DMatrix;
@@ -226,7 +227,9 @@ pub enum MvnError {
 ///
 /// One dimension: exact through [`ln_interval`]. Two: exact through [`bvn_rectangle`].
 /// Three and more: a covariance of one-factor form (every off-diagonal entry λᵢλⱼ, as in an
-/// equicorrelated block) by [`ln_box_one_factor`]; otherwise, in three dimensions, by
+/// equicorrelated block) on fixed nodes shared by all boxes
+/// ([`ln_box_one_factor_on_nodes`]) where they meet the tolerance, else by
+/// [`ln_box_one_factor`]; otherwise, in three dimensions, by
 /// [`ln_box_trivariate`]; both deterministic to a relative error of about 1e-10. Where neither
 /// applies (or the three-dimensional rule would lose accuracy): [`genz_sov`] with the given
 /// seed. The error estimate of whichever routine travels with the result.
@@ -285,8 +288,13 @@ pub fn ln_box_probability(
             })
         }
         _ => {
-            if let Some(p) = OneFactor::of(cov).and_then(|f| ln_box_one_factor(lower, upper, &f)) {
-                return Ok(p);
+            if let Some(f) = OneFactor::of(cov) {
+                // The fixed nodes first (fast, where they meet the tolerance), else adaptively.
+                if let Some(p) = ln_box_one_factor_on_nodes(lower, upper, &f)
+                    .or_else(|| ln_box_one_factor(lower, upper, &f))
+                {
+                    return Ok(p);
+                }
             }
             if let Some(p) = (n == 3)
                 .then(|| ln_box_trivariate(lower, upper, cov))

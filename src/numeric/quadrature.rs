@@ -61,17 +61,25 @@ pub const GK15: [(f64, f64, f64); 8] = [
 /// never taken below 50 ε ∫|f| (rounding).
 pub fn gauss_kronrod_15(f: &mut impl FnMut(f64) -> f64, lo: f64, hi: f64) -> (f64, f64) {
     let (c, h) = (0.5 * (lo + hi), 0.5 * (hi - lo));
-    let (mut kronrod, mut gauss) = (0.0, 0.0);
     let mut values = [(0.0, 0.0); 8];
-    for (v, &(x, wk, wg)) in values.iter_mut().zip(&GK15) {
-        let y = if x == 0.0 {
+    for (v, &(x, _, _)) in values.iter_mut().zip(&GK15) {
+        *v = if x == 0.0 {
             (f(c), 0.0)
         } else {
             (f(c - h * x), f(c + h * x))
         };
-        kronrod += wk * (y.0 + y.1);
-        gauss += wg * (y.0 + y.1);
-        *v = y;
+    }
+    kronrod_15_of(&values, h)
+}
+
+/// [`gauss_kronrod_15`] on values already taken: `values[m]` = (f(c − h xₘ), f(c + h xₘ))
+/// at the nodes xₘ of [`GK15`] (the centre's second entry unused), `h` the half-width.
+pub fn kronrod_15_of(values: &[(f64, f64); 8], h: f64) -> (f64, f64) {
+    let (mut kronrod, mut gauss) = (0.0, 0.0);
+    for (y, &(x, wk, wg)) in values.iter().zip(&GK15) {
+        let sum = if x == 0.0 { y.0 } else { y.0 + y.1 };
+        kronrod += wk * sum;
+        gauss += wg * sum;
     }
     let mean = 0.5 * kronrod;
     let spread: f64 = values
@@ -96,7 +104,13 @@ pub fn gauss_kronrod_15(f: &mut impl FnMut(f64) -> f64, lo: f64, hi: f64) -> (f6
     let magnitude: f64 = values
         .iter()
         .zip(&GK15)
-        .map(|(&(y0, y1), &(_, wk, _))| wk * (y0.abs() + y1.abs()))
+        .map(|(&(y0, y1), &(x, wk, _))| {
+            if x == 0.0 {
+                wk * y0.abs()
+            } else {
+                wk * (y0.abs() + y1.abs())
+            }
+        })
         .sum::<f64>()
         * h.abs();
     (h * kronrod, error.max(50.0 * f64::EPSILON * magnitude))

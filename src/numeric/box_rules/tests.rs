@@ -88,3 +88,57 @@ fn an_empty_box_is_left_to_the_caller() {
     let f = OneFactor::of(&cov).unwrap();
     assert!(ln_box_one_factor(&[0.0, 1.0, 0.0], &[1.0, 1.0, 1.0], &f).is_none());
 }
+
+/// Every box of grades a five-trait block at ρ = 0.35 and a four-trait block at ρ = 0.45 can
+/// give (thresholds of the shipped model, each trait's grade or a range of two grades, means
+/// ±0.9 for either sex), with some traits missing: the fixed nodes take each one (no fall-back)
+/// and agree with the adaptive rule within the two rules' stated tolerances.
+#[test]
+fn the_fixed_nodes_agree_with_the_adaptive_rule_on_the_blocks_grades() {
+    use super::fixed_nodes::ln_box_one_factor_on_nodes;
+    use rand::{RngExt, SeedableRng};
+    let inf = f64::INFINITY;
+    let cuts = [-inf, -1.3, -0.45, 0.45, 1.3, inf];
+    let mut rng = rand_chacha::ChaCha8Rng::seed_from_u64(17);
+    let mut taken = 0;
+    for (n, rho) in [(5, 0.35), (4, 0.45), (3, 0.35)] {
+        let f = OneFactor::of(&equicorrelated(n, rho)).unwrap();
+        for _ in 0..300 {
+            let mean = if rng.random::<bool>() { 0.9 } else { -0.9 };
+            let (mut a, mut b) = (Vec::new(), Vec::new());
+            for _ in 0..n {
+                let g = rng.random_range(0..5usize);
+                let top = (g + 1 + usize::from(rng.random::<f64>() < 0.2)).min(5);
+                a.push(cuts[g] - mean);
+                b.push(cuts[top] - mean);
+            }
+            let fixed = ln_box_one_factor_on_nodes(&a, &b, &f)
+                .unwrap_or_else(|| panic!("fell back on {a:?} {b:?}"));
+            let adaptive = ln_box_one_factor(&a, &b, &f).unwrap();
+            assert!(
+                (fixed.ln_p - adaptive.ln_p).abs() < 3e-10,
+                "{a:?} {b:?}: {fixed:?} vs {adaptive:?}"
+            );
+            assert!(fixed.error < 1e-9);
+            taken += 1;
+        }
+    }
+    assert_eq!(taken, 900);
+}
+
+/// Where the integrand is too narrow for the fixed panels (twelve traits correlated 0.98)
+/// or lies beyond their reach (a box far in the tail), the fixed nodes decline and the
+/// adaptive rule answers.
+#[test]
+fn the_fixed_nodes_decline_what_they_cannot_resolve() {
+    use super::fixed_nodes::ln_box_one_factor_on_nodes;
+    let inf = f64::INFINITY;
+    let f = OneFactor::of(&equicorrelated(12, 0.98)).unwrap();
+    let (a, b) = (vec![-0.1; 12], vec![0.1; 12]);
+    assert!(ln_box_one_factor_on_nodes(&a, &b, &f).is_none());
+    assert!(ln_box_one_factor(&a, &b, &f).is_some());
+    let f = OneFactor::of(&equicorrelated(3, 0.5)).unwrap();
+    let (a, b) = (vec![9.0; 3], vec![inf; 3]);
+    assert!(ln_box_one_factor_on_nodes(&a, &b, &f).is_none());
+    assert!(ln_box_one_factor(&a, &b, &f).is_some());
+}
