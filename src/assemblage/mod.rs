@@ -317,18 +317,53 @@ pub fn analyse(
     // The data terms of π's posterior and the groups' likelihood grids do not depend on the
     // prior: prepared once for all.
     let prepared = Prepared::new(evidence, groups);
-    let (main, fitted) = under_prior_on(evidence, &prepared, prior, thresholds);
-    // Priors are independent: computed in parallel, collected in the set's order, so the
-    // result does not depend on the number of threads.
-    let (sensitivity, posteriors): (Vec<PriorResult>, Vec<PiPosterior>) = {
+    // Priors are independent: computed in parallel, the chosen prior with the set (so that
+    // no thread waits while it is computed alone), collected in order, so the result does not
+    // depend on the number of threads. A prior of the set that is the chosen prior itself
+    // (the same text) is computed once: its result is the chosen prior's.
+    let is_main = |p: &Prior| p == prior;
+    let jobs: Vec<&Prior> = std::iter::once(prior)
+        .chain(set.iter().filter(|p| !is_main(p)))
+        .collect();
+    type Done = (PriorResult, Option<PosteriorFit>, Option<PiPosterior>);
+    let done: Vec<Done> = {
         use rayon::prelude::*;
-        set.par_iter()
-            .map(|p| {
+        jobs.par_iter()
+            .enumerate()
+            .map(|(k, p)| {
                 let (r, f) = under_prior_on(evidence, &prepared, p, thresholds);
-                (r, f.posterior)
+                // Only the chosen prior's whole fit is kept (the draws come from it); the
+                // others keep their posterior of π.
+                if k == 0 {
+                    (r, Some(f), None)
+                } else {
+                    (r, None, Some(f.posterior))
+                }
             })
-            .unzip()
+            .collect()
     };
+    // Each job's result in order (the fall-backs recompute, and are never taken: one job per
+    // prior, the chosen prior first).
+    let mut done = done.into_iter();
+    let (main, fitted) = match done.next() {
+        Some((r, Some(f), _)) => (r, f),
+        _ => under_prior_on(evidence, &prepared, prior, thresholds),
+    };
+    let (sensitivity, posteriors): (Vec<PriorResult>, Vec<PiPosterior>) = set
+        .iter()
+        .map(|p| {
+            if is_main(p) {
+                return (main.clone(), fitted.posterior.clone());
+            }
+            match done.next() {
+                Some((r, _, Some(post))) => (r, post),
+                _ => {
+                    let (r, f) = under_prior_on(evidence, &prepared, p, thresholds);
+                    (r, f.posterior)
+                }
+            }
+        })
+        .unzip();
     let individual_sensitivity = (0..evidence.len())
         .map(|i| {
             let all = std::iter::once(&main).chain(&sensitivity);
