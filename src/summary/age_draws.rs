@@ -144,9 +144,12 @@ impl AgePlan {
         // a few starts (50+, adult from 18), so the draw stays linear in the individuals.
         let n = self.len();
         donors.lists.resize_with(2 * self.starts.len(), Vec::new);
+        // Room for every entry, kept from draw to draw: a list is read only below the length
+        // this draw counts, all of it written in this draw.
         for l in &mut donors.lists {
-            l.clear();
-            l.resize(n, 0.0);
+            if l.len() < n {
+                l.resize(n, 0.0);
+            }
         }
         let mut lens = vec![0usize; donors.lists.len()];
         for ((&age, &f), &donor) in out.age.iter().zip(&out.female).zip(&self.donor) {
